@@ -1,0 +1,31 @@
+# Visitline build. `make demo` solves the embedded example; `make test` runs every test.
+GO ?= go
+BENCH_DIR ?= ../shared/benchmarks/tsptw
+BENCH_BUDGET ?= 5s
+
+.PHONY: all build test bench demo vet fmt site clean
+
+all: build
+
+build:
+	$(GO) build -o bin/visitline ./cmd/visitline
+
+test:
+	$(GO) vet ./...
+	$(GO) test -count=1 ./...
+
+bench: build
+	$(GO) test -run '^$$' -bench . -benchtime 3x ./solver/...
+	./bin/visitline bench --budget $(BENCH_BUDGET) --bounds $(BENCH_DIR)/best-known.csv --json bench-results.json --readme README.md $(BENCH_DIR)
+
+demo: build
+	./bin/visitline solve --budget 3s examples/warehouse/picks.txt
+
+vet:
+	$(GO) vet ./...
+
+fmt:
+	gofmt -w $$(git ls-files '*.go')
+
+clean:
+	rm -rf bin dist

@@ -1,0 +1,337 @@
+package main
+
+import (
+	"context"
+	"encoding/csv"
+	"encoding/json"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"runtime"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+
+	"visitline/solver"
+)
+
+type benchRow struct {
+	Family        string  `json:"family"`
+	Instance      string  `json:"instance"`
+	Nodes         int     `json:"nodes"`
+	Seed          int64   `json:"seed"`
+	BestKnown     float64 `json:"best_known,omitempty"`
+	HasBest       bool    `json:"has_best_known"`
+	Found         float64 `json:"found"`
+	Feasible      bool    `json:"feasible"`
+	Checked       bool    `json:"checked"`
+	GapPct        float64 `json:"gap_pct"`
+	AtBest        bool    `json:"at_best_known"`
+	SecondsToBest float64 `json:"seconds_to_best"`
+	Seconds       float64 `json:"seconds"`
+	Iterations    int     `json:"iterations"`
+	// Trace is (seconds, cost) of every improvement, for the chart.
+	Trace [][2]float64 `json:"trace,omitempty"`
+}
+
+type familySummary struct {
+	Family        string  `json:"family"`
+	Runs          int     `json:"runs"`
+	Feasible      int     `json:"feasible"`
+	AtBest        int     `json:"at_best_known"`
+	MeanGapPct    float64 `json:"mean_gap_pct"`
+	MaxGapPct     float64 `json:"max_gap_pct"`
+	MedianToBest  float64 `json:"median_seconds_to_best"`
+	MeanIterRate  float64 `json:"iterations_per_second"`
+	WithBestKnown int     `json:"with_best_known"`
+}
+
+type bestKnown struct{ value float64 }
+
+func runBench(args []string, stdout, stderr io.Writer) error {
+	fs := flag.NewFlagSet("bench", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	budget := fs.Duration("budget", 5*time.Second, "time budget per instance and seed")
+	iterations := fs.Int("iterations", 0, "iteration budget per run (0: none)")
+	seeds := fs.Int("seeds", 1, "seeds per instance (1, 2, ...)")
+	bounds := fs.String("bounds", "", "best-known values: CSV with family,instance,best_known")
+	jsonOut := fs.String("json", "", "write every run as JSON to this file")
+	readme := fs.String("readme", "", "rewrite the results table of this README between its bench markers")
+	quiet := fs.Bool("quiet", false, "print only the family summary")
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return nil
+		}
+		return usageError{err.Error()}
+	}
+	if fs.NArg() == 0 {
+		return usageError{"want instance files or folders (see visitline bench -h)"}
+	}
+	if *budget <= 0 && *iterations <= 0 {
+		return usageError{"set a --budget above 0 or an --iterations count"}
+	}
+	known := map[string]bestKnown{}
+	if *bounds != "" {
+		var err error
+		if known, err = readBestKnown(*bounds); err != nil {
+			return err
+		}
+	}
+	files, err := collectFiles(fs.Args())
+	if err != nil {
+		return err
+	}
+	if len(files) == 0 {
+		return errors.New("no instance files found in the given paths")
+	}
+	var rows []benchRow
+	if !*quiet {
+		fmt.Fprintf(stdout, "%-22s %-18s %5s %4s %10s %10s %8s %8s %s\n", "family", "instance", "nodes", "seed", "best-known", "found", "gap %", "to best", "check")
+	}
+	for _, file := range files {
+		in, err := loadInstance(file)
+		if err != nil {
+			return err
+		}
+		fam := filepath.Base(filepath.Dir(file))
+		name := filepath.Base(file)
+		for seed := 1; seed <= *seeds; seed++ {
+			row := benchRow{Family: fam, Instance: name, Nodes: in.N, Seed: int64(seed)}
+			var trace [][2]float64
+			s := solver.Settings{Budget: *budget, Iterations: *iterations, Seed: int64(seed),
+				OnImprove: func(p solver.Plan) {
+					if p.Feasible {
+						trace = append(trace, [2]float64{p.Elapsed.Seconds(), in.Float(p.Cost)})
+					}
+				}}
+			res, err := solver.Solve(context.Background(), in, s)
+			if err != nil {
+				return fmt.Errorf("%s: %w", file, err)
+			}
+			// The independent evaluator decides, not the engine's own numbers.
+			chk := solver.Evaluate(in, res.Best.Route)
+			row.Checked = solver.CheckRoute(in, res.Best.Route) == nil && chk.Feasible == res.Best.Feasible && chk.Cost(solver.TravelTime) == res.Best.Cost
+			row.Feasible = chk.Feasible && row.Checked
+			row.Found = in.Float(chk.Travel)
+			row.SecondsToBest = res.Best.Elapsed.Seconds()
+			row.Seconds = res.Elapsed.Seconds()
+			row.Iterations = res.Iterations
+			row.Trace = trace
+			if bk, ok := known[fam+"/"+name]; ok {
+				row.HasBest, row.BestKnown = true, bk.value
+				if row.Feasible {
+					row.GapPct = 100 * (row.Found - bk.value) / bk.value
+					// Published values of the real-valued families are rounded
+					// to two decimals (shared/benchmarks/tsptw/README.md).
+					row.AtBest = row.Found <= bk.value+0.01+1e-9 || row.GapPct <= 0.05 && in.Scale > 1
+				}
+			}
+			rows = append(rows, row)
+			if !*quiet {
+				bk, gap := "-", "-"
+				if row.HasBest {
+					bk = strconv.FormatFloat(row.BestKnown, 'f', -1, 64)
+					gap = fmt.Sprintf("%.2f", row.GapPct)
+				}
+				state := "ok"
+				if !row.Checked {
+					state = "MISMATCH"
+				} else if !row.Feasible {
+					state = "infeasible"
+				}
+				fmt.Fprintf(stdout, "%-22s %-18s %5d %4d %10s %10s %8s %8.2f %s\n", fam, name, in.N, seed, bk, strconv.FormatFloat(row.Found, 'f', 2, 64), gap, row.SecondsToBest, state)
+			}
+		}
+	}
+	sums := summarise(rows)
+	table := summaryTable(sums, *budget, *iterations)
+	fmt.Fprint(stdout, "\n"+table)
+	if *jsonOut != "" {
+		data, _ := json.MarshalIndent(struct {
+			Budget   string          `json:"budget"`
+			Machine  string          `json:"machine"`
+			Families []familySummary `json:"families"`
+			Runs     []benchRow      `json:"runs"`
+		}{budget.String(), machine(), sums, rows}, "", " ")
+		if err := os.WriteFile(*jsonOut, data, 0o644); err != nil {
+			return err
+		}
+	}
+	if *readme != "" {
+		if err := replaceBetween(*readme, "<!-- bench:start -->", "<!-- bench:end -->", table); err != nil {
+			return err
+		}
+	}
+	for _, r := range rows {
+		if !r.Checked {
+			return fmt.Errorf("%s/%s: the engine's plan disagrees with the independent evaluator", r.Family, r.Instance)
+		}
+	}
+	return nil
+}
+
+func summarise(rows []benchRow) []familySummary {
+	by := map[string][]benchRow{}
+	var order []string
+	for _, r := range rows {
+		if _, ok := by[r.Family]; !ok {
+			order = append(order, r.Family)
+		}
+		by[r.Family] = append(by[r.Family], r)
+	}
+	var out []familySummary
+	for _, fam := range order {
+		rs := by[fam]
+		s := familySummary{Family: fam, Runs: len(rs)}
+		var times []float64
+		var rate float64
+		gapN := 0
+		for _, r := range rs {
+			if r.Feasible {
+				s.Feasible++
+			}
+			if r.HasBest {
+				s.WithBestKnown++
+			}
+			if r.AtBest {
+				s.AtBest++
+			}
+			if r.HasBest && r.Feasible {
+				g := math.Max(r.GapPct, 0)
+				s.MeanGapPct += g
+				s.MaxGapPct = math.Max(s.MaxGapPct, g)
+				gapN++
+			}
+			times = append(times, r.SecondsToBest)
+			if r.Seconds > 0 {
+				rate += float64(r.Iterations) / r.Seconds
+			}
+		}
+		if gapN > 0 {
+			s.MeanGapPct /= float64(gapN)
+		}
+		sort.Float64s(times)
+		if len(times) > 0 {
+			s.MedianToBest = times[len(times)/2]
+		}
+		s.MeanIterRate = rate / float64(len(rs))
+		out = append(out, s)
+	}
+	return out
+}
+
+func summaryTable(sums []familySummary, budget time.Duration, iters int) string {
+	var b strings.Builder
+	lim := budget.String()
+	if iters > 0 {
+		lim += fmt.Sprintf(", %d iterations", iters)
+	}
+	fmt.Fprintf(&b, "Budget %s per run, one thread; %s.\n\n", lim, machine())
+	b.WriteString("| family | runs | feasible | at best-known | mean gap % | max gap % | median s to best | iterations/s |\n")
+	b.WriteString("|---|---|---|---|---|---|---|---|\n")
+	for _, s := range sums {
+		fmt.Fprintf(&b, "| %s | %d | %d | %d (%.0f%%) | %.3f | %.3f | %.2f | %.0f |\n", s.Family, s.Runs, s.Feasible, s.AtBest,
+			100*float64(s.AtBest)/math.Max(1, float64(s.WithBestKnown)), s.MeanGapPct, s.MaxGapPct, s.MedianToBest, s.MeanIterRate)
+	}
+	return b.String()
+}
+
+func machine() string {
+	host := runtime.GOOS + "/" + runtime.GOARCH
+	cpu := ""
+	if data, err := os.ReadFile("/proc/cpuinfo"); err == nil {
+		for _, line := range strings.Split(string(data), "\n") {
+			if strings.HasPrefix(line, "model name") {
+				_, v, _ := strings.Cut(line, ":")
+				cpu = strings.TrimSpace(v)
+				break
+			}
+		}
+	}
+	if cpu != "" {
+		host += ", " + cpu
+	}
+	return fmt.Sprintf("%s, %d cores, %s", host, runtime.NumCPU(), runtime.Version())
+}
+
+func readBestKnown(path string) (map[string]bestKnown, error) {
+	fh, err := os.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("%s: cannot open: %w", path, unwrapPath(err))
+	}
+	defer fh.Close()
+	r := csv.NewReader(fh)
+	r.FieldsPerRecord = -1
+	recs, err := r.ReadAll()
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	out := map[string]bestKnown{}
+	for i, rec := range recs {
+		if i == 0 && len(rec) > 0 && rec[0] == "family" {
+			continue
+		}
+		if len(rec) < 3 {
+			return nil, fmt.Errorf("%s:%d: want family,instance,best_known", path, i+1)
+		}
+		v, err := strconv.ParseFloat(rec[2], 64)
+		if err != nil {
+			return nil, fmt.Errorf("%s:%d:3: best_known %q is not a number", path, i+1, rec[2])
+		}
+		out[rec[0]+"/"+rec[1]] = bestKnown{v}
+	}
+	return out, nil
+}
+
+func collectFiles(paths []string) ([]string, error) {
+	var out []string
+	for _, p := range paths {
+		st, err := os.Stat(p)
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", p, unwrapPath(err))
+		}
+		if !st.IsDir() {
+			out = append(out, p)
+			continue
+		}
+		err = filepath.WalkDir(p, func(path string, d os.DirEntry, err error) error {
+			if err != nil {
+				return err
+			}
+			if d.IsDir() {
+				return nil
+			}
+			base := d.Name()
+			if strings.HasSuffix(base, ".md") || strings.HasSuffix(base, ".csv") || strings.HasPrefix(base, ".") {
+				return nil
+			}
+			out = append(out, path)
+			return nil
+		})
+		if err != nil {
+			return nil, err
+		}
+	}
+	sort.Strings(out)
+	return out, nil
+}
+
+func replaceBetween(path, startMark, endMark, body string) error {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return err
+	}
+	s := string(data)
+	i := strings.Index(s, startMark)
+	j := strings.Index(s, endMark)
+	if i < 0 || j < i {
+		return fmt.Errorf("%s: markers %s and %s not found", path, startMark, endMark)
+	}
+	s = s[:i+len(startMark)] + "\n" + body + s[j:]
+	return os.WriteFile(path, []byte(s), 0o644)
+}

@@ -1,0 +1,69 @@
+// Command visitline sequences one vehicle's visits to sites with time
+// windows: solve an instance, check a plan, benchmark the engine, serve the
+// page. It parses flags and prints; the work is done in solver/... .
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+)
+
+const usage = `visitline: order one vehicle's visits to sites with time windows
+
+usage:
+  visitline solve [flags] FILE         find a plan (visitline solve -h for flags)
+  visitline check FILE PLAN.json       validate a plan against an instance
+  visitline bench [flags] FILES_OR_DIRS...
+                                       run the engine on benchmark instances
+  visitline serve [flags]              serve the planner page on 127.0.0.1
+`
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+}
+
+// run dispatches a command and returns the exit code: 0 success, 1 a failed
+// run (bad input, infeasible check), 2 wrong usage.
+func run(args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		fmt.Fprint(stderr, usage)
+		return 2
+	}
+	var err error
+	switch args[0] {
+	case "solve":
+		err = runSolve(args[1:], stdout, stderr)
+	case "check":
+		err = runCheck(args[1:], stdout, stderr)
+	case "bench":
+		err = runBench(args[1:], stdout, stderr)
+	case "serve":
+		err = runServe(args[1:], stdout, stderr)
+	case "-h", "--help", "help":
+		fmt.Fprint(stdout, usage)
+		return 0
+	default:
+		fmt.Fprintf(stderr, "visitline: unknown command %q\n%s", args[0], usage)
+		return 2
+	}
+	if err != nil {
+		if ue, ok := err.(usageError); ok {
+			fmt.Fprintf(stderr, "visitline %s: %s\n", args[0], ue.msg)
+			return 2
+		}
+		if err == errSilent {
+			return 1
+		}
+		fmt.Fprintf(stderr, "visitline %s: %v\n", args[0], err)
+		return 1
+	}
+	return 0
+}
+
+type usageError struct{ msg string }
+
+func (u usageError) Error() string { return u.msg }
+
+// errSilent ends a command with exit code 1 after it printed its own report.
+var errSilent = fmt.Errorf("failed")
