@@ -17,6 +17,7 @@ usage:
   visitline bench [flags] FILES_OR_DIRS...
                                        run the engine on benchmark instances
   visitline serve [flags]              serve the planner page on 127.0.0.1
+  visitline site [--engine F] DIR      write the static page into DIR
 `
 
 func main() {
@@ -40,6 +41,8 @@ func run(args []string, stdout, stderr io.Writer) int {
 		err = runBench(args[1:], stdout, stderr)
 	case "serve":
 		err = runServe(args[1:], stdout, stderr)
+	case "site":
+		err = runSite(args[1:], stdout, stderr)
 	case "-h", "--help", "help":
 		fmt.Fprint(stdout, usage)
 		return 0
