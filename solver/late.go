@@ -9,47 +9,66 @@ func sortStable(v []int, less func(a, b int) bool) {
 	sort.SliceStable(v, func(i, j int) bool { return less(v[i], v[j]) })
 }
 
-// minimiseLateness improves an infeasible route for total lateness as the
-// evaluator counts it (late starts carry on late), then for cost, by
-// relocating single visits with full re-evaluation. The search minimises
-// time warp, which ranks plans a little differently; this pass makes the
-// reported plan the one with least lateness it can reach.
-func minimiseLateness(ctx context.Context, in *Instance, route []int, obj Objective) Plan {
-	r := append([]int(nil), route...)
-	if CheckRoute(in, r) != nil || len(r) > 400 {
-		s := Evaluate(in, r)
-		return Plan{Route: r, Schedule: s, Cost: s.Cost(obj), Feasible: s.Feasible}
+// lateScore is total lateness and cost of an instance route, as Evaluate
+// counts them (late starts carry on late), without building a schedule.
+func lateScore(in *Instance, r []int, obj Objective) (late, cost int64) {
+	t := in.Early[r[0]]
+	var travel int64
+	n := in.N
+	for k, v := range r {
+		if k > 0 {
+			a := in.Travel[r[k-1]*n+v]
+			travel += a
+			t += a
+		}
+		if t < in.Early[v] {
+			t = in.Early[v]
+		}
+		if t > in.Late[v] {
+			late += t - in.Late[v]
+		}
+		t += in.Service[v]
 	}
-	lo := 1
-	for lo < len(r) && lo < len(in.Fixed) {
-		lo++
+	if in.Shape == Closed && len(r) > 1 {
+		a := in.Travel[r[len(r)-1]*n+r[0]]
+		travel += a
+		t += a
+		if t > in.Late[r[0]] {
+			late += t - in.Late[r[0]]
+		}
 	}
-	hi := len(r) - 1 // last movable position
-	if in.Shape == OpenFixed {
+	if obj == CompletionTime {
+		return late, t
+	}
+	return late, travel
+}
+
+// lateRange is the span of route positions a lateness search may reorder.
+func (m *model) lateRange() (lo, hi int) {
+	lo = len(m.prefix)
+	hi = m.in.N - 1 - len(m.suffix)
+	if m.in.Shape == OpenFixed {
 		hi--
 	}
-	best := Evaluate(in, r)
-	better := func(a, b Schedule) bool {
-		if a.TotalLateness != b.TotalLateness {
-			return a.TotalLateness < b.TotalLateness
-		}
-		return a.Cost(obj) < b.Cost(obj)
-	}
+	return lo, hi
+}
+
+// descendLateness relocates single visits, and swaps pairs, with full
+// re-evaluation until no move lowers (lateness, cost). It gives up after
+// maxEvals evaluations.
+func descendLateness(m *model, r []int, obj Objective, maxEvals int) (late, cost int64) {
+	in := m.in
+	lo, hi := m.lateRange()
+	late, cost = lateScore(in, r, obj)
 	cand := make([]int, len(r))
-	for pass := 0; pass < 50; pass++ {
-		improved := false
-		for i := lo; i <= hi; i++ {
-			if ctx.Err() != nil {
-				break
-			}
-			if in.Position != nil && in.Position[r[i]] > 0 {
-				continue
-			}
+	evals := 0
+	for improved := true; improved && evals < maxEvals; {
+		improved = false
+		for i := lo; i <= hi && evals < maxEvals; i++ {
 			for j := lo; j <= hi; j++ {
 				if j == i {
 					continue
 				}
-				// move r[i] to position j
 				copy(cand, r)
 				v := cand[i]
 				if i < j {
@@ -58,20 +77,70 @@ func minimiseLateness(ctx context.Context, in *Instance, route []int, obj Object
 					copy(cand[j+1:i+1], cand[j:i])
 				}
 				cand[j] = v
-				if CheckRoute(in, cand) != nil {
-					continue
-				}
-				s := Evaluate(in, cand)
-				if better(s, best) {
-					best = s
+				evals++
+				if l, c := lateScore(in, cand, obj); l < late || l == late && c < cost {
+					late, cost = l, c
 					copy(r, cand)
 					improved = true
 				}
+				if j > i {
+					copy(cand, r)
+					cand[i], cand[j] = cand[j], cand[i]
+					evals++
+					if l, c := lateScore(in, cand, obj); l < late || l == late && c < cost {
+						late, cost = l, c
+						copy(r, cand)
+						improved = true
+					}
+				}
 			}
 		}
-		if !improved {
-			break
+	}
+	return late, cost
+}
+
+// lateSearch spends the rest of the run on a plan that no order can make
+// feasible: iterated local search on total lateness, then cost.
+func (s *search) lateSearch(ctx context.Context, e *engine) {
+	m := s.m
+	e.mu.Lock()
+	cur := append([]int(nil), e.best.Route...)
+	e.mu.Unlock()
+	lo, hi := m.lateRange()
+	if hi-lo < 1 {
+		return
+	}
+	evals := 40000
+	curL, curC := descendLateness(m, cur, m.obj, evals)
+	e.offerExternal(cur, "lateness")
+	x := make([]int, len(cur))
+	for {
+		goOn, _ := e.tick(ctx)
+		if !goOn {
+			return
+		}
+		copy(x, cur)
+		kicks := 1 + s.rng.Intn(3)
+		for k := 0; k < kicks; k++ {
+			i := lo + s.rng.Intn(hi-lo+1)
+			j := lo + s.rng.Intn(hi-lo+1)
+			x[i], x[j] = x[j], x[i]
+		}
+		l, c := descendLateness(m, x, m.obj, evals)
+		if l < curL || l == curL && c <= curC {
+			if l < curL || c < curC {
+				e.offerExternal(x, "lateness")
+			}
+			copy(cur, x)
+			curL, curC = l, c
 		}
 	}
-	return Plan{Route: r, Schedule: best, Cost: best.Cost(obj), Feasible: best.Feasible}
+}
+
+// minimiseLateness is the last polish of an infeasible best plan.
+func minimiseLateness(m *model, route []int, obj Objective) Plan {
+	r := append([]int(nil), route...)
+	descendLateness(m, r, obj, 200000)
+	s := Evaluate(m.in, r)
+	return Plan{Route: r, Schedule: s, Cost: s.Cost(obj), Feasible: s.Feasible}
 }

@@ -64,8 +64,8 @@ func Solve(ctx context.Context, in *Instance, s Settings) (Result, error) {
 	if res.Best.Route == nil { // nothing found: cannot happen with ≥ 1 construction
 		res.Best = e.planOf(identityRoute(m), 0, "construct")
 	}
-	if !res.Best.Feasible {
-		p := minimiseLateness(ctx, in, res.Best.Route, s.Objective)
+	if !res.Best.Feasible && ctx.Err() == nil {
+		p := minimiseLateness(m, res.Best.Route, s.Objective)
 		if p.Schedule.TotalLateness < res.Best.Schedule.TotalLateness {
 			p.Iteration, p.Elapsed, p.Operator = e.iters, time.Since(e.start), "lateness"
 			res.Best = p
@@ -110,26 +110,72 @@ type engine struct {
 }
 
 // offer records a candidate route found by a worker; it reports whether it
-// became the best.
+// became the best. Feasible plans rank by cost; infeasible ones after every
+// feasible plan, by total lateness as the evaluator counts it, then cost.
 func (e *engine) offer(r *route, op string) bool {
 	t := r.total()
 	c := e.m.cost(t)
 	e.mu.Lock()
 	defer e.mu.Unlock()
-	if e.haveBest {
-		if t.tw > e.bestTW || t.tw == e.bestTW && c >= e.bestVal {
+	if e.haveBest && e.best.Feasible && (t.tw > 0 || c >= e.bestVal) {
+		return false
+	}
+	if t.tw > 0 || !e.haveBest || !e.best.Feasible {
+		p := e.planOf(r.r, e.iters, op)
+		if e.haveBest && !better(p, e.best) {
 			return false
 		}
+		e.take(r.r, t, p)
+		return true
+	}
+	e.take(r.r, t, e.planOf(r.r, e.iters, op))
+	return true
+}
+
+// offerExternal offers an instance route (from the lateness search).
+func (e *engine) offerExternal(route []int, op string) bool {
+	sch := Evaluate(e.m.in, route)
+	p := Plan{Route: append([]int(nil), route...), Schedule: sch, Cost: sch.Cost(e.set.Objective), Feasible: sch.Feasible, Operator: op}
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	p.Iteration, p.Elapsed = e.iters, time.Since(e.start)
+	if e.haveBest && !better(p, e.best) {
+		return false
 	}
 	e.haveBest = true
-	e.bestTW, e.bestVal = t.tw, c
-	e.bestRoute = append(e.bestRoute[:0], r.r...)
-	e.best = e.planOf(r.r, e.iters, op)
+	e.best = p
+	e.bestTW = 1 // not from a model route: workers keep their own
+	e.bestVal = p.Cost
+	if e.set.Objective == TravelTime {
+		e.bestVal -= e.m.prefixC // model costs leave out the driven prefix
+	}
+	e.bestRoute = nil
+	e.improvements++
+	if e.set.OnImprove != nil {
+		e.set.OnImprove(clonePlan(p))
+	}
+	return true
+}
+
+func better(a, b Plan) bool {
+	if a.Feasible != b.Feasible {
+		return a.Feasible
+	}
+	if !a.Feasible && a.Schedule.TotalLateness != b.Schedule.TotalLateness {
+		return a.Schedule.TotalLateness < b.Schedule.TotalLateness
+	}
+	return a.Cost < b.Cost
+}
+
+func (e *engine) take(r []int32, t seg, p Plan) {
+	e.haveBest = true
+	e.bestTW, e.bestVal = t.tw, e.m.cost(t)
+	e.bestRoute = append(e.bestRoute[:0], r...)
+	e.best = p
 	e.improvements++
 	if e.set.OnImprove != nil {
 		e.set.OnImprove(clonePlan(e.best))
 	}
-	return true
 }
 
 func (e *engine) planOf(r []int32, iter int, op string) Plan {
@@ -226,7 +272,7 @@ func normalised(w []float64) Mix {
 func (e *engine) sharedBest(tw, cost int64) []int32 {
 	e.mu.Lock()
 	defer e.mu.Unlock()
-	if !e.haveBest || e.bestTW > tw || e.bestTW == tw && e.bestVal >= cost {
+	if !e.haveBest || e.bestRoute == nil || e.bestTW > tw || e.bestTW == tw && e.bestVal >= cost {
 		return nil
 	}
 	return append([]int32(nil), e.bestRoute...)

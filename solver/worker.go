@@ -52,6 +52,12 @@ func (e *engine) work(ctx context.Context, id int, seed int64) {
 	if s.cur.total().tw > 0 {
 		s.findFeasible(ctx, e)
 	}
+	if m.infeas {
+		// Tightening proved that no order meets every window: spend the
+		// run on the least lateness.
+		s.lateSearch(ctx, e)
+		return
+	}
 	s.lam = math.Max(1, meanArc*0.5)
 	if m.infeas {
 		s.lam = 1000
