@@ -14,8 +14,8 @@ import (
 	"visitline/solver/format"
 )
 
-// solve is the search the engine runs; a test build may swap in another
-// search that keeps the same contract (see standin.go).
+// solve is the search the engine runs (a variable so that tests can watch
+// the engine's side of the contract with a search of their own).
 var solve = solver.Solve
 
 // planEvery is the least time between two plans posted to the page.
@@ -145,8 +145,8 @@ func (e *Engine) start(m inbound) {
 	e.cur = r
 	e.mu.Unlock()
 	budget := time.Duration(m.Budget * float64(time.Second))
-	e.send(map[string]any{"type": "started", "run": r.id, "budget": m.Budget, "seed": m.Seed, "mix": mixOut(mix), "objective": obj.String()})
-	go e.search(ctx, r, in, solver.Settings{Budget: budget, Seed: m.Seed, Mix: mix, Objective: obj})
+	e.send(map[string]any{"type": "started", "run": r.id, "budget": m.Budget, "seed": m.Seed, "mix": mixOut(mix), "fixed": m.Fixed, "objective": obj.String()})
+	go e.search(ctx, r, in, solver.Settings{Budget: budget, Seed: m.Seed, Mix: mix, FixedMix: m.Fixed, Objective: obj})
 }
 
 // mixOut gives the weights the search starts from, for display.

@@ -16,10 +16,11 @@
 //	{"type":"load", "name":"picks.txt", "text":"16\n0 16 ..."}
 //	    Read an instance. Stops a running search first. Replies "loaded" or
 //	    "errors".
-//	{"type":"start", "budget":10, "seed":1, "mix":{"random":1,...}, "objective":"travel"}
+//	{"type":"start", "budget":10, "seed":1, "mix":{"random":1,...}, "fixed":false, "objective":"travel"}
 //	    Search the loaded instance for budget seconds (0 < budget <= 3600)
-//	    with that seed and starting mix (omitted: even mix). Stops a running
-//	    search first. Replies "started", then "plan" and "progress" while it
+//	    with that seed and starting mix (omitted: even mix); fixed keeps the
+//	    weights as given instead of adapting them (--fixed-mix); objective is
+//	    travel or completion. Stops a running search first. Replies "started", then "plan" and "progress" while it
 //	    runs, and "finished" at the end.
 //	{"type":"mix", "mix":{"random":2,"slice":0,...}}
 //	    Replace the operator weights of the running search. Replies "mix".
@@ -76,6 +77,7 @@ type inbound struct {
 	Seed      int64              `json:"seed"`
 	Mix       map[string]float64 `json:"mix"`
 	Objective string             `json:"objective"`
+	Fixed     bool               `json:"fixed"`
 }
 
 // InputError is one problem with the input, placed for the page.

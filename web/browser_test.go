@@ -38,7 +38,6 @@ var shared struct {
 	once    sync.Once
 	err     error
 	files   map[string][]byte
-	standin bool
 	tmp     string
 	srv     *httptest.Server
 
@@ -119,18 +118,6 @@ func longInstance(n int, seed uint64) string {
 	return b.String()
 }
 
-// searchRuns says whether solver.Solve keeps searching for its budget. The
-// construction-only placeholder returns at once; then the browser tests
-// build the worker with -tags standin, a small search with the same
-// contract, so that mix changes and stops can be watched mid-run.
-func searchRuns(t *testing.T) bool {
-	in, err := readBench(longInstance(40, 2))
-	require.NoError(t, err)
-	res, err := solver.Solve(context.Background(), in, solver.Settings{Budget: 400 * time.Millisecond, Seed: 1})
-	require.NoError(t, err)
-	return res.Elapsed >= 200*time.Millisecond
-}
-
 func site(t *testing.T) map[string][]byte {
 	t.Helper()
 	shared.once.Do(func() {
@@ -138,15 +125,10 @@ func site(t *testing.T) map[string][]byte {
 		if shared.err != nil {
 			return
 		}
-		var tags []string
-		if !searchRuns(t) {
-			shared.standin = true
-			tags = append(tags, "standin")
-		}
 		out := filepath.Join(shared.tmp, "engine.wasm")
 		ctx, cancel := context.WithTimeout(context.Background(), 3*time.Minute)
 		defer cancel()
-		if shared.err = web.CompileEngine(ctx, "..", out, tags...); shared.err != nil {
+		if shared.err = web.CompileEngine(ctx, "..", out); shared.err != nil {
 			return
 		}
 		eng, err := os.ReadFile(out)
@@ -166,9 +148,6 @@ func site(t *testing.T) map[string][]byte {
 		}
 	})
 	require.NoError(t, shared.err)
-	if shared.standin {
-		t.Log("solver.Solve returns at once (placeholder engine): the worker runs the stand-in search of wasm/standin.go")
-	}
 	return shared.files
 }
 

@@ -160,6 +160,8 @@ func searchPanel() g.Node {
 					g.El("output", h.For(id), h.ID(id+"-value"), g.Text("1")),
 				)
 			}),
+			h.Label(h.Class("check"), h.Input(h.Type("checkbox"), h.ID("fixed-mix"), testid("fixed-mix")),
+				g.Text(" Keep these weights as set (otherwise the search shifts them towards what works)")),
 		),
 		h.Div(h.Class("row buttons"),
 			h.Button(h.Type("button"), h.ID("start"), testid("start"), h.Class("go"), h.Disabled(), g.Text("Start")),

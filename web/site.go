@@ -247,7 +247,7 @@ func Handler(files map[string][]byte) http.Handler {
 }
 
 // CompileEngine builds engine.wasm from the module at moduleDir into out,
-// with the go tool on PATH; tags are extra build tags (tests use "standin").
+// with the go tool on PATH; tags are extra build tags.
 func CompileEngine(ctx context.Context, moduleDir, out string, tags ...string) error {
 	args := []string{"build", "-trimpath", "-ldflags=-s -w", "-o", out}
 	if len(tags) > 0 {

@@ -321,7 +321,7 @@
       return;
     }
     state.budget = budget;
-    send({ type: "start", budget: budget, seed: seed, mix: mix, objective: $("objective").value });
+    send({ type: "start", budget: budget, seed: seed, mix: mix, fixed: $("fixed-mix").checked, objective: $("objective").value });
   }
 
   function onStarted(m) {
