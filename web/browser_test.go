@@ -35,11 +35,11 @@ import (
 )
 
 var shared struct {
-	once    sync.Once
-	err     error
-	files   map[string][]byte
-	tmp     string
-	srv     *httptest.Server
+	once  sync.Once
+	err   error
+	files map[string][]byte
+	tmp   string
+	srv   *httptest.Server
 
 	proxy *httptest.Server
 	seen  requests
