@@ -8,6 +8,7 @@ package web_test
 
 import (
 	"context"
+	"compress/gzip"
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
@@ -599,4 +600,53 @@ func TestSingleFileWorksFromDisk(t *testing.T) {
 
 func readBench(text string) (*solver.Instance, error) {
 	return format.ReadBenchmark(strings.NewReader(text), "test")
+}
+
+// TestMeasure reports the page's figures for the README: time to
+// interactive and to a running engine on localhost, engine.wasm size, and
+// the iteration rate in the browser against the native one on the same
+// instance, seed and budget. It asserts nothing about speed (the machine is
+// shared); run it with VISITLINE_MEASURE=1 go test -run TestMeasure -v ./web.
+func TestMeasure(t *testing.T) {
+	if os.Getenv("VISITLINE_MEASURE") == "" {
+		t.Skip("set VISITLINE_MEASURE=1 to measure")
+	}
+	ctx, _ := tab(t)
+	files := site(t)
+	t.Logf("engine.wasm: %d bytes raw, %d bytes gzip -9", len(files["engine.wasm"]), gzipSize(files["engine.wasm"]))
+	t.Logf("visitline.html: %d bytes", len(files["visitline.html"]))
+	for i := 0; i < 3; i++ {
+		openPage(t, ctx, "")
+		type timing struct {
+			Interactive float64 `json:"interactive"`
+			Loaded      float64 `json:"loaded"`
+			Ready       float64 `json:"ready"`
+		}
+		tm := eval[timing](t, ctx, `(() => { const n = performance.getEntriesByType('navigation')[0];
+		  return {interactive: n.domInteractive, loaded: n.domContentLoadedEventEnd, ready: Number(document.body.dataset.readyMs)}; })()`)
+		t.Logf("load %d: DOM interactive %.0f ms, DOMContentLoaded %.0f ms, engine ready %.0f ms", i+1, tm.Interactive, tm.Loaded, tm.Ready)
+	}
+	const budget = 5.0
+	text := longInstance(61, 11)
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.SetValue(byTestID("paste-input"), text),
+		chromedp.Click(byTestID("paste-load"))))
+	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), fmt.Sprint(budget)), chromedp.Click(byTestID("start"))))
+	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 30*time.Second)
+	iters := eval[float64](t, ctx, `Number(document.getElementById('iterations').textContent.replace(/,/g, ''))`)
+	in, err := readBench(text)
+	require.NoError(t, err)
+	res, err := solver.Solve(context.Background(), in, solver.Settings{Budget: time.Duration(budget * float64(time.Second)), Seed: 1})
+	require.NoError(t, err)
+	web, native := iters/budget, float64(res.Iterations)/res.Elapsed.Seconds()
+	t.Logf("61 sites, %g s, seed 1: browser %.0f iterations/s, native %.0f iterations/s, ratio %.2f", budget, web, native, web/native)
+}
+
+func gzipSize(b []byte) int {
+	var buf strings.Builder
+	zw, _ := gzip.NewWriterLevel(&buf, gzip.BestCompression)
+	zw.Write(b)
+	zw.Close()
+	return buf.Len()
 }

@@ -93,6 +93,7 @@
         state.operators = m.operators || [];
         setStatus("Ready. Load sites to begin: open a file, paste, or try the example.");
         document.body.dataset.engine = "ready";
+        document.body.dataset.readyMs = String(Math.round(performance.now()));
         if (state.pendingExample) loadExample(state.pendingExample);
         break;
       case "loaded":
