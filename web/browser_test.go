@@ -7,8 +7,8 @@ package web_test
 // to web/testout/ (git-ignored) for a person to look at.
 
 import (
-	"context"
 	"compress/gzip"
+	"context"
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
@@ -20,12 +20,14 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"sync"
 	"testing"
 	"time"
 
 	"github.com/chromedp/cdproto/network"
+	"github.com/chromedp/cdproto/page"
 	"github.com/chromedp/chromedp"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -203,7 +205,8 @@ func tab(t *testing.T) (context.Context, *requests) {
 		shared.browser = bctx
 	})
 	require.NoError(t, shared.browserErr)
-	ctx, cancel := chromedp.NewContext(shared.browser)
+	// A browser context of its own per test: storage starts empty.
+	ctx, cancel := chromedp.NewContext(shared.browser, chromedp.WithNewBrowserContext())
 	t.Cleanup(cancel)
 	ctx, cancel2 := context.WithTimeout(ctx, 90*time.Second)
 	t.Cleanup(cancel2)
@@ -650,3 +653,88 @@ func gzipSize(b []byte) int {
 	zw.Close()
 	return buf.Len()
 }
+
+func TestPageSessionRestoredAndForgotten(t *testing.T) {
+	ctx, _ := tab(t)
+	openPage(t, ctx, "")
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("example-load"))))
+	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.SetValue(byTestID("budget"), "0.4"),
+		chromedp.SetValue(byTestID("seed"), "5"),
+		chromedp.Click(byTestID("start"))))
+	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 10*time.Second)
+	rows := tableRows(t, ctx)
+	// Reload: data, settings and the best plan come back.
+	openPage(t, ctx, "")
+	waitFor(t, ctx, `document.querySelectorAll('[data-testid=timeline] [data-visit]').length === 16`, 10*time.Second)
+	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=status]').textContent`), "Restored your last session")
+	assert.Equal(t, rows, tableRows(t, ctx))
+	assert.Equal(t, "5", eval[string](t, ctx, `document.querySelector('[data-testid=seed]').value`))
+	assert.Equal(t, "0.4", eval[string](t, ctx, `document.querySelector('[data-testid=budget]').value`))
+	assert.False(t, eval[bool](t, ctx, `document.querySelector('[data-testid=export-csv]').disabled`))
+	// Forget: a reload finds nothing.
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("forget-session"))))
+	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=status]').textContent`), "Forgotten")
+	openPage(t, ctx, "")
+	time.Sleep(300 * time.Millisecond)
+	assert.Equal(t, "", eval[string](t, ctx, `document.querySelector('[data-testid=paste-input]').value`))
+	assert.True(t, eval[bool](t, ctx, `document.querySelector('[data-testid=start]').disabled`))
+	assert.False(t, eval[bool](t, ctx, `document.querySelector('[data-testid=keep-session]').checked`))
+	assert.Equal(t, "null", eval[string](t, ctx, `String(localStorage.getItem("visitline.session.v1"))`))
+}
+
+func TestPageShareLinkOpensInFreshProfile(t *testing.T) {
+	ctx, _ := tab(t)
+	openPage(t, ctx, "")
+	text := longInstance(21, 5)
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.SetValue(byTestID("paste-input"), text),
+		chromedp.Click(byTestID("paste-load"))))
+	waitFor(t, ctx, `!document.querySelector('[data-testid=share-link]').disabled`, 10*time.Second)
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.SetValue(byTestID("seed"), "7"),
+		chromedp.Click(byTestID("share-link"))))
+	waitFor(t, ctx, `!document.querySelector('[data-testid=share-url]').hidden`, 5*time.Second)
+	link := eval[string](t, ctx, `document.querySelector('[data-testid=share-url]').value`)
+	require.True(t, strings.HasPrefix(link, shared.srv.URL+"/#data="), link)
+	assert.Less(t, len(link), len(text), "the data is compressed")
+	summary := eval[string](t, ctx, `document.getElementById('summary').textContent`)
+
+	other, _ := tab(t) // a fresh browser context: no storage shared
+	require.NoError(t, chromedp.Do(other, chromedp.Navigate(link)))
+	waitFor(t, other, `document.body.dataset.engine === "ready" && !document.querySelector('[data-testid=start]').disabled`, 20*time.Second)
+	assert.Equal(t, text, eval[string](t, other, `document.querySelector('[data-testid=paste-input]').value`))
+	assert.Equal(t, "7", eval[string](t, other, `document.querySelector('[data-testid=seed]').value`))
+	assert.Equal(t, summary, eval[string](t, other, `document.getElementById('summary').textContent`))
+
+	// A damaged link says so and loads nothing.
+	require.NoError(t, chromedp.Do(other, chromedp.Navigate(shared.srv.URL+"/#data=AAAA"+"x")))
+	waitFor(t, other, `document.body.dataset.engine === "ready"`, 20*time.Second)
+	waitFor(t, other, `document.querySelector('[data-testid=status]').textContent.includes("damaged")`, 5*time.Second)
+}
+
+func TestPagePrintsThirtyVisitsOnOnePage(t *testing.T) {
+	ctx, _ := tab(t)
+	openPage(t, ctx, "")
+	require.NoError(t, chromedp.Do(ctx,
+		chromedp.SetValue(byTestID("paste-input"), longInstance(31, 9)),
+		chromedp.Click(byTestID("paste-load"))))
+	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), "0.4"), chromedp.Click(byTestID("start"))))
+	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 10*time.Second)
+	for name, paper := range map[string]chromedp.PaperSize{"a4": chromedp.PaperA4, "letter": chromedp.PaperLetter} {
+		pdf, err := chromedp.Run(ctx, chromedp.PrintToPDF(chromedp.PDFPaper(paper), chromedp.PDFMargin(0.4),
+			func(p *page.PrintToPDFParams) { p.PrintBackground = ptr(true) }))
+		require.NoError(t, err)
+		pages := len(regexp.MustCompile(`/Type\s*/Page[^s]`).FindAll(pdf, -1))
+		assert.Equal(t, 1, pages, "%s: 31 rows (start and 30 visits) print on one page", name)
+		dir := os.Getenv("VISITLINE_SCREENSHOTS")
+		if dir == "" {
+			dir = "testout"
+		}
+		require.NoError(t, os.WriteFile(filepath.Join(dir, "8-print-"+name+".pdf"), pdf, 0o644))
+	}
+}
+
+func ptr[T any](v T) *T { return &v }

@@ -23,6 +23,10 @@
     rateWindow: [], // [elapsed, iterations]
     mixAcks: 0,
     pendingExample: null,
+    pendingData: null, // what was sent to the engine, until it answers
+    data: null, // {name, text} of the loaded data
+    restorePlan: null,
+    keep: true,
   };
 
   // ---------- formatting ----------
@@ -94,7 +98,7 @@
         setStatus("Ready. Load sites to begin: open a file, paste, or try the example.");
         document.body.dataset.engine = "ready";
         document.body.dataset.readyMs = String(Math.round(performance.now()));
-        if (state.pendingExample) loadExample(state.pendingExample);
+        startupData();
         break;
       case "loaded":
         onLoaded(m.summary);
@@ -131,6 +135,7 @@
       return;
     }
     state.loadedName = name;
+    state.pendingData = { name: name, text: text };
     setStatus("Reading " + name + "…");
     send({ type: "load", name: name, text: text });
   }
@@ -183,6 +188,7 @@
 
   function onLoaded(s) {
     state.summary = s;
+    state.data = state.pendingData;
     clearPlan();
     const errs = $("errors");
     errs.hidden = true;
@@ -213,7 +219,15 @@
     }
     box.appendChild(dl);
     $("start").disabled = false;
+    $("share-link").disabled = false;
     setStatus("Loaded " + plural(s.sites, "site", "sites") + " from " + (s.name || state.loadedName) + ". Press Start to search.");
+    if (state.restorePlan) {
+      const r = state.restorePlan;
+      state.restorePlan = null;
+      showPlan(r);
+      setStatus("Restored your last session: " + (s.name || state.loadedName) + " and its best plan. Press Start to search again.", "done");
+    }
+    saveSession();
   }
 
   function tightnessText(s) {
@@ -344,17 +358,23 @@
   }
 
   function onPlan(m) {
+    state.history.push([m.plan.seconds_to_best, m.plan.cost, m.plan.feasible]);
+    showPlan(m);
+    saveSoon();
+  }
+
+  function showPlan(m) {
     state.plan = m.plan;
     state.planCSV = m.csv;
     state.planJSON = m.json;
     const p = m.plan;
-    state.history.push([p.seconds_to_best, p.cost, p.feasible]);
     const late = p.late ? p.late.length : 0;
     $("best-cost").textContent = num(p.cost) + (p.feasible ? " · every window met" : " · " + plural(late, "visit", "visits") + " late");
     $("best-cost").dataset.cost = p.cost;
     $("improvements").textContent = String(p.improvements);
-    $("export-csv").disabled = false;
-    $("export-json").disabled = false;
+    for (const id in exporters) $(id).disabled = false;
+    $("print-title").textContent = (state.data ? state.data.name + " · " : "") + "cost " + num(p.cost) +
+      (p.feasible ? ", every window met" : ", " + plural(late, "visit", "visits") + " late") + " · planned " + new Date().toLocaleString("en-GB");
     drawTimeline(p);
     drawTable(p);
     drawChart();
@@ -401,6 +421,7 @@
     };
     setStatus(why[m.why] || "Finished (" + m.why + ")" + took + ".", m.why === "error" ? "error" : "done");
     drawChart();
+    saveSession();
   }
 
   // ---------- the day plan ----------
@@ -409,8 +430,8 @@
     state.planCSV = state.planJSON = "";
     $("best-cost").textContent = "–";
     delete $("best-cost").dataset.cost;
-    $("export-csv").disabled = true;
-    $("export-json").disabled = true;
+    for (const id in exporters) $(id).disabled = true;
+    $("print-title").textContent = "";
     const tl = $("timeline");
     tl.textContent = "";
     const p = document.createElement("p");
@@ -667,7 +688,152 @@
   const exporters = {
     "export-csv": () => download(baseName() + "-plan.csv", "text/csv", state.planCSV),
     "export-json": () => download(baseName() + "-plan.json", "application/json", state.planJSON),
+    "print-plan": () => window.print(),
   };
+
+  // ---------- keeping the session, and share links ----------
+  // The session (data, settings, best plan) is kept in this browser's
+  // localStorage only. A share link carries the data and settings in the
+  // URL fragment, which browsers never send to a server.
+  const STORE = "visitline.session.v1";
+  const KEEP = "visitline.keep";
+  const MAX_LINK = 64000; // characters; longer links break in mail and chat programs (common practice)
+
+  function mixInputs() {
+    return document.querySelectorAll("input[data-operator]");
+  }
+  function settings() {
+    return { budget: $("budget").value, seed: $("seed").value, mix: readMix(), fixed: $("fixed-mix").checked, objective: $("objective").value };
+  }
+  function applySettings(st) {
+    if (!st) return;
+    if (st.budget) $("budget").value = st.budget;
+    if (st.seed !== undefined) $("seed").value = st.seed;
+    if (st.mix) {
+      for (const el of mixInputs()) {
+        const w = st.mix[el.dataset.operator];
+        if (typeof w === "number") {
+          el.value = String(w);
+          $(el.id + "-value").textContent = el.value;
+        }
+      }
+    }
+    $("fixed-mix").checked = !!st.fixed;
+    if (st.objective) $("objective").value = st.objective;
+  }
+
+  let saveTimer = 0;
+  function saveSoon() {
+    if (!saveTimer) saveTimer = setTimeout(() => { saveTimer = 0; saveSession(); }, 1000);
+  }
+  function saveSession() {
+    if (!state.keep || !state.data) return;
+    const s = { data: state.data, settings: settings(), saved: Date.now(),
+      plan: state.plan ? { plan: state.plan, csv: state.planCSV, json: state.planJSON } : null };
+    try {
+      localStorage.setItem(STORE, JSON.stringify(s));
+    } catch (e) {
+      try {
+        s.plan = null;
+        localStorage.setItem(STORE, JSON.stringify(s));
+      } catch (e2) {
+        $("keep-note").textContent = "This data is too large to keep in the browser; it will not come back after a reload.";
+      }
+    }
+  }
+  function readSession() {
+    try {
+      return JSON.parse(localStorage.getItem(STORE) || "null");
+    } catch (e) {
+      return null;
+    }
+  }
+  function forgetSession() {
+    try {
+      localStorage.removeItem(STORE);
+      localStorage.setItem(KEEP, "no");
+    } catch (e) { /* storage off: nothing is kept anyway */ }
+    state.keep = false;
+    $("keep-session").checked = false;
+    setStatus("Forgotten: nothing of this session is kept in this browser. What is on the page stays until you close it.", "done");
+  }
+
+  function b64url(bytes) {
+    let bin = "";
+    for (let i = 0; i < bytes.length; i += 0x8000) bin += String.fromCharCode.apply(null, bytes.subarray(i, i + 0x8000));
+    return btoa(bin).replace(/\+/g, "-").replace(/\//g, "_").replace(/=+$/, "");
+  }
+  function unb64url(text) {
+    return decodeBase64(text.replace(/-/g, "+").replace(/_/g, "/") + "===".slice((text.length + 3) % 4));
+  }
+  async function squeeze(text, way) {
+    const stream = new Blob([text]).stream().pipeThrough(way);
+    return new Uint8Array(await new Response(stream).arrayBuffer());
+  }
+
+  async function makeShareLink() {
+    if (!state.data) {
+      setStatus("Load data first: the link carries the data.", "error");
+      return;
+    }
+    const payload = JSON.stringify({ v: 1, name: state.data.name, text: state.data.text, settings: settings() });
+    const packed = b64url(await squeeze(payload, new CompressionStream("deflate-raw")));
+    const link = location.href.split("#")[0] + "#data=" + packed;
+    const out = $("share-url");
+    if (link.length > MAX_LINK) {
+      out.hidden = true;
+      setStatus("This data is too large for a link (" + link.length.toLocaleString("en") + " characters even compressed; links up to " +
+        MAX_LINK.toLocaleString("en") + " travel safely). Send the file itself instead.", "error");
+      return;
+    }
+    out.value = link;
+    out.hidden = false;
+    out.focus();
+    out.select();
+    let copied = false;
+    try {
+      await navigator.clipboard.writeText(link);
+      copied = true;
+    } catch (e) { /* no clipboard permission: the link is selected for copying */ }
+    setStatus("Share link ready (" + link.length.toLocaleString("en") + " characters)" + (copied ? ", copied." : "; copy it from the box.") +
+      " The data rides in the part after #, which is never sent to a server.", "done");
+  }
+
+  async function readShareLink() {
+    const m = location.hash.match(/^#data=([A-Za-z0-9_-]+)$/);
+    if (!m) return null;
+    try {
+      const text = new TextDecoder().decode(await squeeze(unb64url(m[1]), new DecompressionStream("deflate-raw")));
+      const obj = JSON.parse(text);
+      if (!obj || typeof obj.text !== "string") throw new Error("no data");
+      return obj;
+    } catch (e) {
+      setStatus("This link's data is damaged or cut short, so nothing was loaded from it. Ask for the link again, or for the file.", "error");
+      return { damaged: true };
+    }
+  }
+
+  async function startupData() {
+    const shared = await readShareLink();
+    if (shared && shared.damaged) return;
+    if (shared) {
+      applySettings(shared.settings);
+      $("paste-input").value = shared.text;
+      loadText(shared.text, shared.name || "shared data");
+      return;
+    }
+    if (state.pendingExample) {
+      loadExample(state.pendingExample);
+      return;
+    }
+    const kept = state.keep ? readSession() : null;
+    if (kept && kept.data && typeof kept.data.text === "string") {
+      applySettings(kept.settings);
+      $("paste-input").value = kept.data.text;
+      state.restorePlan = kept.plan;
+      loadText(kept.data.text, kept.data.name);
+    }
+  }
 
   // ---------- wiring ----------
   function wire() {
@@ -718,12 +884,35 @@
       });
     }
     for (const id in exporters) $(id).addEventListener("click", exporters[id]);
+    try {
+      state.keep = localStorage.getItem(KEEP) !== "no";
+    } catch (e) {
+      state.keep = false;
+    }
+    $("keep-session").checked = state.keep;
+    $("keep-session").addEventListener("change", (ev) => {
+      state.keep = ev.target.checked;
+      try {
+        localStorage.setItem(KEEP, state.keep ? "yes" : "no");
+      } catch (e) { /* storage off */ }
+      if (state.keep) saveSession();
+      else forgetSession();
+    });
+    $("forget-session").addEventListener("click", forgetSession);
+    $("share-link").addEventListener("click", makeShareLink);
+    for (const id of ["budget", "seed", "objective", "fixed-mix"]) $(id).addEventListener("change", saveSoon);
+    for (const el of mixInputs()) el.addEventListener("change", saveSoon);
     const tl = $("timeline");
     tl.addEventListener("focusin", showDetail);
     tl.addEventListener("mouseover", showDetail);
     tl.addEventListener("keydown", moveFocus);
     showExampleAbout();
     drawChart();
+    // A share link pasted into the address bar of an open page only
+    // changes the fragment: read it then too.
+    window.addEventListener("hashchange", () => {
+      if (state.ready && location.hash.startsWith("#data=")) startupData();
+    });
     const params = new URLSearchParams(location.search);
     if (params.get("example")) state.pendingExample = params.get("example");
     startWorker();
