@@ -738,3 +738,33 @@ func TestPagePrintsThirtyVisitsOnOnePage(t *testing.T) {
 }
 
 func ptr[T any](v T) *T { return &v }
+
+func TestPageFileAndDropLoadAndLatenessShows(t *testing.T) {
+	ctx, _ := tab(t)
+	openPage(t, ctx, "")
+	// The file picker.
+	p := filepath.Join(t.TempDir(), "picks.txt")
+	require.NoError(t, os.WriteFile(p, shared.files["examples/warehouse/picks.txt"], 0o644))
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetUploadFiles(byTestID("file-input"), []string{p})))
+	waitFor(t, ctx, `document.getElementById('summary').textContent.includes('picks.txt')`, 10*time.Second)
+	assert.Equal(t, string(shared.files["examples/warehouse/picks.txt"]), eval[string](t, ctx, `document.querySelector('[data-testid=paste-input]').value`))
+
+	// A file dropped on the box. Two visits that cannot both be on time:
+	// 1 must start by 10 and 2 by 12, 5 from the start and 20 from each
+	// other. Start, 1 (at 5), 2 (at 25) is 13 late; start, 2 (at 5), 1 (at
+	// 25) is 15 late: the plan is the first, late by 13 (worked by hand).
+	late := "3\n0 5 5\n5 0 20\n5 20 0\n0 100\n0 10\n0 12\n"
+	eval[bool](t, ctx, `(() => {
+	  const dt = new DataTransfer();
+	  dt.items.add(new File([`+"`"+late+"`"+`], "tight.txt", {type: "text/plain"}));
+	  document.getElementById('drop-zone').dispatchEvent(new DragEvent('drop', {dataTransfer: dt, bubbles: true, cancelable: true}));
+	  return true; })()`)
+	waitFor(t, ctx, `document.getElementById('summary').textContent.includes('tight.txt')`, 10*time.Second)
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), "0.3"), chromedp.Click(byTestID("start"))))
+	waitFor(t, ctx, `document.body.dataset.run === "finished" && document.querySelectorAll('[data-testid=timeline] [data-visit]').length === 3`, 10*time.Second)
+	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=best-cost]').textContent`), "1 visit late")
+	assert.Equal(t, 1, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .visit.is-late .late').length`), "the late visit carries a lateness block")
+	assert.Equal(t, 1, eval[int](t, ctx, `document.querySelectorAll('[data-testid=plan-table] tr.is-late').length`))
+	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=plan-table] tr.is-late').textContent`), "late by 13")
+	screenshot(t, ctx, "9-late")
+}
