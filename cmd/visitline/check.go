@@ -20,13 +20,13 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		fmt.Fprintln(stderr, "usage: visitline check [flags] SITES.csv|BENCHMARK.txt PLAN.json\n(give the flags the plan was solved with)")
 		fs.PrintDefaults()
 	}
-	if err := fs.Parse(args); err != nil {
+	args, err := parseArgs(fs, args)
+	if err != nil {
 		if errors.Is(err, flag.ErrHelp) {
 			return nil
 		}
 		return usageError{err.Error()}
 	}
-	args = fs.Args()
 	if len(args) != 2 {
 		return usageError{"usage: visitline check [flags] FILE PLAN.json"}
 	}

@@ -83,13 +83,14 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 		fmt.Fprintln(stderr, "usage: visitline solve [flags] SITES.csv|BENCHMARK.txt")
 		fs.PrintDefaults()
 	}
-	if err := fs.Parse(args); err != nil {
+	pos, err := parseArgs(fs, args)
+	if err != nil {
 		if errors.Is(err, flag.ErrHelp) {
 			return nil
 		}
 		return usageError{err.Error()}
 	}
-	if fs.NArg() != 1 {
+	if len(pos) != 1 {
 		return usageError{"want exactly one input FILE (see visitline solve -h)"}
 	}
 	switch f.format {
@@ -119,7 +120,7 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	d, err := loadDataset(fs.Arg(0), opt)
+	d, err := loadDataset(pos[0], opt)
 	if err != nil {
 		return err
 	}

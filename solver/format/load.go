@@ -441,6 +441,9 @@ func (d *Dataset) setPins(pins []pin, shift int) error {
 		byPos[k] = p.node
 		in.Position[p.node] = k
 	}
+	if len(byPos) == 0 {
+		in.Position = nil
+	}
 	return nil
 }
 

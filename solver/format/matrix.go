@@ -137,7 +137,11 @@ func parseMatrix(recs []record, name string, comma rune, unit Unit, ids []string
 		if len(data) > n {
 			line = data[n].line
 		}
-		return nil, shapeErr(line, fmt.Sprintf("%d rows of times", len(data)))
+		msg := fmt.Sprintf("%d rows of times", len(data))
+		if headerByText && len(recs) == n {
+			msg += fmt.Sprintf(" (line %d was taken as a header of site ids because it holds %q, which is not a travel time)", recs[0].line, firstNonTime(first, isNum))
+		}
+		return nil, shapeErr(line, msg)
 	}
 	width := len(data[0].fields)
 	hasLabels := width == n+1 || !isNum(data[0].fields[0]) && width > 1
@@ -246,6 +250,15 @@ func parseMatrix(recs []record, name string, comma rune, unit Unit, ids []string
 		}
 	}
 	return m, nil
+}
+
+func firstNonTime(fields []string, isNum func(string) bool) string {
+	for _, f := range fields {
+		if !isNum(f) {
+			return f
+		}
+	}
+	return ""
 }
 
 // travelValue reads one travel time in unit.

@@ -305,11 +305,32 @@ func WriteTable(w io.Writer, j PlanJSON) error {
 	if j.Return != nil {
 		rows = append(append([]PlanVisit(nil), rows...), *j.Return)
 	}
+	// A dated plan on one day prints the date once, above the table.
+	times := make([][5]string, len(rows))
+	day := ""
+	for k, v := range rows {
+		times[k] = v.times(j)
+		for _, t := range times[k] {
+			if d, _, ok := strings.Cut(t, " "); ok && len(d) == 10 && d[4] == '-' && (day == "" || day == d) {
+				day = d
+			} else if t != "open" {
+				day = "-"
+			}
+		}
+	}
+	if day != "" && day != "-" {
+		fmt.Fprintf(&b, "date %s\n", day)
+		for k := range times {
+			for i, t := range times[k] {
+				times[k][i] = strings.TrimPrefix(t, day+" ")
+			}
+		}
+	}
 	names := false
 	tw := 10
-	for _, v := range rows {
+	for k, v := range rows {
 		names = names || v.Name != ""
-		for _, t := range v.times(j) {
+		for _, t := range times[k] {
 			if len(t) > tw {
 				tw = len(t)
 			}
@@ -325,7 +346,7 @@ func WriteTable(w io.Writer, j PlanJSON) error {
 		if j.Return != nil && k == len(rows)-1 {
 			order = "back"
 		}
-		tm := v.times(j)
+		tm := times[k]
 		fmt.Fprintf(&b, "%5s  %-12s %*s %*s %8s %*s %*s %8s", order, v.ID, tw, tm[0], tw, tm[1], j.dur(v.Wait),
 			tw, tm[2], 2*tw+4, "["+tm[3]+", "+tm[4]+"]", j.dur(v.Slack))
 		if names {

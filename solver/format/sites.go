@@ -19,8 +19,8 @@ var siteColumns = []struct {
 }{
 	{"id", []string{"id", "site", "code", "siteid", "sitecode", "ref", "key"}},
 	{"name", []string{"name", "sitename", "label", "title"}},
-	{"earliest", []string{"earliest", "open", "opens", "from", "windowstart", "ready", "readytime", "earlieststart", "start window"}},
-	{"latest", []string{"latest", "close", "closes", "to", "windowend", "due", "duetime", "lateststart", "end window"}},
+	{"earliest", []string{"earliest", "open", "opens", "from", "windowstart", "ready", "readytime", "earlieststart", "slotstart"}},
+	{"latest", []string{"latest", "close", "closes", "to", "windowend", "due", "duetime", "lateststart", "slotend"}},
 	{"service", []string{"service", "duration", "servicetime", "serviceduration", "dwell"}},
 	{"x", []string{"x"}},
 	{"y", []string{"y"}},
@@ -58,6 +58,10 @@ func normHeader(h string) string {
 	return b.String()
 }
 
+// quietColumns are columns people keep beside their sites that Visitline
+// does not read; they are skipped without a warning.
+var quietColumns = []string{"notes", "note", "comment", "comments", "remarks", "address", "phone", "contact", "description"}
+
 func fieldOf(header string) string {
 	h := normHeader(header)
 	for _, c := range siteColumns {
@@ -68,6 +72,15 @@ func fieldOf(header string) string {
 		}
 	}
 	return ""
+}
+
+func isQuiet(h string) bool {
+	for _, q := range quietColumns {
+		if normHeader(h) == q {
+			return true
+		}
+	}
+	return false
 }
 
 // Pin is a position pin as written in a sites file.
@@ -190,7 +203,7 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 	for c, h := range recs[0].fields {
 		f := fieldOf(h)
 		if f == "" {
-			if h != "" {
+			if h != "" && !isQuiet(h) {
 				s.Warnings = append(s.Warnings, Warning{File: name, Line: hl, Column: c + 1, Field: "header",
 					Msg: fmt.Sprintf("column %q is not one Visitline reads; it is ignored (see the README for the column names)", h)})
 			}
