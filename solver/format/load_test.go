@@ -1,6 +1,8 @@
 package format
 
 import (
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 
@@ -316,4 +318,18 @@ func TestLoadWarnsNoWayBack(t *testing.T) {
 func TestLoadCleanHasNoWarnings(t *testing.T) {
 	d := loadFive(t, fiveSites, Options{})
 	assert.Empty(t, d.Warnings)
+}
+
+// Every published benchmark file is told from a sites file by content, so
+// that Load (and the command line's bench and check) reads it as before.
+func TestLoadTellsEveryBenchmarkFile(t *testing.T) {
+	dir := sharedDir(t)
+	files, err := filepath.Glob(filepath.Join(dir, "*", "*"))
+	require.NoError(t, err)
+	require.NotEmpty(t, files)
+	for _, f := range files {
+		data, err := os.ReadFile(f)
+		require.NoError(t, err)
+		require.True(t, IsBenchmark(string(data)), f)
+	}
 }
