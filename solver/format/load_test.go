@@ -241,6 +241,7 @@ func TestLoadErrors(t *testing.T) {
 		{"missing coordinates", "id,lat,lon\nA,45,3\nB,,\n", nil, Options{}, "s.csv:3:2: lat: missing; travel times come from lat,lon, so every site needs them"},
 		{"bad speed", "id,x,y\nA,0,0\nB,1,1\n", nil, Options{Speed: -3}, `speed "-3": want a speed above 0`},
 		{"bad road factor", "id,lat,lon\nA,45,3\nB,45,4\n", nil, Options{RoadFactor: 0.5}, `road-factor "0.5": want 1 or more`},
+		{"coordinates too far for the speed", "id,lat,lon\nA,45,3\nB,-45,-170\n", nil, Options{Speed: 1e-9}, `speed "1e-09": travel times from the coordinates are too large; check the units`},
 		{"matrix error names the matrix", "id\nA\nB\n", ptr("0,1\n1\n"), Options{}, "m.csv:2: travel matrix: row 2 has 1 values but row 1 has 2"},
 		{"benchmark with a matrix", "2\n0 1\n1 0\n0 10\n0 10\n", ptr("0,1\n1,0\n"), Options{}, "m.csv: travel matrix: s.csv is in the benchmark matrix format"},
 	}
@@ -263,6 +264,22 @@ func TestLoadErrors(t *testing.T) {
 }
 
 func ptr(s string) *string { return &s }
+
+func TestReadPlanRouteFor(t *testing.T) {
+	d := loadFive(t, fiveSites, Options{})
+	route, err := ReadPlanRouteFor(strings.NewReader(`{"route":[0,1,2,3,4],"route_ids":["D","A","B","C","E"]}`), "p.json", d.Instance)
+	require.NoError(t, err)
+	assert.Equal(t, []int{0, 1, 2, 3, 4}, route)
+	route, err = ReadPlanRouteFor(strings.NewReader(`{"route":[0,2,1,3,4]}`), "p.json", d.Instance)
+	require.NoError(t, err, "route_ids are optional")
+	assert.Equal(t, []int{0, 2, 1, 3, 4}, route)
+	_, err = ReadPlanRouteFor(strings.NewReader(`{"route":[0,1],"route_ids":["D"]}`), "p.json", d.Instance)
+	assert.EqualError(t, err, "p.json: route_ids: has 1 ids but route has 2 nodes")
+	_, err = ReadPlanRouteFor(strings.NewReader(`{"route":[0,1],"route_ids":["D","B"]}`), "p.json", d.Instance)
+	assert.ErrorContains(t, err, `p.json: route_ids: place 1 is node 1, which is "A" here, but the plan says "B"`)
+	_, err = ReadPlanRouteFor(strings.NewReader(`{"route_ids":["D"]}`), "p.json", d.Instance)
+	assert.ErrorContains(t, err, `p.json: route: missing`)
+}
 
 func TestLoadPastedText(t *testing.T) {
 	_, err := Load(strings.NewReader("id,open\nA,8:00\nB,8:61\n"), strings.NewReader("0,1\n1,0\n"), Options{})

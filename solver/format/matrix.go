@@ -82,6 +82,12 @@ func (mr *MatrixReader) Read(ids []string) (*Matrix, error) {
 		return nil, err
 	}
 	comma := mr.Comma
+	if c, t := sepLine(text); c != 0 {
+		text = t
+		if comma == 0 {
+			comma = c
+		}
+	}
 	if comma == 0 {
 		comma = sniffComma(text)
 	}
@@ -104,6 +110,23 @@ func parseMatrix(recs []record, name string, comma rune, unit Unit, ids []string
 		}
 		_, msg := travelValue(s, unit, commaDecimal)
 		return msg == ""
+	}
+	// Spreadsheets may end every row with an empty cell: drop such
+	// trailing columns while the rows are wider than they need be.
+	for {
+		trim := len(recs) > 0
+		for _, r := range recs {
+			if len(r.fields) <= n || r.fields[len(r.fields)-1] != "" {
+				trim = false
+				break
+			}
+		}
+		if !trim {
+			break
+		}
+		for k := range recs {
+			recs[k].fields = recs[k].fields[:len(recs[k].fields)-1]
+		}
 	}
 	byID := make(map[string]int, n)
 	for i, id := range ids {

@@ -35,6 +35,9 @@ func TestReadMatrixForms(t *testing.T) {
 		{"empty diagonal", ",5,7\n6,,4\n8,3,-\n"},
 		{"H:MM", "0,0:05,0:07\n0:06,0,0:04\n0:08,0:03,0\n"},
 		{"bom and crlf", "\ufeff0,5,7\r\n6,0,4\r\n8,3,0\r\n"},
+		{"trailing empty cells", "0\t5\t7\t\n6\t0\t4\t\n8\t3\t0\t\n"},
+		{"trailing empty cells with ids", ",A,B,C,,\nA,0,5,7,,\nB,6,0,4,,\nC,8,3,0,,\n"},
+		{"sep line", "sep=;\n0;5;7\n6;0;4\n8;3;0\n"},
 		{"quoted ids", "\"\",\"A\",\"B\",\"C\"\n\"A\",0,5,7\n\"B\",6,0,4\n\"C\",8,3,0\n"},
 	}
 	for _, c := range cases {

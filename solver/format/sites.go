@@ -184,6 +184,12 @@ type cellErr struct {
 }
 
 func parseSites(text, name string, comma rune) (*Sites, error) {
+	if c, t := sepLine(text); c != 0 {
+		text = t
+		if comma == 0 {
+			comma = c
+		}
+	}
 	if comma == 0 {
 		comma = sniffComma(text)
 		if comma == 0 {
@@ -353,9 +359,8 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 		} else {
 			v = tc.st.units(origin)
 		}
-		if v >= horizon {
-			return nil, &ParseError{File: name, Line: tc.line, Column: tc.col, Field: s.colLabel(tc.field), Msg: fmt.Sprintf("%q is too far from the first time in the file", tc.text)}
-		}
+		// Dates run from year 0 to 9999: ten thousand years is far below
+		// solver.Horizon at this scale, and minutes were checked on parsing.
 		if tc.field == "earliest" {
 			s.Sites[tc.site].Earliest = v
 		} else {

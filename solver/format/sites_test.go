@@ -29,6 +29,7 @@ func TestReadSitesDelimiters(t *testing.T) {
 		{"crlf", "id,name,earliest,latest\r\nA,Alpha,10,20\r\nB,Beta,30,40\r\n", ','},
 		{"bom", "\ufeffid,name,earliest,latest\nA,Alpha,10,20\nB,Beta,30,40\n", ','},
 		{"comments and blank lines", "# made by hand\nid,name,earliest,latest\n\nA,Alpha,10,20\n,,,\nB,Beta,30,40\n", ','},
+		{"sep line", "sep=;\nid;name;earliest;latest\nA;Alpha;10;20\nB;Beta;30;40\n", ';'},
 		{"no final newline", "id,name,earliest,latest\nA,Alpha,10,20\nB,Beta,30,40", ','},
 	}
 	for _, c := range cases {
@@ -42,6 +43,11 @@ func TestReadSitesDelimiters(t *testing.T) {
 			assert.Equal(t, 40*min, s.Sites[1].Latest)
 		})
 	}
+}
+
+func TestReadSitesSepLineKeepsLineNumbers(t *testing.T) {
+	_, err := ReadSites(strings.NewReader("sep=,\nid\nA\nA\n"), "s.csv")
+	assert.EqualError(t, err, `s.csv:4:1: id: "A" is used twice (first on line 3); ids must be unique`)
 }
 
 func TestReadSitesUTF16(t *testing.T) {
@@ -219,6 +225,14 @@ func TestReadSitesErrors(t *testing.T) {
 		{"longitude out of range", "id,lat,lon\nA,45,-181\n", `s.csv:2:3: lon: "-181" is out of range; want -180 to 180`},
 		{"half a pair", "id,x,y\nA,1,\n", "s.csv:2:3: y: missing while x is given"},
 		{"coordinate not a number", "id,x,y\nA,1,NaN\n", `s.csv:2:3: y: "NaN" is not a number`},
+		{"half a pair, other side", "id,lat,lon\nA,,3\n", "s.csv:2:2: lat: missing while lon is given"},
+		{"huge coordinate", "id,x,y\nA,1e3,1\n", `s.csv:2:2: x: "1e3" is not a number`},
+		{"coordinate too large", "id,x,y\nA,12345678901,1\n", `s.csv:2:2: x: "12345678901" is too large for a coordinate`},
+		{"minutes too large", "id,earliest\nA,99999999999999999\n", `s.csv:2:2: earliest: "99999999999999999" minutes is too large`},
+		{"dates far apart are fine", "id,earliest,latest\nA,0001-01-01 08:00,9999-12-31 08:00\nB,08:00,09:00\n", `s.csv:3:2: earliest: "08:00" is written as clock times without a date`},
+		{"date alone", "id,earliest\nA,2026-12-01\n", `"2026-12-01" is not a number of minutes`},
+		{"date alone in a dated file", "id,earliest,latest\nA,2026-12-01 08:00,2026-12-01\n", `s.csv:2:3: latest: "2026-12-01" is written as plain minutes`},
+		{"huge position", "id,position\nA,999999\n", `s.csv:2:2: position: "999999" is larger than any route can be`},
 		{"bad position", "id,position\nA,middle\n", `s.csv:2:2: position: "middle": want first, last, or the visit number`},
 		{"zero position", "id,position\nA,0\n", `s.csv:2:2: position: "0": want first, last`},
 		{"bare quote", "id,name\nA,Café \"Le Coin\"\n", `s.csv:2: quoting: a double quote inside a field that does not start with one`},

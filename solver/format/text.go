@@ -16,6 +16,9 @@ import (
 // (a video, a disk image) is refused instead of filling memory.
 const MaxInputBytes = 256 << 20
 
+// maxInput is MaxInputBytes, lowered by tests.
+var maxInput = MaxInputBytes
+
 // record is one row of a delimited file with the line it starts on.
 type record struct {
 	line   int
@@ -27,11 +30,11 @@ type record struct {
 // save as "Unicode text") is decoded, and anything else that is not UTF-8
 // is refused with the line of the first bad byte.
 func readText(r io.Reader, name string) (string, error) {
-	data, err := io.ReadAll(io.LimitReader(r, MaxInputBytes+1))
+	data, err := io.ReadAll(io.LimitReader(r, int64(maxInput)+1))
 	if err != nil {
 		return "", &ParseError{File: name, Msg: "cannot read: " + err.Error(), Err: err}
 	}
-	if len(data) > MaxInputBytes {
+	if len(data) > maxInput {
 		return "", &ParseError{File: name, Msg: fmt.Sprintf("input is larger than %d MiB; want a text file of sites or travel times", MaxInputBytes>>20)}
 	}
 	switch {
@@ -79,6 +82,21 @@ func decodeUTF16(data []byte, name string) (string, error) {
 		return "", &ParseError{File: name, Field: "text encoding", Msg: "holds NUL characters: this is not a text file of sites or travel times"}
 	}
 	return s, nil
+}
+
+// sepLine handles a first line "sep=;" that some spreadsheets write to
+// name the delimiter: it returns the delimiter and the text with that line
+// turned into a comment, so that line numbers stay as the user sees them.
+func sepLine(text string) (rune, string) {
+	first, rest, _ := strings.Cut(text, "\n")
+	t := strings.TrimSpace(strings.TrimRight(first, "\r"))
+	if len(t) >= 5 && strings.EqualFold(t[:4], "sep=") {
+		r, size := utf8.DecodeRuneInString(t[4:])
+		if 4+size == len(t) && r != '"' && r != '#' {
+			return r, "#" + first + "\n" + rest
+		}
+	}
+	return 0, text
 }
 
 // delimiters in order of preference when a sample fits more than one.
