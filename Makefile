@@ -1,4 +1,4 @@
-# Visitline build. `make demo` solves the embedded example; `make test` runs every test.
+# Visitline build. `make demo` solves the bakery example; `make test` runs every test.
 GO ?= go
 BENCH_DIR ?= ../shared/benchmarks/tsptw
 BENCH_BUDGET ?= 5s
