@@ -27,13 +27,13 @@ site: build
 	GOOS=js GOARCH=wasm $(GO) build -trimpath -ldflags='-s -w' -o dist/engine.wasm ./wasm
 	./bin/visitline site --engine dist/engine.wasm dist
 
-# Serve the page on 127.0.0.1 with the warehouse example loaded.
+# Serve the page on 127.0.0.1 with the bakery example loaded.
 demo: site
-	./bin/visitline serve --site dist --port $(PORT) --open-example warehouse
+	./bin/visitline serve --site dist --port $(PORT) --open-example bakery
 
 # The command-line demo: solve the example and print the plan.
 demo-cli: build
-	./bin/visitline solve --budget 3s examples/warehouse/picks.txt
+	./bin/visitline solve --budget 3s --matrix examples/bakery/travel.csv examples/bakery/sites.csv
 
 vet:
 	$(GO) vet ./...
