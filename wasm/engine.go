@@ -29,7 +29,7 @@ type Engine struct {
 	pause func()
 
 	mu  sync.Mutex
-	in  *solver.Instance
+	d   *format.Dataset
 	cur *run
 	ids int
 }
@@ -87,8 +87,10 @@ func (e *Engine) Handle(raw string) {
 		e.changeMix(m)
 	case "stop":
 		e.stopRun()
+	case "export":
+		e.export(m)
 	default:
-		e.fail("unknown message type %q; want load, start, mix or stop", m.Type)
+		e.fail("unknown message type %q; want load, start, mix, stop or export", m.Type)
 	}
 }
 
@@ -102,25 +104,26 @@ func (e *Engine) load(m inbound) {
 			Text: name + ":1: there is no data: paste a matrix or CSV, or choose a file"}}})
 		return
 	}
-	in, err := loadInstance(name, m.Text)
+	m.Name = name
+	d, err := loadDataset(m)
 	if err != nil {
 		e.mu.Lock()
-		e.in = nil
+		e.d = nil
 		e.mu.Unlock()
 		e.send(map[string]any{"type": "errors", "errors": inputErrors(err, name)})
 		return
 	}
 	e.mu.Lock()
-	e.in = in
+	e.d = d
 	e.mu.Unlock()
-	e.send(map[string]any{"type": "loaded", "summary": Summarise(in)})
+	e.send(map[string]any{"type": "loaded", "summary": SummariseDataset(d)})
 }
 
 func (e *Engine) start(m inbound) {
 	e.mu.Lock()
-	in := e.in
+	d := e.d
 	e.mu.Unlock()
-	if in == nil {
+	if d == nil {
 		e.fail("no data is loaded: load a file, a paste or an example first")
 		return
 	}
@@ -146,7 +149,7 @@ func (e *Engine) start(m inbound) {
 	e.mu.Unlock()
 	budget := time.Duration(m.Budget * float64(time.Second))
 	e.send(map[string]any{"type": "started", "run": r.id, "budget": m.Budget, "seed": m.Seed, "mix": mixOut(mix), "fixed": m.Fixed, "objective": obj.String()})
-	go e.search(ctx, r, in, solver.Settings{Budget: budget, Seed: m.Seed, Mix: mix, FixedMix: m.Fixed, Objective: obj})
+	go e.search(ctx, r, d, solver.Settings{Budget: budget, Seed: m.Seed, Mix: mix, FixedMix: m.Fixed, Objective: obj})
 }
 
 // mixOut gives the weights the search starts from, for display.
@@ -162,7 +165,8 @@ func mixOut(m solver.Mix) map[string]float64 {
 	return out
 }
 
-func (e *Engine) search(ctx context.Context, r *run, in *solver.Instance, s solver.Settings) {
+func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, s solver.Settings) {
+	in := d.Instance
 	defer close(r.done)
 	defer r.cancel()
 	var (
@@ -182,7 +186,7 @@ func (e *Engine) search(ctx context.Context, r *run, in *solver.Instance, s solv
 			iterations = p.Iteration
 		}
 		res := solver.Result{Iterations: iterations, Elapsed: time.Since(r.start), Improvements: improvements}
-		j := format.NewPlanJSON(in, s.Objective, p, &res)
+		j := d.PlanJSON(s.Objective, p, &res)
 		var csv, js bytes.Buffer
 		if err := format.WriteCSV(&csv, in, j); err != nil {
 			e.fail("cannot write the plan as CSV: %v", err)
@@ -282,3 +286,44 @@ func (e *Engine) stopRun() {
 }
 
 func formatFloat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// export writes a plan of the loaded data in a format that needs more than
+// the plan message carries: today the calendar, which needs the day.
+func (e *Engine) export(m inbound) {
+	e.mu.Lock()
+	d := e.d
+	e.mu.Unlock()
+	reply := func(text, problem string) {
+		e.send(map[string]any{"type": "export", "format": m.Format, "text": text, "error": problem})
+	}
+	if d == nil {
+		reply("", "no data is loaded")
+		return
+	}
+	if m.Format != "ics" {
+		reply("", fmt.Sprintf("format %q: want ics", m.Format))
+		return
+	}
+	in := d.Instance
+	if err := solver.CheckRoute(in, m.Route); err != nil {
+		reply("", "the plan does not fit the loaded data: "+err.Error())
+		return
+	}
+	var day time.Time
+	if m.Date != "" {
+		var err error
+		if day, err = time.Parse("2006-01-02", m.Date); err != nil {
+			reply("", fmt.Sprintf("day %q: want YYYY-MM-DD", m.Date))
+			return
+		}
+	}
+	obj, _ := solver.ParseObjective(m.Objective)
+	sch := solver.Evaluate(in, m.Route)
+	p := solver.Plan{Route: m.Route, Schedule: sch, Cost: sch.Cost(obj), Feasible: sch.Feasible}
+	var b bytes.Buffer
+	if err := format.WriteICS(&b, d, p, format.ICSOptions{Date: day, Stamp: time.Now()}); err != nil {
+		reply("", err.Error())
+		return
+	}
+	reply(b.String(), "")
+}

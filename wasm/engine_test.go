@@ -131,7 +131,9 @@ func TestEngineRunSendsPlanAndFinished(t *testing.T) {
 	p := r.wait(t, "plan")
 	plan := p["plan"].(map[string]any)
 	assert.Len(t, plan["route"], 16)
-	assert.Contains(t, p["csv"], "order,site,arrival")
+	assert.Contains(t, p["csv"], "order,site,name,arrival")
+	e.Handle(msg(t, map[string]any{"type": "export", "format": "ics", "route": plan["route"]}))
+	assert.Contains(t, r.wait(t, "export")["error"], "clock times", "a benchmark file says nothing of clock times")
 	assert.Contains(t, p["json"], `"route"`)
 }
 
@@ -221,4 +223,62 @@ func TestSummariseHandWorked(t *testing.T) {
 	assert.Equal(t, 3, s.Pairs)
 	assert.Equal(t, 20.0, s.NarrowestWindow)
 	assert.Equal(t, 60.0, s.WidestWindow)
+}
+
+func readExample(t *testing.T, path string) string {
+	b, err := os.ReadFile("../examples/" + path)
+	require.NoError(t, err)
+	return string(b)
+}
+
+func TestEngineSitesAndMatrix(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "sites.csv", "text": readExample(t, "bakery/sites.csv"),
+		"matrix_name": "travel.csv", "matrix": readExample(t, "bakery/travel.csv")}))
+	s := r.wait(t, "loaded")["summary"].(map[string]any)
+	assert.Equal(t, "min", s["unit"])
+	assert.Equal(t, "clock", s["times"])
+	assert.Equal(t, "04:35", s["day_start_text"])
+	assert.Equal(t, "matrix", s["travel"])
+	assert.Equal(t, "BAK", s["start"])
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0.3, "seed": 1}))
+	r.wait(t, "finished")
+	p := r.wait(t, "plan")
+	plan := p["plan"].(map[string]any)
+	e.Handle(msg(t, map[string]any{"type": "export", "format": "ics", "route": plan["route"], "date": "2026-12-01"}))
+	x := r.wait(t, "export")
+	assert.Equal(t, "", x["error"])
+	assert.Contains(t, x["text"], "BEGIN:VCALENDAR")
+	assert.Contains(t, x["text"], "DTSTART:20261201T")
+	first := plan["schedule"].([]any)[0].(map[string]any)
+	assert.Equal(t, "Crumb & Crust Bakery", first["name"])
+	assert.Equal(t, "04:35", first["start_clock"])
+	// A route that does not fit is refused, not written.
+	e.Handle(msg(t, map[string]any{"type": "export", "format": "ics", "route": []int{0, 1}, "date": "2026-12-01"}))
+	r.mu.Lock()
+	r.msgs = nil
+	r.mu.Unlock()
+	e.Handle(msg(t, map[string]any{"type": "export", "format": "ics", "route": []int{0, 1}, "date": "2026-12-01"}))
+	assert.Contains(t, r.wait(t, "export")["error"], "does not fit")
+}
+
+func TestEngineRouteOptions(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "sites.csv", "text": readExample(t, "art/sites.csv"),
+		"matrix_name": "travel.tsv", "matrix": readExample(t, "art/travel.tsv"), "options": map[string]any{"end": "SOUTH"}}))
+	s := r.wait(t, "loaded")["summary"].(map[string]any)
+	assert.Equal(t, "open-fixed-end", s["shape"])
+	assert.Equal(t, "SOUTH", s["end"])
+	assert.Equal(t, "dated", s["times"])
+}
+
+func TestEngineBadOptionIsAnError(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "sites.csv", "text": readExample(t, "bakery/sites.csv"),
+		"matrix": readExample(t, "bakery/travel.csv"), "options": map[string]any{"end": "NOWHERE"}}))
+	list := r.wait(t, "errors")["errors"].([]any)
+	assert.Contains(t, list[0].(map[string]any)["text"], "NOWHERE")
 }

@@ -13,9 +13,14 @@
 //
 // Page to worker:
 //
-//	{"type":"load", "name":"picks.txt", "text":"16\n0 16 ..."}
-//	    Read an instance. Stops a running search first. Replies "loaded" or
-//	    "errors".
+//	{"type":"load", "name":"sites.csv", "text":"id,name,open,...", "matrix_name":"travel.csv", "matrix":"...",
+//	 "options":{"start":"", "end":"start|free|ID", "shift_start":"", "matrix_unit":"minutes|seconds",
+//	            "speed":0, "road_factor":0, "done":["C01"], "now":"09:10"}}
+//	    Read a sites file or a benchmark matrix file (told apart by content)
+//	    with an optional travel matrix, through format.Load, the same path
+//	    as the command line; options mean what the flags of the same names
+//	    of `visitline solve` mean (zero values: the defaults). Stops a
+//	    running search first. Replies "loaded" or "errors".
 //	{"type":"start", "budget":10, "seed":1, "mix":{"random":1,...}, "fixed":false, "objective":"travel"}
 //	    Search the loaded instance for budget seconds (0 < budget <= 3600)
 //	    with that seed and starting mix (omitted: even mix); fixed keeps the
@@ -26,20 +31,24 @@
 //	    Replace the operator weights of the running search. Replies "mix".
 //	{"type":"stop"}
 //	    Cancel the running search. Replies "finished" with why "stopped".
+//	{"type":"export", "format":"ics", "route":[0,3,1,...], "date":"2026-12-01", "objective":"travel"}
+//	    Write a plan of the loaded data (its route, 0-based nodes as in a
+//	    plan's "route") as an iCalendar file; date is the day for files
+//	    whose times carry no date. Replies "export".
 //
 // Worker to page:
 //
 //	{"type":"ready", "operators":["random",...]}
 //	    The engine is up; operators are the names of the --mix weights.
 //	{"type":"loaded", "summary":{...}}
-//	    See Summary.
+//	    See Summary; its warnings are suspicious but legal input.
 //	{"type":"errors", "errors":[{"file","line","column","field","message","text"}]}
 //	    The input could not be read; line and column are 1-based (0: unknown).
 //	{"type":"started", "run":1, "budget":10, "seed":1, "mix":{...}}
 //	{"type":"plan", "run":1, "plan":{...}, "csv":"...", "json":"..."}
 //	    A new best plan: plan is the object of `visitline solve --format
-//	    json`; csv and json are the exports, written by the same code as the
-//	    command line. Plans found in a burst are coalesced so that at most
+//	    json`; csv and json are the exports, written by the same code as
+//	    the command line. Plans found in a burst are coalesced so that at most
 //	    one is sent every 50 ms; the best one is always sent before
 //	    "finished".
 //	{"type":"progress", "run":1, "iterations":1234, "elapsed":1.5, "best_cost":812, "feasible":true, "weights":{...}}
@@ -49,6 +58,8 @@
 //	{"type":"finished", "run":1, "why":"budget", "iterations":..., "elapsed":..., "improvements":..., "message":""}
 //	    The search ended; why is one of budget, iterations, stopped,
 //	    complete or error (then message says what went wrong).
+//	{"type":"export", "format":"ics", "text":"BEGIN:VCALENDAR...", "error":""}
+//	    The file asked for, or in error why it cannot be written.
 //	{"type":"failed", "message":"..."}
 //	    A message the engine could not act on (no data loaded, bad budget).
 //
@@ -78,6 +89,16 @@ type inbound struct {
 	Mix       map[string]float64 `json:"mix"`
 	Objective string             `json:"objective"`
 	Fixed     bool               `json:"fixed"`
+	// load: an optional travel matrix for a sites file, and the route and
+	// travel options.
+	Matrix     string      `json:"matrix"`
+	MatrixName string      `json:"matrix_name"`
+	Options    loadOptions `json:"options"`
+	// export: the format (ics), the plan's route, and the day of the plan,
+	// YYYY-MM-DD, for sites files whose times carry no date.
+	Format string `json:"format"`
+	Route  []int  `json:"route"`
+	Date   string `json:"date"`
 }
 
 // InputError is one problem with the input, placed for the page.
@@ -123,6 +144,46 @@ type Summary struct {
 	Pairs           int `json:"pairs"`
 	// Scale is the number of internal units per input unit.
 	Scale int64 `json:"scale"`
+	// For sites files: Unit is "min"; Times is minutes, clock or dated;
+	// DayStartText and DayEndText are written as the file writes times;
+	// Travel says where the travel times came from.
+	Unit         string       `json:"unit,omitempty"`
+	Times        string       `json:"times,omitempty"`
+	TimeOrigin   string       `json:"time_origin,omitempty"`
+	DayStartText string       `json:"day_start_text"`
+	DayEndText   string       `json:"day_end_text"`
+	Travel       string       `json:"travel,omitempty"`
+	Warnings     []InputError `json:"warnings"`
+	// Done and At say which visits were already made and where the
+	// re-planned route leaves from.
+	Done []string `json:"done,omitempty"`
+	At   string   `json:"at,omitempty"`
+}
+
+// SummariseDataset adds what a sites file tells to Summarise.
+func SummariseDataset(d *format.Dataset) Summary {
+	in := d.Instance
+	s := Summarise(in)
+	s.Warnings = []InputError{}
+	dayStart, dayEnd := in.Round(s.DayStart), in.Round(s.DayEnd)
+	s.DayStartText, s.DayEndText = d.FormatTime(dayStart), d.FormatTime(dayEnd)
+	s.Travel = d.Travel
+	for _, w := range d.Warnings {
+		s.Warnings = append(s.Warnings, InputError{File: w.File, Line: w.Line, Column: w.Column, Field: w.Field, Message: w.Msg, Text: w.String()})
+	}
+	if d.Unit != "" {
+		s.Unit, s.Times = d.Unit, d.Time.Mode.String()
+		switch d.Time.Mode {
+		case format.Clock:
+			s.TimeOrigin = "00:00"
+		case format.Dated:
+			s.TimeOrigin = d.Time.Origin.Format("2006-01-02") + " 00:00"
+		}
+	}
+	if d.At != "" {
+		s.Done, s.At = append([]string{}, d.Done...), d.At
+	}
+	return s
 }
 
 // openLate says whether a window end is "no limit" for display.

@@ -379,6 +379,16 @@ func exportText(t *testing.T, ctx context.Context, id string) (name, text string
 	return name, text
 }
 
+// tableColumns maps the plan table's header texts to column numbers.
+func tableColumns(t *testing.T, ctx context.Context) map[string]int {
+	heads := eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=plan-table] thead th')].map(th => th.textContent)`)
+	m := map[string]int{}
+	for i, h := range heads {
+		m[h] = i
+	}
+	return m
+}
+
 func tableRows(t *testing.T, ctx context.Context) [][]string {
 	return eval[[][]string](t, ctx, `[...document.querySelectorAll('[data-testid=plan-table] tbody tr')].map(tr => [...tr.children].map(c => c.textContent))`)
 }
@@ -388,7 +398,7 @@ func TestPageExampleRunTimelineTableExport(t *testing.T) {
 	openPage(t, ctx, "")
 	screenshot(t, ctx, "1-ready")
 
-	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("example-load"))))
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(chromedp.ID("example-pick"), "warehouse/picks.txt"), chromedp.Click(byTestID("example-load"))))
 	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
 	summary := eval[string](t, ctx, `document.getElementById('summary').textContent`)
 	assert.Contains(t, summary, "15")
@@ -430,13 +440,19 @@ func TestPageExampleRunTimelineTableExport(t *testing.T) {
 	recs, err := csv.NewReader(strings.NewReader(text)).ReadAll()
 	require.NoError(t, err)
 	require.Len(t, recs, len(p.Route)+2, "header, visits, return")
-	assert.Equal(t, []string{"order", "site", "arrival", "start", "wait", "departure", "earliest", "latest", "slack", "lateness"}, recs[0])
+	assert.Equal(t, format.CSVHeader, recs[0])
+	col := map[string]int{}
+	for i, h := range recs[0] {
+		col[h] = i
+	}
+	tcol := tableColumns(t, ctx)
 	for k, v := range p.Schedule {
 		r := recs[k+1]
-		assert.Equal(t, v.ID, r[1])
-		assert.Equal(t, fmt.Sprint(v.Start), r[3])
-		assert.Equal(t, rows[k][3], r[3], "CSV start matches the table")
-		assert.Equal(t, fmt.Sprint(v.Departure), r[5])
+		assert.Equal(t, v.ID, r[col["site"]])
+		assert.Equal(t, fmt.Sprint(v.Start), r[col["start"]])
+		assert.Equal(t, rows[k][tcol["Start"]], r[col["start"]], "CSV start matches the table")
+		assert.Equal(t, rows[k][tcol["Arrival"]], r[col["arrival"]], "CSV arrival matches the table")
+		assert.Equal(t, fmt.Sprint(v.Departure), r[col["departure"]])
 	}
 	assert.Equal(t, "return", recs[len(recs)-1][0])
 
@@ -562,6 +578,7 @@ func TestPageOpenExampleFromAddress(t *testing.T) {
 	openPage(t, ctx, "?example=warehouse")
 	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
 	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=paste-input]').value`), "pick faces")
+	assert.Equal(t, "bakery/sites.csv", eval[string](t, ctx, `document.querySelector('#example-pick option[selected]').value`), "the bakery is offered first")
 }
 
 func TestPageContentSecurityPolicy(t *testing.T) {
@@ -590,8 +607,7 @@ func TestSingleFileWorksFromDisk(t *testing.T) {
 	require.NoError(t, os.WriteFile(p, shared.files["visitline.html"], 0o644))
 	require.NoError(t, chromedp.Do(ctx, chromedp.Navigate("file://"+p)))
 	waitFor(t, ctx, `document.body.dataset.engine === "ready"`, 30*time.Second)
-	require.NoError(t, chromedp.Do(ctx,
-		chromedp.Click(byTestID("example-load"))))
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(chromedp.ID("example-pick"), "warehouse/picks.txt"), chromedp.Click(byTestID("example-load"))))
 	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
 	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), "0.5"), chromedp.Click(byTestID("start"))))
 	waitFor(t, ctx, `document.body.dataset.run === "finished" && document.querySelectorAll('[data-testid=timeline] [data-visit]').length === 16`, 15*time.Second)
@@ -657,7 +673,7 @@ func gzipSize(b []byte) int {
 func TestPageSessionRestoredAndForgotten(t *testing.T) {
 	ctx, _ := tab(t)
 	openPage(t, ctx, "")
-	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("example-load"))))
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(chromedp.ID("example-pick"), "warehouse/picks.txt"), chromedp.Click(byTestID("example-load"))))
 	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
 	require.NoError(t, chromedp.Do(ctx,
 		chromedp.SetValue(byTestID("budget"), "0.4"),
@@ -767,4 +783,59 @@ func TestPageFileAndDropLoadAndLatenessShows(t *testing.T) {
 	assert.Equal(t, 1, eval[int](t, ctx, `document.querySelectorAll('[data-testid=plan-table] tr.is-late').length`))
 	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=plan-table] tr.is-late').textContent`), "late by 13")
 	screenshot(t, ctx, "9-late")
+}
+
+func TestPageSitesExamplesWithClockTimesAndCalendar(t *testing.T) {
+	ctx, _ := tab(t)
+	openPage(t, ctx, "?example=bakery")
+	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
+	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=matrix-input]').value`), "BAK")
+	summary := eval[string](t, ctx, `document.getElementById('summary').textContent`)
+	assert.Contains(t, summary, "04:35 to")
+	assert.Contains(t, summary, "from matrix")
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), "1"), chromedp.Click(byTestID("start"))))
+	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 15*time.Second)
+	rows := tableRows(t, ctx)
+	col := tableColumns(t, ctx)
+	assert.Equal(t, "BAK", rows[0][col["Site"]])
+	assert.Equal(t, "Crumb & Crust Bakery", rows[0][col["Name"]])
+	assert.Equal(t, "04:35", rows[0][col["Start"]], "clock times as the file writes them")
+	screenshot(t, ctx, "10-bakery")
+
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("ics-date"), "2026-12-01")))
+	name, ics := exportText(t, ctx, "export-ics")
+	assert.Equal(t, "sites-plan.ics", name)
+	assert.True(t, strings.HasPrefix(ics, "BEGIN:VCALENDAR\r\n"), "CRLF line ends (RFC 5545 section 3.1)")
+	assert.Contains(t, ics, "DTSTART:20261201T")
+	withService := 0
+	for _, r := range rows[:len(rows)-1] {
+		if r[col["Start"]] != r[col["Departure"]] {
+			withService++
+		}
+	}
+	assert.Equal(t, withService, strings.Count(ics, "BEGIN:VEVENT"), "one event per visit with a service time (the start's loading too), none for the return")
+
+	// The art truck: an open path to a fixed end, from the README's --end.
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(chromedp.ID("example-pick"), "art/sites.csv"), chromedp.Click(byTestID("example-load"))))
+	waitFor(t, ctx, `document.getElementById('summary').textContent.includes('ends at SOUTH')`, 10*time.Second)
+	assert.Equal(t, "site", eval[string](t, ctx, `document.querySelector('[data-testid=route-end]').value`))
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), "0.5"), chromedp.Click(byTestID("start"))))
+	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 15*time.Second)
+	visits := eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=timeline] [data-visit]')].map(e => e.dataset.visit)`)
+	require.NotEmpty(t, visits)
+	assert.Equal(t, "NORTH", visits[0])
+	assert.Equal(t, "SOUTH", visits[len(visits)-1])
+	assert.Zero(t, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] [data-return]').length`), "an open path has no return")
+
+	// The overbooked technician: no order meets every slot, and the page says who is late.
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(chromedp.ID("example-pick"), "boiler/sites-overbooked.csv"), chromedp.Click(byTestID("example-load"))))
+	waitFor(t, ctx, `document.getElementById('summary').textContent.includes('sites-overbooked.csv')`, 10*time.Second)
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), "1"), chromedp.Click(byTestID("start"))))
+	// Generous: after its budget the engine still works on the lateness of
+	// a day that cannot be met.
+	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 60*time.Second)
+	assert.False(t, eval[bool](t, ctx, `document.querySelector('[data-testid=why]').hidden`))
+	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=why]').textContent`), "late")
+	assert.Positive(t, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .visit.is-late').length`))
+	screenshot(t, ctx, "11-overbooked")
 }

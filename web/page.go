@@ -98,6 +98,20 @@ func Page(d PageData) g.Node {
 
 func testid(v string) g.Node { return h.Data("testid", v) }
 
+// defaultExample is the example the page offers first: the bakery's
+// morning, which shows clock times, names and a matrix, where it exists.
+func defaultExample(ex []Example) string {
+	for _, e := range ex {
+		if e.Key == "bakery/sites.csv" {
+			return e.Key
+		}
+	}
+	if len(ex) > 0 {
+		return ex[0].Key
+	}
+	return ""
+}
+
 func dataPanel(ex []Example) g.Node {
 	return h.Section(h.Class("panel data"), h.ID("data-panel"), h.Aria("labelledby", "data-title"),
 		h.H2(h.ID("data-title"), h.Span(h.Class("step"), g.Text("1")), g.Text("Sites and travel")),
@@ -108,18 +122,58 @@ func dataPanel(ex []Example) g.Node {
 			),
 			h.Span(h.Class("hint"), g.Text("or drop a file anywhere in this box")),
 		),
-		h.Label(h.For("paste-input"), h.Class("field-label"), g.Text("Or paste a travel matrix or a sites CSV")),
+		h.Label(h.For("paste-input"), h.Class("field-label"), g.Text("Or paste a sites CSV or a travel matrix")),
 		h.Textarea(h.ID("paste-input"), testid("paste-input"), h.Rows("7"), g.Attr("spellcheck", "false"), h.AutoComplete("off"),
-			h.Placeholder("16\n0 16 16 17 …\n…\n0 400\n17 57\n…"), h.Aria("describedby", "paste-help")),
+			h.Placeholder("id,name,open,close,service\nDEPOT,Yard,07:30,18:30,0\nA1,First stop,08:00,10:00,45\n…"), h.Aria("describedby", "paste-help")),
 		h.P(h.ID("paste-help"), h.Class("help"),
-			g.Text("Plain matrix format: the number of nodes, then one row of travel times per node, then one line “earliest latest” per node. Node 0 is the start; the route returns to it.")),
+			g.Text("A sites CSV has a header row (id, name, earliest, latest, service, and x,y or lat,lon if there is no matrix); the first site is the start. "+
+				"Or the plain matrix format: the number of nodes, one row of travel times per node, then one line “earliest latest” per node.")),
+		h.Details(h.ID("matrix-box"), h.Class("more"),
+			h.Summary(g.Text("Travel matrix (for a sites CSV without coordinates)")),
+			h.Div(h.Class("row"),
+				h.Label(h.For("matrix-file"), h.Class("file-pick small"), g.Text("Open a matrix file"),
+					h.Input(h.Type("file"), h.ID("matrix-file"), testid("matrix-file"), h.Accept(".csv,.tsv,.txt,text/csv,text/plain"))),
+				h.Label(h.For("matrix-unit"), h.Class("field-label inline"), g.Text("Numbers are")),
+				h.Select(h.ID("matrix-unit"), testid("matrix-unit"),
+					h.Option(h.Value("minutes"), g.Text("minutes")), h.Option(h.Value("seconds"), g.Text("seconds"))),
+			),
+			h.Label(h.For("matrix-input"), h.Class("field-label"), g.Text("Or paste it, as copied from a spreadsheet (header row and column of site ids optional)")),
+			h.Textarea(h.ID("matrix-input"), testid("matrix-input"), h.Rows("4"), g.Attr("spellcheck", "false"), h.AutoComplete("off")),
+		),
+		h.Details(h.ID("route-box"), h.Class("more"),
+			h.Summary(g.Text("Route and travel options")),
+			h.Div(h.Class("grid2"),
+				h.Div(h.Label(h.For("route-end"), h.Class("field-label"), g.Text("The route ends")),
+					h.Select(h.ID("route-end"), testid("route-end"),
+						h.Option(h.Value("start"), g.Text("back at the start")),
+						h.Option(h.Value("free"), g.Text("at the last visit")),
+						h.Option(h.Value("site"), g.Text("at the site below")))),
+				h.Div(h.Label(h.For("end-site"), h.Class("field-label"), g.Text("End site id")),
+					h.Input(h.Type("text"), h.ID("end-site"), testid("end-site"), h.AutoComplete("off"))),
+				h.Div(h.Label(h.For("start-site"), h.Class("field-label"), g.Text("Start site id (default: the first)")),
+					h.Input(h.Type("text"), h.ID("start-site"), testid("start-site"), h.AutoComplete("off"))),
+				h.Div(h.Label(h.For("shift-start"), h.Class("field-label"), g.Text("Leave the start at (e.g. 07:30)")),
+					h.Input(h.Type("text"), h.ID("shift-start"), testid("shift-start"), h.AutoComplete("off"))),
+				h.Div(h.Label(h.For("speed"), h.Class("field-label"), g.Text("Speed for coordinates (km/h)")),
+					h.Input(h.Type("number"), h.ID("speed"), testid("speed"), h.Min("0"), h.Step("any"), h.Placeholder("50"))),
+				h.Div(h.Label(h.For("road-factor"), h.Class("field-label"), g.Text("Road factor (lat,lon)")),
+					h.Input(h.Type("number"), h.ID("road-factor"), testid("road-factor"), h.Min("1"), h.Step("any"), h.Placeholder("1.3"))),
+				h.Div(h.Label(h.For("done-visits"), h.Class("field-label"), g.Text("Visits already made (ids, in order)")),
+					h.Input(h.Type("text"), h.ID("done-visits"), testid("done-visits"), h.AutoComplete("off"), h.Placeholder("C01, C04"))),
+				h.Div(h.Label(h.For("now"), h.Class("field-label"), g.Text("Leaving the last one at")),
+					h.Input(h.Type("text"), h.ID("now"), testid("now"), h.AutoComplete("off"), h.Placeholder("11:20"))),
+			),
+			h.P(h.Class("help"), g.Text("These apply when the data is read: read it again after a change.")),
+		),
 		h.Div(h.Class("row"),
 			h.Button(h.Type("button"), h.ID("paste-load"), testid("paste-load"), g.Text("Read the pasted text")),
 		),
 		h.Div(h.Class("row example-row"),
 			h.Label(h.For("example-pick"), h.Class("field-label inline"), g.Text("Invented example")),
 			h.Select(h.ID("example-pick"),
-				g.Map(ex, func(e Example) g.Node { return h.Option(h.Value(e.Key), g.Text(e.Title)) }),
+				g.Map(ex, func(e Example) g.Node {
+					return h.Option(h.Value(e.Key), g.If(e.Key == defaultExample(ex), h.Selected()), g.Text(e.Title))
+				}),
 			),
 			h.Button(h.Type("button"), h.ID("example-load"), testid("example-load"), h.Class("secondary"), g.Text("Try it")),
 		),
@@ -136,6 +190,7 @@ func dataPanel(ex []Example) g.Node {
 			h.P(h.ID("keep-note"), h.Class("help")),
 		),
 		h.Div(h.ID("errors"), testid("errors"), h.Class("errors"), h.Role("alert"), h.Hidden("")),
+		h.Div(h.ID("warnings"), testid("warnings"), h.Class("warnings"), h.Hidden("")),
 		h.Div(h.ID("summary"), h.Class("summary"), h.Aria("live", "polite"),
 			h.P(h.Class("muted"), g.Text("No sites loaded yet."))),
 	)
@@ -201,9 +256,15 @@ func planPanel() g.Node {
 			h.Div(h.Class("exports"), h.Role("group"), h.Aria("label", "Take the plan with you"),
 				h.Button(h.Type("button"), h.ID("export-csv"), testid("export-csv"), h.Class("secondary"), h.Disabled(), g.Text("Save as CSV")),
 				h.Button(h.Type("button"), h.ID("export-json"), testid("export-json"), h.Class("secondary"), h.Disabled(), g.Text("Save as JSON")),
+				h.Button(h.Type("button"), h.ID("export-ics"), testid("export-ics"), h.Class("secondary"), h.Disabled(), g.Text("Save for a calendar")),
 				h.Button(h.Type("button"), h.ID("print-plan"), testid("print-plan"), h.Class("secondary"), h.Disabled(), g.Text("Print")),
 			),
 		),
+		h.Div(h.Class("row ics-day"), h.ID("ics-day-row"), h.Hidden(""),
+			h.Label(h.For("ics-date"), h.Class("field-label inline"), g.Text("Day of the plan, for the calendar")),
+			h.Input(h.Type("date"), h.ID("ics-date"), testid("ics-date")),
+		),
+		h.Div(h.ID("why"), testid("why"), h.Class("why"), h.Role("note"), h.Hidden("")),
 		h.P(h.ID("print-title"), h.Class("print-only")),
 		h.Ul(h.Class("legend"), h.Aria("label", "How to read the day plan"),
 			h.Li(h.Span(h.Class("key key-window")), g.Text("time window")),
@@ -217,9 +278,9 @@ func planPanel() g.Node {
 		h.Div(h.ID("visit-detail"), h.Class("visit-detail"), h.Aria("live", "polite")),
 		h.Div(h.Class("table-wrap"),
 			h.Table(h.ID("plan-table"), testid("plan-table"),
-				h.Caption(g.Text("The plan as a table (the day plan above, in words)")),
+				h.Caption(g.Text("The plan as a table (the day plan above, in words)"), h.Span(h.ID("units-note"), h.Class("units"))),
 				h.THead(h.Tr(
-					h.Th(h.Scope("col"), g.Text("Order")), h.Th(h.Scope("col"), g.Text("Site")),
+					h.Th(h.Scope("col"), g.Text("Order")), h.Th(h.Scope("col"), g.Text("Site")), h.Th(h.Scope("col"), h.Class("name-col"), g.Text("Name")),
 					h.Th(h.Scope("col"), g.Text("Arrival")), h.Th(h.Scope("col"), g.Text("Start")),
 					h.Th(h.Scope("col"), g.Text("Wait")), h.Th(h.Scope("col"), g.Text("Departure")),
 					h.Th(h.Scope("col"), g.Text("Window")), h.Th(h.Scope("col"), g.Text("Slack")),

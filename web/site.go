@@ -41,19 +41,31 @@ type Options struct {
 	Examples fs.FS
 }
 
-// Example is one invented scenario the page offers.
+// Example is one invented scenario the page offers: a sites file (or a
+// benchmark matrix file), an optional travel matrix, and the options the
+// scenario's README runs it with.
 type Example struct {
 	// Key is the data file's path inside the examples, e.g.
-	// "warehouse/picks.txt"; the page's ?example= takes the folder name or
+	// "bakery/sites.csv"; the page's ?example= takes the folder name or
 	// the key.
-	Key   string `json:"key"`
-	Title string `json:"title"`
-	About string `json:"about"`
-	Text  string `json:"text"`
+	Key        string            `json:"key"`
+	Title      string            `json:"title"`
+	About      string            `json:"about"`
+	Text       string            `json:"text"`
+	MatrixName string            `json:"matrix_name,omitempty"`
+	Matrix     string            `json:"matrix,omitempty"`
+	Options    map[string]string `json:"options,omitempty"`
 }
 
-// ListExamples reads every scenario data file with its README's title and
-// first paragraph.
+// exampleFlags are the flags of `visitline solve` an example may carry,
+// by the page's option names.
+var exampleFlags = map[string]string{"--end": "end", "--start": "start", "--speed": "speed", "--road-factor": "road_factor",
+	"--shift-start": "shift_start", "--matrix-unit": "matrix_unit", "--done": "done", "--now": "now"}
+
+// ListExamples reads every scenario. A folder whose README shows
+// `visitline solve` command lines gives one example per line (its sites
+// file, --matrix and route flags; lines with --format are skipped as
+// repeats); a folder without them gives one example per data file.
 func ListExamples(fsys fs.FS) ([]Example, error) {
 	if fsys == nil {
 		fsys = examples.FS
@@ -67,60 +79,107 @@ func ListExamples(fsys fs.FS) ([]Example, error) {
 		if !d.IsDir() {
 			continue
 		}
-		title, about := readme(fsys, d.Name())
-		files, err := fs.ReadDir(fsys, d.Name())
-		if err != nil {
-			return nil, err
+		dir := d.Name()
+		title, about, runs := readme(fsys, dir)
+		read := func(name string) (string, bool) {
+			b, err := fs.ReadFile(fsys, dir+"/"+name)
+			return string(b), err == nil
 		}
-		for _, f := range files {
-			name := f.Name()
-			if f.IsDir() || strings.EqualFold(name, "README.md") || strings.HasPrefix(name, ".") {
-				continue
+		var list []Example
+		for _, args := range runs {
+			ex := Example{Options: map[string]string{}}
+			ok := true
+			for i := 0; i < len(args); i++ {
+				a := args[i]
+				switch {
+				case a == "--matrix" && i+1 < len(args):
+					i++
+					ex.MatrixName = path.Base(args[i])
+					if ex.Matrix, ok = read(ex.MatrixName); !ok {
+						break
+					}
+				case exampleFlags[a] != "" && i+1 < len(args):
+					i++
+					ex.Options[exampleFlags[a]] = args[i]
+				case strings.HasPrefix(a, "--"):
+					ok = false // a flag the page does not offer (--format, --date): not an example of its own
+				default:
+					ex.Key = dir + "/" + path.Base(a)
+					ex.Text, ok = read(path.Base(a))
+				}
+				if !ok {
+					break
+				}
 			}
-			ext := strings.ToLower(path.Ext(name))
-			if ext != ".txt" && ext != ".csv" && ext != ".tsv" {
-				continue
+			if ok && ex.Key != "" {
+				list = append(list, ex)
 			}
-			b, err := fs.ReadFile(fsys, d.Name()+"/"+name)
+		}
+		if len(list) == 0 {
+			files, err := fs.ReadDir(fsys, dir)
 			if err != nil {
 				return nil, err
 			}
-			t := title
-			if len(files) > 2 {
-				t = title + " · " + name
+			for _, f := range files {
+				ext := strings.ToLower(path.Ext(f.Name()))
+				if f.IsDir() || (ext != ".txt" && ext != ".csv" && ext != ".tsv") {
+					continue
+				}
+				text, _ := read(f.Name())
+				list = append(list, Example{Key: dir + "/" + f.Name(), Text: text})
 			}
-			out = append(out, Example{Key: d.Name() + "/" + name, Title: t, About: about, Text: string(b)})
 		}
+		for i := range list {
+			list[i].Title, list[i].About = title, about
+			if len(list) > 1 {
+				list[i].Title = title + " · " + path.Base(list[i].Key)
+			}
+			if len(list[i].Options) == 0 {
+				list[i].Options = nil
+			}
+		}
+		out = append(out, list...)
 	}
-	sort.Slice(out, func(i, j int) bool { return out[i].Key < out[j].Key })
+	sort.SliceStable(out, func(i, j int) bool { return out[i].Key < out[j].Key })
 	return out, nil
 }
 
 // readme gives a scenario's title (the first heading, without a trailing
-// "(invented)") and its first paragraph.
-func readme(fsys fs.FS, dir string) (title, about string) {
+// "(invented)"), its first paragraph, and the arguments of each
+// `visitline solve` line of its code blocks.
+func readme(fsys fs.FS, dir string) (title, about string, runs [][]string) {
 	title = dir
 	b, err := fs.ReadFile(fsys, dir+"/README.md")
 	if err != nil {
-		return title, ""
+		return title, "", nil
 	}
 	var para []string
+	done, code := false, false
 	for _, line := range strings.Split(string(b), "\n") {
 		line = strings.TrimSpace(line)
 		switch {
+		case strings.HasPrefix(line, "```"):
+			code = !code
+		case code:
+			if rest, ok := strings.CutPrefix(line, "visitline solve "); ok {
+				if i := strings.Index(rest, ">"); i >= 0 {
+					rest = rest[:i]
+				}
+				runs = append(runs, strings.Fields(rest))
+			}
 		case strings.HasPrefix(line, "#"):
 			if title == dir {
 				title = strings.TrimSpace(strings.TrimSuffix(strings.TrimSpace(strings.TrimLeft(line, "# ")), "(invented)"))
 			}
 		case line == "":
 			if len(para) > 0 {
-				return title, strings.Join(para, " ")
+				done = true
 			}
-		default:
+		case !done:
 			para = append(para, strings.ReplaceAll(line, "`", ""))
 		}
 	}
-	return title, strings.Join(para, " ")
+	return title, strings.Join(para, " "), runs
 }
 
 func asset(name string) []byte {
@@ -152,6 +211,9 @@ func Files(opts Options) (map[string][]byte, error) {
 	}
 	for _, e := range ex {
 		files["examples/"+e.Key] = []byte(e.Text)
+		if e.MatrixName != "" {
+			files["examples/"+path.Dir(e.Key)+"/"+e.MatrixName] = []byte(e.Matrix)
+		}
 	}
 	var b bytes.Buffer
 	if err := Page(PageData{Examples: ex}).Render(&b); err != nil {

@@ -75,8 +75,21 @@ func TestSingleFilePolicyHashesItsInlineParts(t *testing.T) {
 func TestExamplesListed(t *testing.T) {
 	ex, err := ListExamples(nil)
 	require.NoError(t, err)
-	require.NotEmpty(t, ex)
-	assert.Equal(t, "warehouse/picks.txt", ex[0].Key)
-	assert.Equal(t, "Warehouse picks", ex[0].Title)
-	assert.NotContains(t, ex[0].About, "`")
+	byKey := map[string]Example{}
+	for _, e := range ex {
+		byKey[e.Key] = e
+		assert.NotContains(t, e.About, "`")
+		assert.NotEmpty(t, e.Text, e.Key)
+	}
+	require.Contains(t, byKey, "warehouse/picks.txt")
+	assert.Equal(t, "Warehouse picks", byKey["warehouse/picks.txt"].Title)
+	// From the README's command lines: the matrix and the route options.
+	art := byKey["art/sites.csv"]
+	assert.Equal(t, "travel.tsv", art.MatrixName)
+	assert.NotEmpty(t, art.Matrix)
+	assert.Equal(t, map[string]string{"end": "SOUTH"}, art.Options)
+	assert.Equal(t, "travel.csv", byKey["bakery/sites.csv"].MatrixName)
+	assert.Contains(t, byKey, "boiler/sites-overbooked.csv")
+	assert.Equal(t, "", byKey["boiler/sites.csv"].MatrixName)
+	assert.Len(t, ex, 5)
 }

@@ -36,9 +36,29 @@
     const r = Math.round(v * 100) / 100;
     return String(r);
   }
-  // fmtTime is the one place a time is turned into text, so that clock
-  // times can take over here when the data carries them.
-  const fmtTime = num;
+  function pad(n) {
+    return n < 10 ? "0" + n : String(n);
+  }
+  // fmtTime is the one place a time is turned into text: clock times for
+  // sites files written with them (minutes from midnight of the first day),
+  // plain numbers otherwise.
+  function fmtTime(v) {
+    const s = state.summary;
+    if (!s || (s.times !== "clock" && s.times !== "dated")) return num(v);
+    if (v === null || v === undefined || Number.isNaN(v)) return "–";
+    if (v >= OPEN) return "open";
+    const total = Math.round(v * 60);
+    const day = Math.floor(total / 86400);
+    const sec = total - day * 86400;
+    let t = pad(Math.floor(sec / 3600)) + ":" + pad(Math.floor((sec % 3600) / 60));
+    if (sec % 60) t += ":" + pad(sec % 60);
+    if (day) t += " (+" + day + " d)";
+    return t;
+  }
+  // clockOr prefers the time exactly as the writer wrote it.
+  function clockOr(text, v) {
+    return text ? text : fmtTime(v);
+  }
   function plural(n, one, many) {
     return n + " " + (n === 1 ? one : many);
   }
@@ -121,6 +141,10 @@
       case "finished":
         if (m.run === state.run) onFinished(m);
         break;
+      case "export":
+        if (m.error) setStatus("No calendar file: " + m.error, "error");
+        else download(baseName() + "-plan.ics", "text/calendar", m.text);
+        break;
       case "failed":
         setStatus(m.message, "error");
         if (m.fatal) document.body.dataset.engine = "failed";
@@ -129,15 +153,69 @@
   }
 
   // ---------- loading data ----------
-  function loadText(text, name) {
+  function readOptions() {
+    const endWay = $("route-end").value;
+    const o = {
+      end: endWay === "site" ? $("end-site").value.trim() : endWay,
+      start: $("start-site").value.trim(),
+      shift_start: $("shift-start").value.trim(),
+      matrix_unit: $("matrix-unit").value,
+      speed: Number($("speed").value) || 0,
+      road_factor: Number($("road-factor").value) || 0,
+      done: $("done-visits").value.split(",").map((x) => x.trim()).filter((x) => x),
+      now: $("now").value.trim(),
+    };
+    return o;
+  }
+  function applyOptions(o) {
+    o = o || {};
+    const end = o.end || "start";
+    if (end === "start" || end === "free") {
+      $("route-end").value = end;
+      $("end-site").value = "";
+    } else {
+      $("route-end").value = "site";
+      $("end-site").value = end;
+    }
+    $("start-site").value = o.start || "";
+    $("shift-start").value = o.shift_start || "";
+    $("matrix-unit").value = o.matrix_unit === "seconds" ? "seconds" : "minutes";
+    $("speed").value = o.speed ? String(o.speed) : "";
+    $("road-factor").value = o.road_factor ? String(o.road_factor) : "";
+    $("done-visits").value = Array.isArray(o.done) ? o.done.join(", ") : (o.done || "");
+    $("now").value = o.now || "";
+    const any = Object.keys(o).some((k) => o[k] && (!Array.isArray(o[k]) || o[k].length) && !(k === "end" && o[k] === "start") && !(k === "matrix_unit" && o[k] === "minutes"));
+    if (any) $("route-box").open = true;
+  }
+
+  // currentData gathers what the page holds: the text box, the matrix box
+  // and the options.
+  function currentData(name) {
+    const matrix = $("matrix-input").value;
+    return { name: name, text: $("paste-input").value, matrix: matrix,
+      matrix_name: matrix.trim() ? state.matrixName || "pasted matrix" : "", options: readOptions() };
+  }
+  function applyData(d) {
+    $("paste-input").value = d.text || "";
+    $("matrix-input").value = d.matrix || "";
+    state.matrixName = d.matrix_name || "";
+    if (d.matrix) $("matrix-box").open = true;
+    applyOptions(d.options);
+  }
+
+  function loadData(d) {
     if (!state.ready) {
       setStatus("The engine is still starting; try again in a moment.", "error");
       return;
     }
-    state.loadedName = name;
-    state.pendingData = { name: name, text: text };
-    setStatus("Reading " + name + "…");
-    send({ type: "load", name: name, text: text });
+    state.loadedName = d.name;
+    state.pendingData = d;
+    setStatus("Reading " + d.name + "…");
+    send({ type: "load", name: d.name, text: d.text, matrix: d.matrix || "", matrix_name: d.matrix_name || "", options: d.options || {} });
+  }
+  function loadText(text, name) {
+    $("paste-input").value = text;
+    loadData(currentData(name));
   }
 
   async function loadFile(file) {
@@ -148,8 +226,16 @@
     }
     const text = await file.text();
     // Show what was read, so the user can fix it in place after an error.
-    $("paste-input").value = text;
     loadText(text, file.name);
+  }
+
+  async function loadMatrixFile(file) {
+    if (!file) return;
+    $("matrix-input").value = await file.text();
+    state.matrixName = file.name;
+    $("matrix-box").open = true;
+    setStatus("Matrix " + file.name + " is ready: open or paste the sites, or read them again.");
+    if ($("paste-input").value.trim()) loadData(currentData(state.loadedName || "pasted text"));
   }
 
   function examples() {
@@ -177,8 +263,8 @@
     }
     state.pendingExample = null;
     $("example-pick").value = ex.key;
-    $("paste-input").value = ex.text;
-    loadText(ex.text, ex.key.split("/").pop());
+    applyData({ text: ex.text, matrix: ex.matrix || "", matrix_name: ex.matrix_name || "", options: ex.options || {} });
+    loadData(currentData(ex.key.split("/").pop()));
   }
 
   function showExampleAbout() {
@@ -202,12 +288,13 @@
     const shape = { closed: "closed: back to the start", open: "open: ends at the last visit", "open-fixed-end": "open: ends at " + s.end };
     const rows = [
       ["Sites to visit", String(s.sites)],
-      ["Start", s.start],
+      ["Start", s.start + (s.at ? " (re-planned from " + s.at + " after " + plural(s.done.length, "visit", "visits") + " made)" : "")],
       ["Route", shape[s.shape] || s.shape],
-      ["Day", fmtTime(s.day_start) + " to " + fmtTime(s.day_end)],
+      ["Day", (s.day_start_text || fmtTime(s.day_start)) + " to " + (s.day_end_text || fmtTime(s.day_end)) + (s.times === "minutes" ? " (minutes)" : "")],
       ["Window tightness", tightnessText(s)],
       ["Asymmetry", asymmetryText(s)],
     ];
+    if (s.travel) rows.push(["Travel times", s.travel === "benchmark" ? "from the matrix in the file" : "from " + s.travel]);
     for (const [k, v] of rows) {
       const d = document.createElement("div");
       const dt = document.createElement("dt");
@@ -218,6 +305,8 @@
       dl.appendChild(d);
     }
     box.appendChild(dl);
+    showWarnings(s.warnings || []);
+    $("ics-day-row").hidden = !(s.unit && s.times !== "dated");
     $("start").disabled = false;
     $("share-link").disabled = false;
     setStatus("Loaded " + plural(s.sites, "site", "sites") + " from " + (s.name || state.loadedName) + ". Press Start to search.");
@@ -228,6 +317,25 @@
       setStatus("Restored your last session: " + (s.name || state.loadedName) + " and its best plan. Press Start to search again.", "done");
     }
     saveSession();
+  }
+
+  function showWarnings(list) {
+    const box = $("warnings");
+    box.textContent = "";
+    box.hidden = list.length === 0;
+    if (!list.length) return;
+    box.appendChild(el("h3", "", list.length === 1 ? "One thing to check" : list.length + " things to check"));
+    const ul = el("ul");
+    for (const w of list) {
+      const li = el("li");
+      const where = [];
+      if (w.line) where.push("line " + w.line);
+      if (w.column) where.push("column " + w.column);
+      li.textContent = (where.length ? where.join(", ") + ": " : "") + (w.field ? w.field + ": " : "") + w.message;
+      ul.appendChild(li);
+    }
+    box.appendChild(ul);
+    box.appendChild(el("p", "help", "The data was read; these look odd but are allowed."));
   }
 
   function tightnessText(s) {
@@ -245,6 +353,7 @@
 
   function onErrors(list) {
     state.summary = null;
+    showWarnings([]);
     $("start").disabled = true;
     clearPlan();
     $("summary").textContent = "";
@@ -336,6 +445,7 @@
       return;
     }
     state.budget = budget;
+    document.body.dataset.run = "starting";
     send({ type: "start", budget: budget, seed: seed, mix: mix, fixed: $("fixed-mix").checked, objective: $("objective").value });
   }
 
@@ -369,15 +479,36 @@
     state.planJSON = m.json;
     const p = m.plan;
     const late = p.late ? p.late.length : 0;
-    $("best-cost").textContent = num(p.cost) + (p.feasible ? " · every window met" : " · " + plural(late, "visit", "visits") + " late");
+    const unit = p.unit === "min" ? " min" : "";
+    $("best-cost").textContent = num(p.cost) + unit + (p.feasible ? " · every window met" : " · " + plural(late, "visit", "visits") + " late");
     $("best-cost").dataset.cost = p.cost;
     $("improvements").textContent = String(p.improvements);
     for (const id in exporters) $(id).disabled = false;
+    const ics = $("export-ics");
+    ics.disabled = !(state.summary && state.summary.unit);
+    ics.title = ics.disabled ? "A calendar needs a sites file with clock times; this data has no times of day." : "";
+    showWhy(p);
     $("print-title").textContent = (state.data ? state.data.name + " · " : "") + "cost " + num(p.cost) +
       (p.feasible ? ", every window met" : ", " + plural(late, "visit", "visits") + " late") + " · planned " + new Date().toLocaleString("en-GB");
     drawTimeline(p);
     drawTable(p);
     drawChart();
+  }
+
+  function showWhy(p) {
+    const box = $("why");
+    box.textContent = "";
+    if (p.feasible) {
+      box.hidden = true;
+      return;
+    }
+    box.hidden = false;
+    const late = p.late || [];
+    let t = "No order found meets every window: " + plural(late.length, "visit is", "visits are") + " late (" +
+      late.map((l) => l.id + " by " + num(l.by)).join(", ") + "). The plan keeps the total lateness as small as it could.";
+    if (p.reason) t += " " + p.reason;
+    box.appendChild(el("p", "", t));
+    if (p.conflict && p.conflict.length) box.appendChild(el("p", "", "These visits cannot all be on time together: " + p.conflict.join(", ") + "."));
   }
 
   function onProgress(m) {
@@ -432,6 +563,7 @@
     delete $("best-cost").dataset.cost;
     for (const id in exporters) $(id).disabled = true;
     $("print-title").textContent = "";
+    $("why").hidden = true;
     const tl = $("timeline");
     tl.textContent = "";
     const p = document.createElement("p");
@@ -466,19 +598,19 @@
   function describe(r) {
     const v = r.v;
     if (r.ret) {
-      let t = "Back at " + v.id + ": arrive " + fmtTime(v.arrival);
-      if (v.latest < OPEN) t += ", must be back by " + fmtTime(v.latest);
+      let t = "Back at " + v.id + ": arrive " + clockOr(v.arrival_clock, v.arrival);
+      if (v.latest < OPEN) t += ", must be back by " + clockOr(v.latest_clock, v.latest);
       if (v.lateness > 0) t += ", late by " + num(v.lateness);
       return t + ".";
     }
-    let t = (r.order === 0 ? "Start at " : "Stop " + r.order + ", site ") + v.id + ": ";
-    if (r.order === 0) t += "leave at " + fmtTime(v.departure);
+    let t = (r.order === 0 ? "Start at " : "Stop " + r.order + ", site ") + v.id + (v.name ? " (" + v.name + ")" : "") + ": ";
+    if (r.order === 0) t += "leave at " + clockOr(v.departure_clock, v.departure);
     else {
-      t += "arrive " + fmtTime(v.arrival);
+      t += "arrive " + clockOr(v.arrival_clock, v.arrival);
       if (v.wait > 0) t += ", wait " + num(v.wait);
-      t += ", service " + fmtTime(v.start) + " to " + fmtTime(v.departure);
+      t += ", service " + clockOr(v.start_clock, v.start) + " to " + clockOr(v.departure_clock, v.departure);
     }
-    t += "; window " + fmtTime(v.earliest) + " to " + fmtTime(v.latest);
+    t += "; window " + clockOr(v.earliest_clock, v.earliest) + " to " + clockOr(v.latest_clock, v.latest);
     if (v.lateness > 0) t += "; late by " + num(v.lateness);
     else if (r.order > 0 && v.latest < OPEN) t += "; slack " + num(v.slack);
     return t + ".";
@@ -515,7 +647,9 @@
     axis.setAttribute("aria-hidden", "true");
     axis.appendChild(el("div", "who", "stop · site"));
     const ticks = el("div", "track ticks");
-    const step = niceStep(span, 6);
+    const clockAxis = state.summary && (state.summary.times === "clock" || state.summary.times === "dated");
+    let step = niceStep(span, 6);
+    if (clockAxis) step = [5, 10, 15, 20, 30, 60, 120, 180, 240, 360, 720, 1440].find((m) => span / m <= 8) || 1440;
     for (let t = Math.ceil(t0 / step) * step; t <= t1 + 1e-9; t += step) {
       const tk = el("span", "tick", fmtTime(t));
       tk.style.left = x(t) + "%";
@@ -539,6 +673,7 @@
       const who = el("div", "who");
       who.appendChild(el("span", "ord", r.ret ? "↩" : String(r.order)));
       who.appendChild(el("span", "sid", v.id));
+      if (v.name) who.appendChild(el("span", "nm", v.name));
       row.appendChild(who);
       const track = el("div", "track");
       const late = v.latest < OPEN ? v.latest : t1;
@@ -585,17 +720,22 @@
   function drawTable(p) {
     const body = $("plan-table").tBodies[0];
     const frag = document.createDocumentFragment();
-    for (const r of planRows(p)) {
+    const rowsAll = planRows(p);
+    $("plan-table").classList.toggle("no-names", !rowsAll.some((r) => r.v.name));
+    $("units-note").textContent = p.unit === "min" ? "(waits and slack in minutes)" : "";
+    for (const r of rowsAll) {
       const v = r.v;
       const tr = document.createElement("tr");
       if (v.lateness > 0) tr.className = "is-late";
-      const window = "[" + fmtTime(v.earliest) + ", " + fmtTime(v.latest) + "]";
+      const window = "[" + clockOr(v.earliest_clock, v.earliest) + ", " + clockOr(v.latest_clock, v.latest) + "]";
       let slack = v.latest >= OPEN ? "open" : num(v.slack);
       if (v.lateness > 0) slack = "late by " + num(v.lateness);
-      const cells = [r.ret ? "back" : String(r.order), v.id, fmtTime(v.arrival), fmtTime(v.start), num(v.wait), fmtTime(v.departure), window, slack];
+      const cells = [r.ret ? "back" : String(r.order), v.id, v.name || "", clockOr(v.arrival_clock, v.arrival), clockOr(v.start_clock, v.start),
+        num(v.wait), clockOr(v.departure_clock, v.departure), window, slack];
       cells.forEach((c, i) => {
         const td = document.createElement(i === 1 ? "th" : "td");
         if (i === 1) td.scope = "row";
+        if (i === 2) td.className = "name-col";
         td.textContent = c;
         tr.appendChild(td);
       });
@@ -688,6 +828,11 @@
   const exporters = {
     "export-csv": () => download(baseName() + "-plan.csv", "text/csv", state.planCSV),
     "export-json": () => download(baseName() + "-plan.json", "application/json", state.planJSON),
+    "export-ics": () => {
+      if (!state.plan) return;
+      setStatus("Writing the calendar file…");
+      send({ type: "export", format: "ics", route: state.plan.route, date: $("ics-date").value, objective: $("objective").value });
+    },
     "print-plan": () => window.print(),
   };
 
@@ -776,7 +921,9 @@
       setStatus("Load data first: the link carries the data.", "error");
       return;
     }
-    const payload = JSON.stringify({ v: 1, name: state.data.name, text: state.data.text, settings: settings() });
+    const d = state.data;
+    const payload = JSON.stringify({ v: 1, name: d.name, text: d.text, matrix: d.matrix || "", matrix_name: d.matrix_name || "",
+      options: d.options || {}, settings: settings() });
     const packed = b64url(await squeeze(payload, new CompressionStream("deflate-raw")));
     const link = location.href.split("#")[0] + "#data=" + packed;
     const out = $("share-url");
@@ -818,8 +965,9 @@
     if (shared && shared.damaged) return;
     if (shared) {
       applySettings(shared.settings);
-      $("paste-input").value = shared.text;
-      loadText(shared.text, shared.name || "shared data");
+      const d = { name: shared.name || "shared data", text: shared.text, matrix: shared.matrix || "", matrix_name: shared.matrix_name || "", options: shared.options || {} };
+      applyData(d);
+      loadData(d);
       return;
     }
     if (state.pendingExample) {
@@ -829,15 +977,18 @@
     const kept = state.keep ? readSession() : null;
     if (kept && kept.data && typeof kept.data.text === "string") {
       applySettings(kept.settings);
-      $("paste-input").value = kept.data.text;
+      applyData(kept.data);
       state.restorePlan = kept.plan;
-      loadText(kept.data.text, kept.data.name);
+      loadData(kept.data);
     }
   }
 
   // ---------- wiring ----------
   function wire() {
     $("file-input").addEventListener("change", (ev) => loadFile(ev.target.files[0]));
+    $("matrix-file").addEventListener("change", (ev) => loadMatrixFile(ev.target.files[0]));
+    const today = new Date();
+    $("ics-date").value = today.getFullYear() + "-" + pad(today.getMonth() + 1) + "-" + pad(today.getDate());
     const zone = $("data-panel");
     zone.addEventListener("dragover", (ev) => {
       ev.preventDefault();
@@ -849,8 +1000,13 @@
     zone.addEventListener("drop", (ev) => {
       ev.preventDefault();
       zone.classList.remove("dragging");
-      const f = ev.dataTransfer && ev.dataTransfer.files && ev.dataTransfer.files[0];
-      if (f) loadFile(f);
+      const files = ev.dataTransfer && ev.dataTransfer.files ? [...ev.dataTransfer.files] : [];
+      // Two files at once: the one named like a matrix is the matrix.
+      const mx = files.length > 1 ? files.find((x) => /travel|matrix|distance|time/i.test(x.name)) : null;
+      const f = files.find((x) => x !== mx);
+      if (mx && f) {
+        loadMatrixFile(mx).then(() => loadFile(f));
+      } else if (f) loadFile(f);
       else if (ev.dataTransfer) {
         const t = ev.dataTransfer.getData("text/plain");
         if (t) {
