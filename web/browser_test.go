@@ -194,7 +194,6 @@ func tab(t *testing.T) (context.Context, *requests) {
 			chromedp.Flag("disable-features", "AutofillServerCommunication,OptimizationHints,Translate,MediaRouter,DialMediaRouteProvider,InterestFeedContentSuggestions,CertificateTransparencyComponentUpdater"),
 			chromedp.Flag("disable-extensions", true), chromedp.Flag("no-pings", true), chromedp.Flag("disable-client-side-phishing-detection", true),
 			chromedp.Flag("disable-domain-reliability", true), chromedp.Flag("disable-breakpad", true),
-			chromedp.Flag("google-base-url", "http://127.0.0.1:9/"), chromedp.Flag("gaia-url", "http://127.0.0.1:9/"),
 			// Every request of the page and its worker goes through the
 			// recording proxy, loopback included, so the test sees them all.
 			chromedp.ProxyServer(shared.proxy.URL), chromedp.Flag("proxy-bypass-list", "<-loopback>"),
