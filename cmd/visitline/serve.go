@@ -12,6 +12,7 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
+	"sort"
 	"strings"
 	"time"
 
@@ -99,6 +100,7 @@ func exampleNames(files map[string][]byte) []string {
 			}
 		}
 	}
+	sort.Strings(out)
 	return out
 }
 
