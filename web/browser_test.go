@@ -29,6 +29,7 @@ import (
 	"github.com/chromedp/cdproto/network"
 	"github.com/chromedp/cdproto/page"
 	"github.com/chromedp/chromedp"
+	"github.com/chromedp/chromedp/kb"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
@@ -459,6 +460,9 @@ func TestPageExampleRunTimelineTableExport(t *testing.T) {
 	eval[bool](t, ctx, `document.querySelector('[data-testid=timeline] [data-visit]').focus(); true`)
 	detail := eval[string](t, ctx, `document.getElementById('visit-detail').textContent`)
 	assert.Contains(t, detail, "Start at 0")
+	require.NoError(t, chromedp.Do(ctx, chromedp.KeyEvent(kb.ArrowDown)))
+	assert.Equal(t, p.RouteIDs[1], eval[string](t, ctx, `document.activeElement.dataset.visit`), "the arrow keys move along the route")
+	assert.Contains(t, eval[string](t, ctx, `document.getElementById('visit-detail').textContent`), "Stop 1, site "+p.RouteIDs[1])
 
 	checkOrigin(t, rec, shared.srv.URL)
 }
