@@ -1,4 +1,4 @@
-# Visitline build. `make demo` solves the embedded example; `make test` runs every test.
+# Visitline build. `make demo` solves the bakery example; `make test` runs every test.
 GO ?= go
 BENCH_DIR ?= ../shared/benchmarks/tsptw
 BENCH_BUDGET ?= 5s
@@ -19,7 +19,7 @@ bench: build
 	./bin/visitline bench --budget $(BENCH_BUDGET) --bounds $(BENCH_DIR)/best-known.csv --json bench-results.json --readme README.md $(BENCH_DIR)
 
 demo: build
-	./bin/visitline solve --budget 3s examples/warehouse/picks.txt
+	./bin/visitline solve --budget 3s --matrix examples/bakery/travel.csv examples/bakery/sites.csv
 
 vet:
 	$(GO) vet ./...
