@@ -33,6 +33,7 @@ type model struct {
 	isMov   []bool
 	before  [][]uint64 // before[u] has bit k when u must come before k
 	infeas  bool       // tightening proved that no plan meets every window
+	fewest  bool       // rank late plans by late visits first
 	arcOK   []bool     // arc i→j can be in a feasible plan
 }
 
