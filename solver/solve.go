@@ -21,6 +21,7 @@ func Solve(ctx context.Context, in *Instance, s Settings) (Result, error) {
 	if err != nil {
 		return Result{}, err
 	}
+	m.fewest = s.FewestLate
 	e := &engine{m: m, set: s, start: time.Now()}
 	if e.set.ProgressEvery <= 0 {
 		e.set.ProgressEvery = 50 * time.Millisecond
@@ -66,7 +67,7 @@ func Solve(ctx context.Context, in *Instance, s Settings) (Result, error) {
 	}
 	if !res.Best.Feasible && ctx.Err() == nil {
 		p := minimiseLateness(m, res.Best.Route, s.Objective)
-		if p.Schedule.TotalLateness < res.Best.Schedule.TotalLateness {
+		if e.better(p, res.Best) {
 			p.Iteration, p.Elapsed, p.Operator = e.iters, time.Since(e.start), "lateness"
 			res.Best = p
 			res.Improvements++
@@ -122,7 +123,7 @@ func (e *engine) offer(r *route, op string) bool {
 	}
 	if t.tw > 0 || !e.haveBest || !e.best.Feasible {
 		p := e.planOf(r.r, e.iters, op)
-		if e.haveBest && !better(p, e.best) {
+		if e.haveBest && !e.better(p, e.best) {
 			return false
 		}
 		e.take(r.r, t, p)
@@ -139,7 +140,7 @@ func (e *engine) offerExternal(route []int, op string) bool {
 	e.mu.Lock()
 	defer e.mu.Unlock()
 	p.Iteration, p.Elapsed = e.iters, time.Since(e.start)
-	if e.haveBest && !better(p, e.best) {
+	if e.haveBest && !e.better(p, e.best) {
 		return false
 	}
 	e.haveBest = true
@@ -157,12 +158,16 @@ func (e *engine) offerExternal(route []int, op string) bool {
 	return true
 }
 
-func better(a, b Plan) bool {
+func (e *engine) better(a, b Plan) bool {
 	if a.Feasible != b.Feasible {
 		return a.Feasible
 	}
-	if !a.Feasible && a.Schedule.TotalLateness != b.Schedule.TotalLateness {
-		return a.Schedule.TotalLateness < b.Schedule.TotalLateness
+	if !a.Feasible {
+		ka := lateKey(a.Schedule.TotalLateness, a.Schedule.LateVisits, e.m.fewest)
+		kb := lateKey(b.Schedule.TotalLateness, b.Schedule.LateVisits, e.m.fewest)
+		if ka != kb {
+			return ka < kb
+		}
 	}
 	return a.Cost < b.Cost
 }

@@ -9,7 +9,7 @@ import (
 // an operator scores when its result is a new best, better than the current
 // plan, or accepted; every segment the weights move toward the scores.
 var tempFactor = 0.01
-var qFrac = 2
+var qFrac = 1
 
 const (
 	scoreBest     = 33
@@ -277,11 +277,9 @@ func (s *search) findFeasible(ctx context.Context, e *engine) {
 	x := newRoute(m, s.cur.r)
 	level := 1
 	for tries := 0; bestTW > 0 && tries < 200000; tries++ {
-		if tries%8 == 0 && e.isDone() {
-			return
-		}
-		if ctx.Err() != nil {
-			return
+		// Each round counts as an iteration, so that every budget holds.
+		if goOn, _ := e.tick(ctx); !goOn {
+			break
 		}
 		x.set(best.r)
 		// Shake: move `level` random visits to random places.
@@ -315,7 +313,7 @@ func (s *search) findFeasible(ctx context.Context, e *engine) {
 		} else {
 			level = 1
 		}
-		if m.infeas && tries > 2000 {
+		if m.infeas && tries > 200 || tries > 5000 && tries > 50*len(m.movable) {
 			break
 		}
 	}

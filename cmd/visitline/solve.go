@@ -21,6 +21,7 @@ type solveFlags struct {
 	seed       int64
 	mix        string
 	fixedMix   bool
+	fewestLate bool
 	objective  string
 	format     string
 	date       string
@@ -74,6 +75,7 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	fs.Int64Var(&f.seed, "seed", 1, "random seed; a seed with an iteration budget reproduces a run")
 	fs.StringVar(&f.mix, "mix", "", "starting weights of the destroy operators, e.g. random=1,slice=1,related=1,worst=1")
 	fs.BoolVar(&f.fixedMix, "fixed-mix", false, "keep the mix as given instead of adapting it")
+	fs.BoolVar(&f.fewestLate, "fewest-late", false, "when the windows cannot all be met, minimise the number of late visits first (default: total lateness)")
 	fs.StringVar(&f.objective, "objective", "travel", "travel (sum of arcs) or completion (end time, waiting counted)")
 	fs.StringVar(&f.format, "format", "table", "output: table, json, csv or ics (iCalendar)")
 	fs.StringVar(&f.date, "date", "", "day of the plan for --format ics when the sites file has no dates, YYYY-MM-DD (default: today)")
@@ -130,7 +132,7 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	in := d.Instance
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
-	s := solver.Settings{Budget: f.budget, Iterations: f.iterations, Seed: f.seed, Mix: mix, FixedMix: f.fixedMix, Objective: obj}
+	s := solver.Settings{Budget: f.budget, Iterations: f.iterations, Seed: f.seed, Mix: mix, FixedMix: f.fixedMix, FewestLate: f.fewestLate, Objective: obj}
 	if !f.quiet {
 		s.OnImprove = func(p solver.Plan) {
 			state := "feasible"
