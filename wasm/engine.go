@@ -149,7 +149,7 @@ func (e *Engine) start(m inbound) {
 	e.mu.Unlock()
 	budget := time.Duration(m.Budget * float64(time.Second))
 	e.send(map[string]any{"type": "started", "run": r.id, "budget": m.Budget, "seed": m.Seed, "mix": mixOut(mix), "fixed": m.Fixed, "objective": obj.String()})
-	go e.search(ctx, r, d, solver.Settings{Budget: budget, Seed: m.Seed, Mix: mix, FixedMix: m.Fixed, Objective: obj})
+	go e.search(ctx, r, d, solver.Settings{Budget: budget, Seed: m.Seed, Mix: mix, FixedMix: m.Fixed, Objective: obj, FewestLate: m.FewestLate})
 }
 
 // mixOut gives the weights the search starts from, for display.

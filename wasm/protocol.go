@@ -21,11 +21,13 @@
 //	    as the command line; options mean what the flags of the same names
 //	    of `visitline solve` mean (zero values: the defaults). Stops a
 //	    running search first. Replies "loaded" or "errors".
-//	{"type":"start", "budget":10, "seed":1, "mix":{"random":1,...}, "fixed":false, "objective":"travel"}
+//	{"type":"start", "budget":10, "seed":1, "mix":{"random":1,...}, "fixed":false, "objective":"travel", "fewest_late":false}
 //	    Search the loaded instance for budget seconds (0 < budget <= 3600)
 //	    with that seed and starting mix (omitted: even mix); fixed keeps the
 //	    weights as given instead of adapting them (--fixed-mix); objective is
-//	    travel or completion. Stops a running search first. Replies "started", then "plan" and "progress" while it
+//	    travel or completion; fewest_late ranks a day that cannot be met by
+//	    its number of late visits (--fewest-late). Stops a running search
+//	    first. Replies "started", then "plan" and "progress" while it
 //	    runs, and "finished" at the end.
 //	{"type":"mix", "mix":{"random":2,"slice":0,...}}
 //	    Replace the operator weights of the running search. Replies "mix".
@@ -89,6 +91,9 @@ type inbound struct {
 	Mix       map[string]float64 `json:"mix"`
 	Objective string             `json:"objective"`
 	Fixed     bool               `json:"fixed"`
+	// FewestLate ranks days that cannot be met by the number of late
+	// visits rather than the total lateness (--fewest-late).
+	FewestLate bool `json:"fewest_late"`
 	// load: an optional travel matrix for a sites file, and the route and
 	// travel options.
 	Matrix     string      `json:"matrix"`

@@ -210,6 +210,8 @@ func searchPanel() g.Node {
 			h.Option(h.Value("travel"), g.Text("Total travel time")),
 			h.Option(h.Value("completion"), g.Text("Time the route ends (waiting counts)")),
 		),
+		h.Label(h.Class("check"), h.Input(h.Type("checkbox"), h.ID("fewest-late"), testid("fewest-late")),
+			g.Text(" If not every window can be met: as few late visits as possible (otherwise: the least lateness in all)")),
 		h.FieldSet(h.Class("mix"),
 			h.Legend(g.Text("Ways to rework the plan")),
 			h.P(h.Class("help"), g.Text("The search keeps taking visits out of its best plan and putting them back better. These weights say how often it uses each way of choosing them; you can change them while it runs.")),

@@ -446,7 +446,8 @@
     }
     state.budget = budget;
     document.body.dataset.run = "starting";
-    send({ type: "start", budget: budget, seed: seed, mix: mix, fixed: $("fixed-mix").checked, objective: $("objective").value });
+    send({ type: "start", budget: budget, seed: seed, mix: mix, fixed: $("fixed-mix").checked, objective: $("objective").value,
+      fewest_late: $("fewest-late").checked });
   }
 
   function onStarted(m) {
@@ -848,7 +849,8 @@
     return document.querySelectorAll("input[data-operator]");
   }
   function settings() {
-    return { budget: $("budget").value, seed: $("seed").value, mix: readMix(), fixed: $("fixed-mix").checked, objective: $("objective").value };
+    return { budget: $("budget").value, seed: $("seed").value, mix: readMix(), fixed: $("fixed-mix").checked, objective: $("objective").value,
+      fewest_late: $("fewest-late").checked };
   }
   function applySettings(st) {
     if (!st) return;
@@ -864,6 +866,7 @@
       }
     }
     $("fixed-mix").checked = !!st.fixed;
+    $("fewest-late").checked = !!st.fewest_late;
     if (st.objective) $("objective").value = st.objective;
   }
 
@@ -1056,7 +1059,7 @@
     });
     $("forget-session").addEventListener("click", forgetSession);
     $("share-link").addEventListener("click", makeShareLink);
-    for (const id of ["budget", "seed", "objective", "fixed-mix"]) $(id).addEventListener("change", saveSoon);
+    for (const id of ["budget", "seed", "objective", "fixed-mix", "fewest-late"]) $(id).addEventListener("change", saveSoon);
     for (const el of mixInputs()) el.addEventListener("change", saveSoon);
     const tl = $("timeline");
     tl.addEventListener("focusin", showDetail);
