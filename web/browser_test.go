@@ -397,6 +397,8 @@ func TestPageExampleRunTimelineTableExport(t *testing.T) {
 	ctx, rec := tab(t)
 	openPage(t, ctx, "")
 	screenshot(t, ctx, "1-ready")
+	assert.False(t, eval[bool](t, ctx, `document.getElementById('ics-day-row').checkVisibility()`), "hidden parts stay hidden")
+	assert.False(t, eval[bool](t, ctx, `document.querySelector('[data-testid=errors]').checkVisibility()`))
 
 	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(chromedp.ID("example-pick"), "warehouse/picks.txt"), chromedp.Click(byTestID("example-load"))))
 	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
