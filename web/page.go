@@ -178,6 +178,10 @@ func dataPanel(ex []Example) g.Node {
 			h.Button(h.Type("button"), h.ID("example-load"), testid("example-load"), h.Class("secondary"), g.Text("Try it")),
 		),
 		h.P(h.ID("example-about"), h.Class("help")),
+		h.Div(h.ID("errors"), testid("errors"), h.Class("errors"), h.Role("alert"), h.Hidden("")),
+		h.Div(h.ID("warnings"), testid("warnings"), h.Class("warnings"), h.Hidden("")),
+		h.Div(h.ID("summary"), h.Class("summary"), h.Aria("live", "polite"),
+			h.P(h.Class("muted"), g.Text("No sites loaded yet."))),
 		h.Div(h.Class("keep"), h.Role("group"), h.Aria("label", "Keep and share"),
 			h.Label(h.Class("check"), h.Input(h.Type("checkbox"), h.ID("keep-session"), testid("keep-session"), h.Checked()),
 				g.Text(" Keep this session in this browser (data, settings, best plan) for the next visit")),
@@ -189,10 +193,6 @@ func dataPanel(ex []Example) g.Node {
 			h.Input(h.Type("text"), h.ID("share-url"), testid("share-url"), h.ReadOnly(), h.Hidden("")),
 			h.P(h.ID("keep-note"), h.Class("help")),
 		),
-		h.Div(h.ID("errors"), testid("errors"), h.Class("errors"), h.Role("alert"), h.Hidden("")),
-		h.Div(h.ID("warnings"), testid("warnings"), h.Class("warnings"), h.Hidden("")),
-		h.Div(h.ID("summary"), h.Class("summary"), h.Aria("live", "polite"),
-			h.P(h.Class("muted"), g.Text("No sites loaded yet."))),
 	)
 }
 

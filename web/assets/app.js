@@ -392,7 +392,7 @@
     p.className = "help";
     p.textContent = "Your text is kept as it was: fix it in the box and read it again.";
     box.appendChild(p);
-    setStatus("The data could not be read (" + plural(list.length, "problem", "problems") + ", listed under the text box).", "error");
+    setStatus("The data could not be read (" + plural(list.length, "problem", "problems") + ", listed in “Sites and travel”).", "error");
   }
 
   // selectPlace puts the caret on line:column of the text box.
