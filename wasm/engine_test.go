@@ -282,3 +282,15 @@ func TestEngineBadOptionIsAnError(t *testing.T) {
 	list := r.wait(t, "errors")["errors"].([]any)
 	assert.Contains(t, list[0].(map[string]any)["text"], "NOWHERE")
 }
+
+func TestEngineReplansAfterDoneVisits(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "sites.csv", "text": readExample(t, "bakery/sites.csv"),
+		"matrix": readExample(t, "bakery/travel.csv"), "options": map[string]any{"done": []string{"C07"}, "now": "05:20"}}))
+	s := r.wait(t, "loaded")["summary"].(map[string]any)
+	assert.Equal(t, "C07", s["at"])
+	assert.Equal(t, []any{"C07"}, s["done"])
+	assert.EqualValues(t, 11, s["sites"], "twelve cafés less the one done")
+	assert.Equal(t, "05:20", s["day_start_text"])
+}
