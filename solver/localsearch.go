@@ -16,6 +16,8 @@ type polisher struct {
 	maxScan int // how far a stretch may move, in positions
 	buf     []int32
 	moves   int
+	// halt, when set, is asked between passes whether to stop at once.
+	halt func() bool
 	// active marks the nodes whose surroundings changed ("don't look
 	// bits"): a node stays quiet until a move touches an arc next to it.
 	active []bool
@@ -44,6 +46,9 @@ func (p *polisher) wakeAround(i int) {
 // run improves x until no move helps or budget moves were made.
 func (p *polisher) run(budget int) {
 	for p.moves < budget {
+		if p.halt != nil && p.halt() {
+			return
+		}
 		improved := false
 		if p.orOpt() {
 			improved = true

@@ -233,18 +233,46 @@ func (e *engine) tick(ctx context.Context) (goOn bool, mixChanged []float64) {
 		default:
 		}
 	}
-	if now.Sub(e.lastTick) >= e.set.ProgressEvery {
-		e.lastTick = now
-		if e.set.OnProgress != nil {
-			e.set.OnProgress(Progress{Iteration: e.iters, Elapsed: now.Sub(e.start), BestCost: e.best.Cost, Feasible: e.best.Feasible, Weights: normalised(e.weights)})
-		}
-		if e.set.Pause != nil {
-			e.mu.Unlock()
-			e.set.Pause()
-			e.mu.Lock()
-		}
-	}
+	e.heartbeat(now)
 	return true, mixChanged
+}
+
+// heartbeat reports progress and gives the host a turn when due. Call with
+// e.mu held.
+func (e *engine) heartbeat(now time.Time) {
+	if now.Sub(e.lastTick) < e.set.ProgressEvery {
+		return
+	}
+	e.lastTick = now
+	if e.set.OnProgress != nil {
+		e.set.OnProgress(Progress{Iteration: e.iters, Elapsed: now.Sub(e.start), BestCost: e.best.Cost, Feasible: e.best.Feasible, Weights: normalised(e.weights)})
+	}
+	if e.set.Pause != nil {
+		e.mu.Unlock()
+		e.set.Pause()
+		e.mu.Lock()
+	}
+}
+
+// interrupted is checked inside long steps (a polish of a big route): it
+// keeps progress and pauses flowing and says when the run must end now.
+func (e *engine) interrupted(ctx context.Context) bool {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	if e.done {
+		return true
+	}
+	if ctx.Err() != nil {
+		e.finish("cancelled")
+		return true
+	}
+	now := time.Now()
+	if !e.deadline.IsZero() && !now.Before(e.deadline) {
+		e.finish("budget")
+		return true
+	}
+	e.heartbeat(now)
+	return false
 }
 
 func (e *engine) finish(why string) {

@@ -23,6 +23,9 @@ const (
 func (e *engine) work(ctx context.Context, id int, seed int64) {
 	m := e.m
 	s := newSearch(m, seed)
+	if len(m.movable) > 150 {
+		s.pol.halt = func() bool { return e.interrupted(ctx) }
+	}
 	e.mu.Lock()
 	s.weights = append([]float64(nil), e.weights...)
 	e.mu.Unlock()
