@@ -729,6 +729,16 @@ func TestPageShareLinkOpensInFreshProfile(t *testing.T) {
 	assert.Equal(t, "7", eval[string](t, other, `document.querySelector('[data-testid=seed]').value`))
 	assert.Equal(t, summary, eval[string](t, other, `document.getElementById('summary').textContent`))
 
+	// Data too large for a link gets a clear message instead of a link.
+	big := longInstance(301, 3)
+	require.NoError(t, chromedp.Do(other,
+		chromedp.SetValue(byTestID("paste-input"), big),
+		chromedp.Click(byTestID("paste-load"))))
+	waitFor(t, other, `document.getElementById('summary').textContent.includes('300')`, 20*time.Second)
+	require.NoError(t, chromedp.Do(other, chromedp.Click(byTestID("share-link"))))
+	waitFor(t, other, `document.querySelector('[data-testid=status]').textContent.includes('too large for a link')`, 10*time.Second)
+	assert.True(t, eval[bool](t, other, `document.querySelector('[data-testid=share-url]').hidden`))
+
 	// A damaged link says so and loads nothing.
 	require.NoError(t, chromedp.Do(other, chromedp.Navigate(shared.srv.URL+"/#data=AAAA"+"x")))
 	waitFor(t, other, `document.body.dataset.engine === "ready"`, 20*time.Second)
