@@ -56,7 +56,8 @@
 //	{"type":"progress", "run":1, "iterations":1234, "elapsed":1.5, "best_cost":812, "feasible":true, "weights":{...}}
 //	    About every 50 ms while searching; elapsed in seconds.
 //	{"type":"mix", "run":1, "mix":{...}, "running":true, "elapsed":2.1}
-//	    Acknowledges a mix change: running says whether a search took it.
+//	    Acknowledges a mix change: running says whether a search was
+//	    running to take it (if not, the page keeps it for the next start).
 //	{"type":"finished", "run":1, "why":"budget", "iterations":..., "elapsed":..., "improvements":..., "message":""}
 //	    The search ended; why is one of budget, iterations, stopped,
 //	    complete or error (then message says what went wrong).
