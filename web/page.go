@@ -226,6 +226,7 @@ func searchPanel() g.Node {
 						g.If(lab[1] != "", h.Span(h.Class("mix-about"), g.Text(lab[1])))),
 					h.Input(h.Type("range"), h.ID(id), testid(id), h.Data("operator", op), h.Min("0"), h.Max("4"), h.Step("0.5"), h.Value("1")),
 					g.El("output", h.For(id), h.ID(id+"-value"), g.Text("1")),
+					h.Span(h.Class("mix-now"), h.ID(id+"-now"), h.Title("share of the search's choices right now")),
 				)
 			}),
 			h.Label(h.Class("check"), h.Input(h.Type("checkbox"), h.ID("fixed-mix"), testid("fixed-mix")),

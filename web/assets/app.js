@@ -520,6 +520,12 @@
     while (state.rateWindow.length > 2 && m.elapsed - state.rateWindow[0][0] > 1) state.rateWindow.shift();
     const [t0, i0] = state.rateWindow[0];
     if (m.elapsed - t0 > 0.05) $("rate").textContent = Math.round((m.iterations - i0) / (m.elapsed - t0)).toLocaleString("en");
+    if (m.weights) {
+      for (const op in m.weights) {
+        const now = $("mix-" + op + "-now");
+        if (now) now.textContent = Math.round(m.weights[op] * 100) + "%";
+      }
+    }
     drawChart();
   }
 
