@@ -1,0 +1,388 @@
+package bound
+
+import (
+	"context"
+	"math"
+	"sort"
+
+	"visitline/solver"
+)
+
+// relax is the state-space relaxation of Christofides, Mingozzi and Toth
+// (1981) with time: the visited set is relaxed to its size, so a relaxed path
+// is a sequence of n nodes that meets every window (and pin) and may visit a
+// node more than once, but never goes straight back (i→j→i; two-cycle
+// elimination). Node penalties λ turn "each node once" into a Lagrangian
+// term. The tables are computed backwards: for r nodes still to come after
+// node i, a set of labels (L, C) says that a relaxed completion with
+// penalised cost C exists when service at i starts no later than L.
+//
+// Every number here is a valid bound for any λ: Z(λ) = min C at the start
+// plus Σλ is at most the optimum, and cost-to-go(i, t, r) + Σ_{unvisited} λ
+// is at most the cost of any true completion from i at time t.
+type relax struct {
+	p   *prob
+	obj solver.Objective
+	lam []int64
+	// lamSum is Σλ over all nodes.
+	lamSum int64
+	// Per (r, i) at index r*n+i: the lookup envelope envL ascending with envC
+	// the least C among labels with that L or more.
+	envOff       []int32
+	envL, envC   []int64
+	z            int64 // Z(λ): the bound, inf when no relaxed path exists
+	path         []int // a relaxed optimal path, the start first
+	merged       bool  // some labels were merged to fit the cap
+	feasibleOnly bool
+}
+
+// label arrays of one build.
+type rlabels struct {
+	L, C   []int64
+	sn, sl []int32 // successor node (-1: none or merged) and successor label (-1 at the end)
+	node   []int32
+	off    []int32 // per (r, i): first label; off[r*n+i+1] ends it
+}
+
+type cand struct {
+	L, C   int64
+	sn, sl int32
+}
+
+// buildRelax computes the tables for penalties lam. perState caps the labels
+// of one (r, i) (merging keeps the bound valid); maxTotal caps the whole
+// table. It returns nil when the cap is hit or ctx is done.
+func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64, perState, maxTotal int, y *yielder) *relax {
+	n := p.n
+	rx := &relax{p: p, obj: obj, lam: lam, z: inf}
+	for _, v := range lam {
+		rx.lamSum += v
+	}
+	var lb rlabels
+	lb.off = make([]int32, n*n+1)
+	cost := func(i, j int) int64 {
+		if obj == solver.CompletionTime {
+			return p.s[i] + p.t(i, j)
+		}
+		return p.t(i, j)
+	}
+	allowedAt := func(i, idx int) bool {
+		if v := p.pinAt[idx]; v >= 0 && v != int32(i) {
+			return false
+		}
+		if v := p.pinOf[i]; v >= 0 && v != int32(idx) {
+			return false
+		}
+		return true
+	}
+	var cands []cand
+	bySucc := make([]int64, n)
+	for i := range bySucc {
+		bySucc[i] = inf
+	}
+	var touched []int32
+	for r := 0; r < n; r++ {
+		idx := n - 1 - r
+		for i := 0; i < n; i++ {
+			lb.off[r*n+i] = int32(len(lb.L))
+			if !allowedAt(i, idx) {
+				continue
+			}
+			if y.tick() && ctx.Err() != nil {
+				return nil
+			}
+			cands = cands[:0]
+			if r == 0 {
+				switch {
+				case p.shape == solver.Closed:
+					if n > 1 && p.arc[i*n+p.start] {
+						L := min(p.lt[i], p.lateRet-p.s[i]-p.t(i, p.start))
+						if L >= p.et[i] {
+							cands = append(cands, cand{L, cost(i, p.start), -1, -1})
+						}
+					}
+				default:
+					c := int64(0)
+					if obj == solver.CompletionTime {
+						c = p.s[i]
+					}
+					cands = append(cands, cand{p.lt[i], c, -1, -1})
+				}
+			} else {
+				base := (r - 1) * n
+				for _, j32 := range p.succ[i] {
+					j := int(j32)
+					if j == p.start {
+						continue
+					}
+					a, b := lb.off[base+j], lb.off[base+j+1]
+					if a == b {
+						continue
+					}
+					cij := cost(i, j) - lam[j]
+					for k := a; k < b; k++ {
+						if lb.sn[k] == int32(i) {
+							continue
+						}
+						L := min(p.lt[i], lb.L[k]-p.s[i]-p.t(i, j))
+						if L < p.et[i] {
+							continue
+						}
+						cands = append(cands, cand{L, lb.C[k] + cij, int32(j), k})
+					}
+				}
+			}
+			if len(cands) == 0 {
+				continue
+			}
+			// Pareto filter with two-cycle elimination: a label goes when a
+			// label with the same successor, or two labels with different
+			// successors, are at least as good in both L and C.
+			sort.Slice(cands, func(a, b int) bool {
+				if cands[a].L != cands[b].L {
+					return cands[a].L > cands[b].L
+				}
+				return cands[a].C < cands[b].C
+			})
+			keep := cands[:0]
+			anyC, b1, b2 := inf, inf, inf
+			var s1 int32 = -1
+			for _, c := range cands {
+				sn := c.sn
+				if anyC <= c.C || sn >= 0 && bySucc[sn] <= c.C || b1 <= c.C && b2 <= c.C {
+					continue
+				}
+				keep = append(keep, c)
+				if sn < 0 {
+					anyC = c.C // sorted by L then C: the first such label is the least
+					continue
+				}
+				if bySucc[sn] == inf {
+					touched = append(touched, sn)
+				}
+				bySucc[sn] = min(bySucc[sn], c.C)
+				// b1 and b2: least C of two labels with different successors.
+				switch {
+				case c.C < b1:
+					if sn != s1 {
+						b2 = b1
+					}
+					b1, s1 = c.C, sn
+				case sn != s1 && c.C < b2:
+					b2 = c.C
+				}
+			}
+			for _, t := range touched {
+				bySucc[t] = inf
+			}
+			touched = touched[:0]
+			if perState > 0 && len(keep) > perState {
+				keep = mergeLabels(keep, perState)
+				rx.merged = true
+			}
+			for _, c := range keep {
+				lb.L = append(lb.L, c.L)
+				lb.C = append(lb.C, c.C)
+				lb.sn = append(lb.sn, c.sn)
+				lb.sl = append(lb.sl, c.sl)
+				lb.node = append(lb.node, int32(i))
+			}
+			if maxTotal > 0 && len(lb.L) > maxTotal {
+				return nil
+			}
+		}
+	}
+	lb.off[n*n] = int32(len(lb.L))
+	// Z and a relaxed optimal path.
+	a, b := lb.off[(n-1)*n+p.start], lb.off[(n-1)*n+p.start+1]
+	best := int32(-1)
+	for k := a; k < b; k++ {
+		if lb.L[k] >= p.e[p.start] && (best < 0 || lb.C[k] < lb.C[best]) {
+			best = k
+		}
+	}
+	if best >= 0 {
+		rx.z = lb.C[best] + rx.lamSum
+		if obj == solver.CompletionTime {
+			rx.z += p.e[p.start]
+		}
+		rx.path = append(rx.path, p.start)
+		for k := best; lb.sl[k] >= 0; k = lb.sl[k] {
+			rx.path = append(rx.path, int(lb.node[lb.sl[k]]))
+		}
+	}
+	// Lookup envelopes.
+	rx.envOff = make([]int32, n*n+1)
+	rx.envL = make([]int64, 0, len(lb.L))
+	rx.envC = make([]int64, 0, len(lb.L))
+	for st := 0; st < n*n; st++ {
+		rx.envOff[st] = int32(len(rx.envL))
+		a, b := int(lb.off[st]), int(lb.off[st+1])
+		if a == b {
+			continue
+		}
+		// Labels are in L-descending order: walk them backwards for the
+		// ascending envelope, then fix the suffix minima.
+		first := len(rx.envL)
+		for k := b - 1; k >= a; k-- {
+			rx.envL = append(rx.envL, lb.L[k])
+			rx.envC = append(rx.envC, lb.C[k])
+		}
+		for k := len(rx.envC) - 2; k >= first; k-- {
+			rx.envC[k] = min(rx.envC[k], rx.envC[k+1])
+		}
+	}
+	rx.envOff[n*n] = int32(len(rx.envL))
+	return rx
+}
+
+// mergeLabels cuts a Pareto list (L descending) to k labels by replacing runs
+// of neighbours with one optimistic label: the largest L and the least C of
+// the run. The result is a relaxation of the list, so bounds stay valid.
+func mergeLabels(c []cand, k int) []cand {
+	out := c[:0:0]
+	out = make([]cand, 0, k)
+	per := (len(c) + k - 1) / k
+	for a := 0; a < len(c); a += per {
+		b := min(a+per, len(c))
+		m := c[a]
+		for _, x := range c[a+1 : b] {
+			if x.C < m.C {
+				m.C, m.sl = x.C, x.sl
+				if x.sn != m.sn {
+					m.sn = -1
+				}
+			} else if x.sn != m.sn {
+				m.sn = -1
+			}
+		}
+		out = append(out, m)
+	}
+	return out
+}
+
+// togo is the least penalised cost of a relaxed completion from node i with
+// service starting at t and r nodes still to come; inf when none exists.
+func (rx *relax) togo(r, i int, t int64) int64 {
+	st := r*rx.p.n + i
+	a, b := int(rx.envOff[st]), int(rx.envOff[st+1])
+	// First envelope entry with L ≥ t.
+	lo, hi := a, b
+	for lo < hi {
+		m := (lo + hi) / 2
+		if rx.envL[m] >= t {
+			hi = m
+		} else {
+			lo = m + 1
+		}
+	}
+	if lo == b {
+		return inf
+	}
+	return rx.envC[lo]
+}
+
+// lagrangeOpts steer the subgradient ascent.
+type lagrangeOpts struct {
+	iters    int
+	perState int
+	maxTotal int
+	ub       int64 // best known feasible cost; inf when none
+}
+
+// lagrange improves the penalties by subgradient ascent (Polyak steps
+// towards ub) and returns the tables of the best penalties found, or nil when
+// the tables do not fit. The relaxed path of the best tables is checked: when
+// it is a feasible route whose cost equals the bound, it is optimal, and
+// bestRoute returns it.
+func lagrange(ctx context.Context, p *prob, obj solver.Objective, o lagrangeOpts, y *yielder) (best *relax, bestRoute []int) {
+	n := p.n
+	lamF := make([]float64, n)
+	lam := make([]int64, n)
+	mu := 2.0
+	stall := 0
+	target := o.ub
+	for it := 0; it < max(1, o.iters); it++ {
+		rx := buildRelax(ctx, p, obj, append([]int64(nil), lam...), o.perState, o.maxTotal, y)
+		if rx == nil {
+			if best == nil && o.perState > 1 && ctx.Err() == nil {
+				// Too big: retry with a coarser table.
+				o.perState = max(1, o.perState/4)
+				it--
+				continue
+			}
+			return best, bestRoute
+		}
+		if rx.z == inf {
+			// No relaxed path at all: no feasible plan exists.
+			return rx, nil
+		}
+		if best == nil || rx.z > best.z {
+			best = rx
+			stall = 0
+		} else {
+			stall++
+			if stall >= 5 {
+				mu /= 2
+				stall = 0
+			}
+		}
+		// Is the relaxed path a route?
+		counts := make([]int, n)
+		for _, v := range rx.path {
+			counts[v]++
+		}
+		elementary := len(rx.path) == n
+		for _, c := range counts {
+			if c != 1 {
+				elementary = false
+			}
+		}
+		if elementary && solver.CheckRoute(p.in, rx.path) == nil {
+			sch := solver.Evaluate(p.in, rx.path)
+			if sch.Feasible && sch.Cost(obj) <= rx.z {
+				return rx, append([]int(nil), rx.path...)
+			}
+			if sch.Feasible && sch.Cost(obj) < target {
+				target = sch.Cost(obj)
+			}
+		}
+		if elementary || mu < 1e-3 {
+			break // a zero subgradient cannot move the penalties any further
+		}
+		tgt := target
+		if tgt >= inf {
+			tgt = rx.z + max(1, abs64(rx.z)/20)
+		}
+		if tgt <= best.z {
+			break // the bound has closed on the best known cost
+		}
+		var norm float64
+		for j := 0; j < n; j++ {
+			if j == p.start {
+				continue
+			}
+			g := float64(1 - counts[j])
+			norm += g * g
+		}
+		step := mu * float64(tgt-rx.z) / norm
+		for j := 0; j < n; j++ {
+			if j == p.start {
+				continue
+			}
+			lamF[j] += step * float64(1-counts[j])
+			lam[j] = int64(math.Round(lamF[j]))
+		}
+		if ctx.Err() != nil {
+			break
+		}
+	}
+	return best, bestRoute
+}
+
+func abs64(v int64) int64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
