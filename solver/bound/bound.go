@@ -73,7 +73,7 @@ type Bound struct {
 	// "windows", "search" (the exact search's bound, or its optimum).
 	Method string
 	// The separate bounds, each with a flag saying it was computed.
-	Assignment, StateSpace, Search    int64
+	Assignment, StateSpace, Search          int64
 	HasAssignment, HasStateSpace, HasSearch bool
 	// ProvenOptimal says Value is the optimum and Route attains it.
 	ProvenOptimal bool
