@@ -75,7 +75,8 @@ type Bound struct {
 	// The separate bounds, each with a flag saying it was computed.
 	Assignment, StateSpace, Search          int64
 	HasAssignment, HasStateSpace, HasSearch bool
-	// ProvenOptimal says Value is the optimum and Route attains it.
+	// ProvenOptimal says Value is the optimum: Route attains it, or (from
+	// Solve) the plan returned beside it does.
 	ProvenOptimal bool
 	// Infeasible says it is proven that no plan meets every window.
 	Infeasible bool
@@ -140,7 +141,7 @@ func (b *Bound) checkProven(o Options) {
 // completion objective, a bound from the windows). It may still find and
 // prove an optimal route when the relaxation's best path is one.
 func Lower(ctx context.Context, in *solver.Instance, o Options) Bound {
-	return run(ctx, in, o, false)
+	return runPhases(ctx, ctx, in, o, false)
 }
 
 // Exact computes the bounds of Lower, then runs the exact search until it
@@ -150,10 +151,12 @@ func Lower(ctx context.Context, in *solver.Instance, o Options) Bound {
 // gives a feasible route and a valid bound (the least bound of the labels it
 // had to drop), and a run that drops nothing is exact.
 func Exact(ctx context.Context, in *solver.Instance, o Options) Bound {
-	return run(ctx, in, o, true)
+	return runPhases(ctx, ctx, in, o, true)
 }
 
-func run(ctx context.Context, in *solver.Instance, o Options, exact bool) Bound {
+// runPhases computes the bounds under ctx and then, when exact, runs the
+// exact search under sctx (which ends no later than ctx).
+func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact bool) Bound {
 	o = o.withDefaults()
 	var b Bound
 	if err := in.Validate(); err != nil {
@@ -233,7 +236,7 @@ func run(ctx context.Context, in *solver.Instance, o Options, exact bool) Bound 
 		}
 	}
 	b.checkProven(o)
-	if !exact || b.ProvenOptimal || ctx.Err() != nil {
+	if !exact || b.ProvenOptimal || sctx.Err() != nil {
 		return b
 	}
 	// Exact search with a growing beam.
@@ -246,10 +249,10 @@ func run(ctx context.Context, in *solver.Instance, o Options, exact bool) Bound 
 		if last {
 			beam = o.StageLabels
 		}
-		r := runDP(ctx, p, dpConfig{kind: kind, beam: beam, maxHistory: o.HistoryLabels, rx: rx, ub: ubf, y: y})
+		r := runDP(sctx, p, dpConfig{kind: kind, beam: beam, maxHistory: o.HistoryLabels, rx: rx, ub: ubf, y: y})
 		b.Labels += r.labels
 		if !r.complete {
-			if ctx.Err() == nil {
+			if sctx.Err() == nil {
 				b.Notes = append(b.Notes, "exact search stopped: the route history outgrew its cap")
 			}
 			break
@@ -271,7 +274,7 @@ func run(ctx context.Context, in *solver.Instance, o Options, exact bool) Bound 
 			b.raise(lb, "search")
 		}
 		b.checkProven(o)
-		if b.ProvenOptimal || last || ctx.Err() != nil {
+		if b.ProvenOptimal || last || sctx.Err() != nil {
 			break
 		}
 	}

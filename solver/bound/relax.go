@@ -1,9 +1,10 @@
 package bound
 
 import (
+	"cmp"
 	"context"
 	"math"
-	"sort"
+	"slices"
 
 	"visitline/solver"
 )
@@ -120,12 +121,26 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 						continue
 					}
 					cij := cost(i, j) - lam[j]
-					for k := a; k < b; k++ {
-						if lb.sn[k] == int32(i) {
-							continue
+					// Labels are in L-descending order. Those late enough that
+					// L at i is capped by i's own window collapse into one
+					// candidate (the least C); the rest stop at i's earliest.
+					dt := p.s[i] + p.t(i, j)
+					k := a
+					bestK := int32(-1)
+					for ; k < b && lb.L[k]-dt >= p.lt[i]; k++ {
+						if lb.sn[k] != int32(i) && (bestK < 0 || lb.C[k] < lb.C[bestK]) {
+							bestK = k
 						}
-						L := min(p.lt[i], lb.L[k]-p.s[i]-p.t(i, j))
+					}
+					if bestK >= 0 {
+						cands = append(cands, cand{p.lt[i], lb.C[bestK] + cij, int32(j), bestK})
+					}
+					for ; k < b; k++ {
+						L := lb.L[k] - dt
 						if L < p.et[i] {
+							break
+						}
+						if lb.sn[k] == int32(i) {
 							continue
 						}
 						cands = append(cands, cand{L, lb.C[k] + cij, int32(j), k})
@@ -138,11 +153,11 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 			// Pareto filter with two-cycle elimination: a label goes when a
 			// label with the same successor, or two labels with different
 			// successors, are at least as good in both L and C.
-			sort.Slice(cands, func(a, b int) bool {
-				if cands[a].L != cands[b].L {
-					return cands[a].L > cands[b].L
+			slices.SortFunc(cands, func(a, b cand) int {
+				if a.L != b.L {
+					return cmp.Compare(b.L, a.L)
 				}
-				return cands[a].C < cands[b].C
+				return cmp.Compare(a.C, b.C)
 			})
 			keep := cands[:0]
 			anyC, b1, b2 := inf, inf, inf
@@ -322,7 +337,7 @@ func lagrange(ctx context.Context, p *prob, obj solver.Objective, o lagrangeOpts
 			stall = 0
 		} else {
 			stall++
-			if stall >= 5 {
+			if stall >= 4 {
 				mu /= 2
 				stall = 0
 			}
@@ -347,7 +362,7 @@ func lagrange(ctx context.Context, p *prob, obj solver.Objective, o lagrangeOpts
 				target = sch.Cost(obj)
 			}
 		}
-		if elementary || mu < 1e-3 {
+		if elementary || mu < 0.01 {
 			break // a zero subgradient cannot move the penalties any further
 		}
 		tgt := target
