@@ -108,6 +108,9 @@ type Settings struct {
 	FixedMix bool
 	// Objective to minimise once every window is met.
 	Objective Objective
+	// Workers is how many searches run side by side, sharing the best plan
+	// (0 or 1: one, which is reproducible; more are not, since they race).
+	Workers int
 	// OnImprove receives every new best plan. It runs on the search's
 	// goroutine: keep it quick, and do not keep the Plan's slices past the
 	// call unless you copy them (Plan is already a copy; it is yours).

@@ -2,34 +2,280 @@ package solver
 
 import (
 	"context"
-	"sort"
+	"math"
+	"runtime"
+	"sync"
 	"time"
 )
 
 // Solve searches for the best plan of in within the limits of s and returns
 // the best plan found. It stops at s.Budget, s.Iterations or when ctx is
-// cancelled, whichever comes first.
+// cancelled, whichever comes first. With one worker, a seed and an
+// iteration budget (and no mix changes during the run) a run is
+// reproducible.
 func Solve(ctx context.Context, in *Instance, s Settings) (Result, error) {
 	if err := in.Validate(); err != nil {
 		return Result{}, err
 	}
-	start := time.Now()
-	route := []int{in.Start}
-	rest := []int{}
-	for i := 0; i < in.N; i++ {
-		if i != in.Start && !(in.Shape == OpenFixed && i == in.End) {
-			rest = append(rest, i)
+	m, err := newModel(in, s.Objective)
+	if err != nil {
+		return Result{}, err
+	}
+	e := &engine{m: m, set: s, start: time.Now()}
+	if e.set.ProgressEvery <= 0 {
+		e.set.ProgressEvery = 50 * time.Millisecond
+	}
+	if e.set.Budget > 0 {
+		e.deadline = e.start.Add(e.set.Budget)
+	}
+	e.weights = s.Mix.weights()
+	var sum float64
+	for _, w := range e.weights {
+		sum += w
+	}
+	if sum <= 0 {
+		e.weights = Mix(nil).weights()
+	}
+	workers := s.Workers
+	if workers < 1 {
+		workers = 1
+	}
+	if max := runtime.GOMAXPROCS(0); workers > max {
+		workers = max
+	}
+	if len(m.movable) < 4 {
+		workers = 1
+	}
+	e.lastTick = e.start
+	if workers == 1 {
+		e.work(ctx, 0, s.Seed)
+	} else {
+		var wg sync.WaitGroup
+		for w := 0; w < workers; w++ {
+			wg.Add(1)
+			go func(w int) {
+				defer wg.Done()
+				e.work(ctx, w, s.Seed+int64(w)*7919)
+			}(w)
+		}
+		wg.Wait()
+	}
+	res := Result{Best: e.best, Iterations: e.iters, Elapsed: time.Since(e.start), Improvements: e.improvements, Stop: e.stop}
+	if res.Best.Route == nil { // nothing found: cannot happen with ≥ 1 construction
+		res.Best = e.planOf(identityRoute(m), 0, "construct")
+	}
+	if !res.Best.Feasible && ctx.Err() == nil {
+		p := minimiseLateness(m, res.Best.Route, s.Objective)
+		if p.Schedule.TotalLateness < res.Best.Schedule.TotalLateness {
+			p.Iteration, p.Elapsed, p.Operator = e.iters, time.Since(e.start), "lateness"
+			res.Best = p
+			res.Improvements++
+			if s.OnImprove != nil {
+				s.OnImprove(clonePlan(p))
+			}
 		}
 	}
-	sort.SliceStable(rest, func(a, b int) bool { return in.Late[rest[a]] < in.Late[rest[b]] })
-	route = append(route, rest...)
-	if in.Shape == OpenFixed && in.N > 1 {
-		route = append(route, in.End)
-	}
-	sch := Evaluate(in, route)
-	p := Plan{Route: route, Schedule: sch, Cost: sch.Cost(s.Objective), Feasible: sch.Feasible, Elapsed: time.Since(start), Operator: "construct"}
-	if s.OnImprove != nil {
-		s.OnImprove(p)
-	}
-	return Result{Best: p, Elapsed: time.Since(start), Improvements: 1, Stop: "complete"}, nil
+	return res, nil
 }
+
+func identityRoute(m *model) []int32 {
+	r := []int32{int32(m.start)}
+	for _, v := range m.movable {
+		r = append(r, int32(v))
+	}
+	return append(r, int32(m.end))
+}
+
+// engine holds what the workers share: the best plan, the counters and the
+// reporting.
+type engine struct {
+	m     *model
+	set   Settings
+	start time.Time
+
+	deadline time.Time
+
+	mu           sync.Mutex
+	best         Plan
+	bestTW       int64 // time warp of the best (0 when feasible)
+	bestVal      int64 // model cost of the best
+	haveBest     bool
+	bestRoute    []int32
+	iters        int
+	improvements int
+	stop         string
+	done         bool
+	weights      []float64
+	lastTick     time.Time
+}
+
+// offer records a candidate route found by a worker; it reports whether it
+// became the best. Feasible plans rank by cost; infeasible ones after every
+// feasible plan, by total lateness as the evaluator counts it, then cost.
+func (e *engine) offer(r *route, op string) bool {
+	t := r.total()
+	c := e.m.cost(t)
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	if e.haveBest && e.best.Feasible && (t.tw > 0 || c >= e.bestVal) {
+		return false
+	}
+	if t.tw > 0 || !e.haveBest || !e.best.Feasible {
+		p := e.planOf(r.r, e.iters, op)
+		if e.haveBest && !better(p, e.best) {
+			return false
+		}
+		e.take(r.r, t, p)
+		return true
+	}
+	e.take(r.r, t, e.planOf(r.r, e.iters, op))
+	return true
+}
+
+// offerExternal offers an instance route (from the lateness search).
+func (e *engine) offerExternal(route []int, op string) bool {
+	sch := Evaluate(e.m.in, route)
+	p := Plan{Route: append([]int(nil), route...), Schedule: sch, Cost: sch.Cost(e.set.Objective), Feasible: sch.Feasible, Operator: op}
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	p.Iteration, p.Elapsed = e.iters, time.Since(e.start)
+	if e.haveBest && !better(p, e.best) {
+		return false
+	}
+	e.haveBest = true
+	e.best = p
+	e.bestTW = 1 // not from a model route: workers keep their own
+	e.bestVal = p.Cost
+	if e.set.Objective == TravelTime {
+		e.bestVal -= e.m.prefixC // model costs leave out the driven prefix
+	}
+	e.bestRoute = nil
+	e.improvements++
+	if e.set.OnImprove != nil {
+		e.set.OnImprove(clonePlan(p))
+	}
+	return true
+}
+
+func better(a, b Plan) bool {
+	if a.Feasible != b.Feasible {
+		return a.Feasible
+	}
+	if !a.Feasible && a.Schedule.TotalLateness != b.Schedule.TotalLateness {
+		return a.Schedule.TotalLateness < b.Schedule.TotalLateness
+	}
+	return a.Cost < b.Cost
+}
+
+func (e *engine) take(r []int32, t seg, p Plan) {
+	e.haveBest = true
+	e.bestTW, e.bestVal = t.tw, e.m.cost(t)
+	e.bestRoute = append(e.bestRoute[:0], r...)
+	e.best = p
+	e.improvements++
+	if e.set.OnImprove != nil {
+		e.set.OnImprove(clonePlan(e.best))
+	}
+}
+
+func (e *engine) planOf(r []int32, iter int, op string) Plan {
+	route := e.m.external(r)
+	sch := Evaluate(e.m.in, route)
+	return Plan{Route: route, Schedule: sch, Cost: sch.Cost(e.set.Objective), Feasible: sch.Feasible,
+		Iteration: iter, Elapsed: time.Since(e.start), Operator: op}
+}
+
+func clonePlan(p Plan) Plan {
+	p.Route = append([]int(nil), p.Route...)
+	p.Schedule.Visits = append([]Visit(nil), p.Schedule.Visits...)
+	return p
+}
+
+// tick counts one iteration and decides whether to go on. It also runs the
+// periodic progress report and picks up mix changes.
+func (e *engine) tick(ctx context.Context) (goOn bool, mixChanged []float64) {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	if e.done {
+		return false, nil
+	}
+	e.iters++
+	if e.set.Iterations > 0 && e.iters >= e.set.Iterations {
+		e.finish("iterations")
+		return false, nil
+	}
+	if ctx.Err() != nil {
+		e.finish("cancelled")
+		return false, nil
+	}
+	now := time.Now()
+	if !e.deadline.IsZero() && !now.Before(e.deadline) {
+		e.finish("budget")
+		return false, nil
+	}
+	if e.set.MixUpdates != nil {
+		select {
+		case mx := <-e.set.MixUpdates:
+			w := mx.weights()
+			var sum float64
+			for _, x := range w {
+				sum += x
+			}
+			if sum > 0 {
+				e.weights = w
+				mixChanged = w
+			}
+		default:
+		}
+	}
+	if now.Sub(e.lastTick) >= e.set.ProgressEvery {
+		e.lastTick = now
+		if e.set.OnProgress != nil {
+			e.set.OnProgress(Progress{Iteration: e.iters, Elapsed: now.Sub(e.start), BestCost: e.best.Cost, Feasible: e.best.Feasible, Weights: normalised(e.weights)})
+		}
+		if e.set.Pause != nil {
+			e.mu.Unlock()
+			e.set.Pause()
+			e.mu.Lock()
+		}
+	}
+	return true, mixChanged
+}
+
+func (e *engine) finish(why string) {
+	if !e.done {
+		e.done, e.stop = true, why
+	}
+}
+
+func (e *engine) isDone() bool {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	return e.done
+}
+
+func normalised(w []float64) Mix {
+	var sum float64
+	for _, x := range w {
+		sum += x
+	}
+	out := Mix{}
+	for i, o := range Operators {
+		if sum > 0 {
+			out[o] = w[i] / sum
+		}
+	}
+	return out
+}
+
+// sharedBest returns a copy of the best route when it beats (tw, cost).
+func (e *engine) sharedBest(tw, cost int64) []int32 {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	if !e.haveBest || e.bestRoute == nil || e.bestTW > tw || e.bestTW == tw && e.bestVal >= cost {
+		return nil
+	}
+	return append([]int32(nil), e.bestRoute...)
+}
+
+var _ = math.Inf

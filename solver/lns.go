@@ -1,0 +1,233 @@
+package solver
+
+import (
+	"math"
+	"math/rand"
+	"sort"
+)
+
+// search is one worker's large neighbourhood search state.
+type search struct {
+	m   *model
+	rng *rand.Rand
+	cur *route
+	tmp *route
+	pol polisher
+	lam float64
+
+	// scratch
+	removed []int32
+	keep    []int32
+	inRem   []bool
+
+	// statistics per destroy operator
+	weights []float64
+	scores  []float64
+	uses    []int
+	fixed   bool
+
+	exactNodes int // node budget of one exact repair
+}
+
+func newSearch(m *model, seed int64) *search {
+	s := &search{m: m, rng: rand.New(rand.NewSource(seed)), inRem: make([]bool, m.n), exactNodes: 20000}
+	s.pol = polisher{m: m, maxScan: maxScanFor(len(m.movable))}
+	return s
+}
+
+func maxScanFor(k int) int {
+	switch {
+	case k <= 300:
+		return k + 2
+	case k <= 1000:
+		return 120
+	}
+	return 60
+}
+
+// qRange is how many visits a destroy frees: small enough that the repair
+// can place them well, large enough to leave a local optimum.
+func (s *search) qSize() int {
+	k := len(s.m.movable)
+	if k <= 2 {
+		return k
+	}
+	hi := k / 3
+	if hi > 30 {
+		hi = 30
+	}
+	if hi < 2 {
+		hi = 2
+	}
+	lo := 2
+	if hi > 8 {
+		lo = 4
+	}
+	return lo + s.rng.Intn(hi-lo+1)
+}
+
+// destroy removes visits from x (a copy of the current route) by operator op
+// and leaves them in s.removed. For a slice it returns where the slice was
+// cut out (an index into the shortened x.r), otherwise -1.
+func (s *search) destroy(x *route, op int, q int) int {
+	m := s.m
+	r := x.r
+	k := len(r) - 2 // movable count
+	s.removed = s.removed[:0]
+	at := -1
+	if k == 0 || q == 0 {
+		return at
+	}
+	if q > k {
+		q = k
+	}
+	switch Operators[op] {
+	case "random":
+		perm := s.rng.Perm(k)
+		for _, p := range perm[:q] {
+			s.removed = append(s.removed, r[1+p])
+		}
+	case "slice":
+		a := 1 + s.rng.Intn(k-q+1)
+		s.removed = append(s.removed, r[a:a+q]...)
+		at = a
+	case "related":
+		seed := r[1+s.rng.Intn(k)]
+		type cand struct {
+			v int32
+			d float64
+		}
+		cs := make([]cand, 0, k)
+		for _, v := range r[1 : len(r)-1] {
+			if v == seed {
+				continue
+			}
+			cs = append(cs, cand{v, s.relatedness(seed, v)})
+		}
+		sort.Slice(cs, func(a, b int) bool { return cs[a].d < cs[b].d || cs[a].d == cs[b].d && cs[a].v < cs[b].v })
+		s.removed = append(s.removed, seed)
+		// Randomised pick biased to the most related (Ropke and Pisinger 2006, p = 6).
+		taken := make([]bool, len(cs))
+		for len(s.removed) < q {
+			idx := int(math.Pow(s.rng.Float64(), 6) * float64(len(cs)))
+			for taken[idx] {
+				idx = (idx + 1) % len(cs)
+			}
+			taken[idx] = true
+			s.removed = append(s.removed, cs[idx].v)
+		}
+	case "worst":
+		type cand struct {
+			v    int32
+			gain float64
+		}
+		cs := make([]cand, 0, k)
+		cur := m.value(x.total(), s.lam)
+		for i := 1; i <= k; i++ {
+			sg := join(x.fwd[i-1], x.bwd[i+1], m.arc(r[i-1], r[i+1]))
+			cs = append(cs, cand{r[i], cur - m.value(sg, s.lam)})
+		}
+		sort.Slice(cs, func(a, b int) bool { return cs[a].gain > cs[b].gain || cs[a].gain == cs[b].gain && cs[a].v < cs[b].v })
+		taken := make([]bool, len(cs))
+		for len(s.removed) < q {
+			idx := int(math.Pow(s.rng.Float64(), 3) * float64(len(cs)))
+			for taken[idx] {
+				idx = (idx + 1) % len(cs)
+			}
+			taken[idx] = true
+			s.removed = append(s.removed, cs[idx].v)
+		}
+	}
+	for _, v := range s.removed {
+		s.inRem[v] = true
+	}
+	keep := s.keep[:0]
+	for _, v := range r {
+		if !s.inRem[v] {
+			keep = append(keep, v)
+		}
+	}
+	for _, v := range s.removed {
+		s.inRem[v] = false
+	}
+	s.keep = keep
+	x.set(keep)
+	return at
+}
+
+// relatedness is small for visits close in travel and in window (Shaw 1998).
+func (s *search) relatedness(a, b int32) float64 {
+	m := s.m
+	d := float64(m.arc(a, b) + m.arc(b, a))
+	w := math.Abs(float64(m.e[a]-m.e[b])) + math.Abs(float64(m.l[a]-m.l[b]))
+	return d + 0.5*w
+}
+
+// insertCost is the best place to insert v into x and the regret.
+func (s *search) bestInsert(x *route, v int32) (pos int, best, second float64) {
+	m := s.m
+	u := m.unit(int(v))
+	cur := m.value(x.total(), s.lam)
+	best, second = math.Inf(1), math.Inf(1)
+	pos = -1
+	r := x.r
+	feasible := x.total().tw == 0
+	for p := 0; p < len(r)-1; p++ {
+		a, b := r[p], r[p+1]
+		if feasible && m.e[a] > m.l[v] {
+			// Starts only grow along a feasible route: from here on v
+			// would always start after its latest.
+			break
+		}
+		sg := join(x.fwd[p], u, m.arc(a, v))
+		sg = join(sg, x.bwd[p+1], m.arc(v, b))
+		d := m.value(sg, s.lam) - cur
+		if d < best {
+			second = best
+			best, pos = d, p
+		} else if d < second {
+			second = d
+		}
+	}
+	return pos, best, second
+}
+
+// repairInsert puts the removed visits back one at a time: greedy (k = 1) or
+// regret-k (k = 2, 3), with multiplicative noise on the costs.
+func (s *search) repairInsert(x *route, regret int, noise float64) {
+	rem := append([]int32(nil), s.removed...)
+	for len(rem) > 0 {
+		bestIdx, bestPos := -1, -1
+		bestKey := math.Inf(1)
+		for i, v := range rem {
+			pos, c1, c2 := s.bestInsert(x, v)
+			if pos < 0 {
+				continue
+			}
+			if noise > 0 {
+				c1 *= 1 + noise*(2*s.rng.Float64()-1)
+			}
+			key := c1
+			if regret > 1 && len(rem) > 1 {
+				key = -(c2 - c1)
+				if math.IsInf(c2, 1) {
+					key = -1e300
+				}
+			}
+			if key < bestKey {
+				bestKey, bestIdx, bestPos = key, i, pos
+			}
+		}
+		if bestIdx < 0 {
+			bestIdx, bestPos = 0, len(x.r)-2
+		}
+		v := rem[bestIdx]
+		rem[bestIdx] = rem[len(rem)-1]
+		rem = rem[:len(rem)-1]
+		b := make([]int32, 0, len(x.r)+1)
+		b = append(b, x.r[:bestPos+1]...)
+		b = append(b, v)
+		b = append(b, x.r[bestPos+1:]...)
+		x.set(b)
+	}
+}

@@ -1,0 +1,248 @@
+package solver
+
+// Local search polish: or-opt (move a stretch of 1-3 visits, also reversed),
+// 2-opt (reverse a stretch; asymmetric travel is summed again for the
+// reversed stretch, incrementally) and swap of two visits. Every candidate is
+// judged in constant time by joining summaries: the part before, the moved
+// stretch, the part between (grown one node at a time as the scan goes on),
+// and the part after.
+
+const improveEps = 1e-7
+
+type polisher struct {
+	m       *model
+	x       *route
+	lam     float64
+	maxScan int // how far a stretch may move, in positions
+	buf     []int32
+	moves   int
+}
+
+// run improves x until no move helps or budget moves were made.
+func (p *polisher) run(budget int) {
+	for p.moves < budget {
+		improved := false
+		if p.orOpt() {
+			improved = true
+		}
+		if p.twoOpt() {
+			improved = true
+		}
+		if !improved && p.swap() {
+			improved = true
+		}
+		if !improved {
+			return
+		}
+	}
+}
+
+// hasBefore reports whether some node of r[a..b] must come before node v.
+func (p *polisher) anyMustBefore(a, b int, v int32) bool {
+	m := p.m
+	for k := a; k <= b; k++ {
+		if m.mustBefore(int(p.x.r[k]), int(v)) {
+			return true
+		}
+	}
+	return false
+}
+
+// mustPrecedeAny reports whether v must come before some node of r[a..b].
+func (p *polisher) mustPrecedeAny(v int32, a, b int) bool {
+	m := p.m
+	for k := a; k <= b; k++ {
+		if m.mustBefore(int(v), int(p.x.r[k])) {
+			return true
+		}
+	}
+	return false
+}
+
+func (p *polisher) orOpt() bool {
+	x, m := p.x, p.m
+	improvedAny := false
+	for L := 1; L <= 3; L++ {
+		for i := 1; i+L-1 <= len(x.r)-2; i++ {
+			j := i + L - 1
+			cur := m.value(x.total(), p.lam)
+			for rev := 0; rev < 2; rev++ {
+				if rev == 1 && L == 1 {
+					break
+				}
+				var S seg
+				if rev == 0 {
+					S = x.segOf(i, j)
+				} else {
+					S = x.revOf(i, j)
+				}
+				sf, sz := x.r[i], x.r[j]
+				if rev == 1 {
+					sf, sz = sz, sf
+				}
+				// Backward: insert between r[q] and r[q+1], q < i-1.
+				var mid seg
+				for q := i - 2; q >= 0 && i-1-q <= p.maxScan; q-- {
+					nd := x.r[q+1]
+					if q == i-2 {
+						mid = m.unit(int(nd))
+					} else {
+						mid = join(m.unit(int(nd)), mid, m.arc(nd, x.r[q+2]))
+					}
+					if p.anyMustBeforeNode(nd, i, j) {
+						break
+					}
+					s := join(x.fwd[q], S, m.arc(x.r[q], sf))
+					s = join(s, mid, m.arc(sz, nd))
+					s = join(s, x.bwd[j+1], m.arc(x.r[i-1], x.r[j+1]))
+					if m.value(s, p.lam) < cur-improveEps {
+						p.applyOr(i, j, q, rev == 1)
+						improvedAny = true
+						cur = m.value(x.total(), p.lam)
+						goto next
+					}
+				}
+				// Forward: insert between r[q] and r[q+1], q > j.
+				for q := j + 1; q <= len(x.r)-2 && q-j <= p.maxScan; q++ {
+					nd := x.r[q]
+					if q == j+1 {
+						mid = m.unit(int(nd))
+					} else {
+						mid = join(mid, m.unit(int(nd)), m.arc(x.r[q-1], nd))
+					}
+					if p.mustPrecedeAnyNode(i, j, nd) {
+						break
+					}
+					s := join(x.fwd[i-1], mid, m.arc(x.r[i-1], x.r[j+1]))
+					s = join(s, S, m.arc(nd, sf))
+					s = join(s, x.bwd[q+1], m.arc(sz, x.r[q+1]))
+					if m.value(s, p.lam) < cur-improveEps {
+						p.applyOr(i, j, q, rev == 1)
+						improvedAny = true
+						cur = m.value(x.total(), p.lam)
+						goto next
+					}
+				}
+			}
+		next:
+		}
+	}
+	return improvedAny
+}
+
+// anyMustBeforeNode: moving r[i..j] in front of nd is impossible when nd
+// must come before one of them.
+func (p *polisher) anyMustBeforeNode(nd int32, i, j int) bool {
+	return p.mustPrecedeAny(nd, i, j)
+}
+
+// mustPrecedeAnyNode: moving r[i..j] behind nd is impossible when one of
+// them must come before nd.
+func (p *polisher) mustPrecedeAnyNode(i, j int, nd int32) bool {
+	return p.anyMustBefore(i, j, nd)
+}
+
+// applyOr moves r[i..j] (reversed if rev) to sit between r[q] and r[q+1].
+func (p *polisher) applyOr(i, j, q int, rev bool) {
+	x := p.x
+	b := p.buf[:0]
+	segm := make([]int32, 0, j-i+1)
+	if rev {
+		for k := j; k >= i; k-- {
+			segm = append(segm, x.r[k])
+		}
+	} else {
+		segm = append(segm, x.r[i:j+1]...)
+	}
+	if q < i {
+		b = append(b, x.r[:q+1]...)
+		b = append(b, segm...)
+		b = append(b, x.r[q+1:i]...)
+		b = append(b, x.r[j+1:]...)
+	} else {
+		b = append(b, x.r[:i]...)
+		b = append(b, x.r[j+1:q+1]...)
+		b = append(b, segm...)
+		b = append(b, x.r[q+1:]...)
+	}
+	p.buf = b
+	x.set(b)
+	p.moves++
+}
+
+func (p *polisher) twoOpt() bool {
+	x, m := p.x, p.m
+	improvedAny := false
+	feasible := x.total().tw == 0
+	for i := 1; i < len(x.r)-2; i++ {
+		cur := m.value(x.total(), p.lam)
+		rev := m.unit(int(x.r[i]))
+		for j := i + 1; j <= len(x.r)-2 && j-i <= p.maxScan; j++ {
+			rev = join(m.unit(int(x.r[j])), rev, m.arc(x.r[j], x.r[j-1]))
+			if feasible && rev.tw > 0 {
+				break // longer reversals from i only add warp
+			}
+			s := join(x.fwd[i-1], rev, m.arc(x.r[i-1], x.r[j]))
+			s = join(s, x.bwd[j+1], m.arc(x.r[i], x.r[j+1]))
+			if m.value(s, p.lam) < cur-improveEps {
+				b := append(p.buf[:0], x.r...)
+				for a, c := i, j; a < c; a, c = a+1, c-1 {
+					b[a], b[c] = b[c], b[a]
+				}
+				p.buf = b
+				x.set(b)
+				p.moves++
+				improvedAny = true
+				feasible = x.total().tw == 0
+				cur = m.value(x.total(), p.lam)
+				rev = m.unit(int(x.r[i]))
+				break
+			}
+		}
+	}
+	return improvedAny
+}
+
+func (p *polisher) swap() bool {
+	x, m := p.x, p.m
+	improvedAny := false
+	for i := 1; i < len(x.r)-2; i++ {
+		cur := m.value(x.total(), p.lam)
+		a := x.r[i]
+		ua := m.unit(int(a))
+		var mid seg
+		for j := i + 1; j <= len(x.r)-2 && j-i <= p.maxScan; j++ {
+			b := x.r[j]
+			ub := m.unit(int(b))
+			var s seg
+			if j == i+1 {
+				s = join(x.fwd[i-1], ub, m.arc(x.r[i-1], b))
+				s = join(s, ua, m.arc(b, a))
+			} else {
+				nd := x.r[j-1]
+				if j == i+2 {
+					mid = m.unit(int(nd))
+				} else {
+					mid = join(mid, m.unit(int(nd)), m.arc(x.r[j-2], nd))
+				}
+				s = join(x.fwd[i-1], ub, m.arc(x.r[i-1], b))
+				s = join(s, mid, m.arc(b, x.r[i+1]))
+				s = join(s, ua, m.arc(nd, a))
+			}
+			s = join(s, x.bwd[j+1], m.arc(a, x.r[j+1]))
+			if m.value(s, p.lam) < cur-improveEps {
+				bf := append(p.buf[:0], x.r...)
+				bf[i], bf[j] = bf[j], bf[i]
+				p.buf = bf
+				x.set(bf)
+				p.moves++
+				improvedAny = true
+				break
+			}
+			if m.mustBefore(int(a), int(b)) {
+				break // a may not move behind b, nor any later node
+			}
+		}
+	}
+	return improvedAny
+}

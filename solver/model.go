@@ -1,0 +1,336 @@
+package solver
+
+import (
+	"errors"
+	"fmt"
+	"sort"
+)
+
+// model is the engine's working copy of an instance: the driven prefix folded
+// into the start, the route's end made one sentinel node, windows tightened
+// and impossible orders recorded. The search sees every shape as a path from
+// node start to node end = sentinel.
+type model struct {
+	in  *Instance
+	obj Objective
+	n   int     // nodes in the model: the instance's plus the sentinel
+	t   []int64 // n×n travel; row sentinel unused
+	s   []int64 // service
+	e   []int64 // tightened earliest start
+	l   []int64 // tightened latest start
+	// origE and origL are the instance's own windows (used when the
+	// tightened ones prove the instance infeasible, to minimise lateness).
+	origE, origL []int64
+
+	start    int   // where the movable part begins (the last node of the prefix)
+	startAt  int64 // time service starts at start
+	end      int   // the sentinel
+	endSeg   seg   // summary of the sentinel: the pinned tail and the route's end
+	prefix   []int // instance nodes driven or pinned before the movable part (start first)
+	suffix   []int // instance nodes pinned after the movable part (before the end)
+	prefixC  int64 // travel of the prefix
+	movable  []int // nodes the search orders
+	isMov    []bool
+	before   [][]uint64 // before[u] has bit k when u must come before k
+	infeas   bool       // tightening proved that no plan meets every window
+	arcOK    []bool     // arc i→j can be in a feasible plan
+	nearPred [][]int32  // for each node, movable predecessors sorted by travel
+}
+
+func (m *model) T(i, j int) int64 { return m.t[i*m.n+j] }
+
+func (m *model) mustBefore(u, k int) bool { return m.before[u][k>>6]>>(k&63)&1 == 1 }
+
+// unit is the one-node summary of node i.
+func (m *model) unit(i int) seg {
+	if i == m.end {
+		return m.endSeg
+	}
+	return seg{d: m.s[i], e: m.e[i], l: m.l[i], f: int32(i), z: int32(i)}
+}
+
+// newModel builds the model of in. It reports an error for constraints the
+// engine cannot honour.
+func newModel(in *Instance, obj Objective) (*model, error) {
+	N := in.N
+	n := N + 1
+	m := &model{in: in, obj: obj, n: n, end: N}
+	m.t = make([]int64, n*n)
+	m.s = make([]int64, n)
+	m.e = make([]int64, n)
+	m.l = make([]int64, n)
+	for i := 0; i < N; i++ {
+		copy(m.t[i*n:i*n+N], in.Travel[i*N:(i+1)*N])
+		m.s[i], m.e[i], m.l[i] = in.Service[i], in.Early[i], in.Late[i]
+	}
+	// Prefix: the driven visits, then visits pinned to the next positions.
+	pos := map[int]int{}
+	for i, p := range in.Position {
+		if p > 0 {
+			if _, dup := pos[p]; dup {
+				return nil, fmt.Errorf("two visits are pinned to position %d", p)
+			}
+			pos[p] = i
+		}
+	}
+	used := make([]bool, N)
+	if len(in.Fixed) > 0 {
+		m.prefix = append(m.prefix, in.Fixed...)
+	} else {
+		m.prefix = []int{in.Start}
+	}
+	for _, v := range m.prefix {
+		used[v] = true
+	}
+	for {
+		v, ok := pos[len(m.prefix)]
+		if !ok {
+			break
+		}
+		if used[v] {
+			return nil, fmt.Errorf("%s is pinned to position %d but is already placed", in.ID(v), len(m.prefix))
+		}
+		m.prefix = append(m.prefix, v)
+		used[v] = true
+		delete(pos, len(m.prefix)-1)
+	}
+	last := N - 1 // position of the last visit
+	tailEnd := -1
+	if in.Shape == OpenFixed {
+		tailEnd = in.End
+		if used[in.End] && N > 1 {
+			return nil, fmt.Errorf("the end %s cannot also be a done or pinned visit", in.ID(in.End))
+		}
+		used[in.End] = true
+		last = N - 2
+	}
+	// Suffix: visits pinned to the last positions, walking back.
+	var rev []int
+	for {
+		v, ok := pos[last-len(rev)]
+		if !ok || last-len(rev) < len(m.prefix) {
+			break
+		}
+		if used[v] {
+			return nil, fmt.Errorf("%s is pinned to position %d but is already placed", in.ID(v), last-len(rev))
+		}
+		rev = append(rev, v)
+		used[v] = true
+		delete(pos, last-len(rev)+1)
+	}
+	for k := len(rev) - 1; k >= 0; k-- {
+		m.suffix = append(m.suffix, rev[k])
+	}
+	if len(pos) > 0 {
+		ps := make([]int, 0, len(pos))
+		for p := range pos {
+			ps = append(ps, p)
+		}
+		sort.Ints(ps)
+		return nil, fmt.Errorf("%s is pinned to position %d: pins must form a run from the start or from the end of the route", in.ID(pos[ps[0]]), ps[0])
+	}
+	// Fold the prefix into the start: its schedule is fixed.
+	sch := Evaluate(in, m.prefix)
+	lastV := sch.Visits[len(sch.Visits)-1]
+	m.start = m.prefix[len(m.prefix)-1]
+	m.startAt = lastV.Start
+	m.prefixC = sch.Travel
+	m.e[m.start], m.l[m.start] = m.startAt, m.startAt
+	for i := 0; i < N; i++ {
+		if !used[i] {
+			m.movable = append(m.movable, i)
+		}
+	}
+	m.isMov = make([]bool, n)
+	for _, v := range m.movable {
+		m.isMov[v] = true
+	}
+	// The sentinel: arcs into it go to the first node of the tail.
+	tail := append([]int(nil), m.suffix...)
+	if tailEnd >= 0 {
+		tail = append(tail, tailEnd)
+	}
+	var endSeg seg
+	var first int
+	switch {
+	case len(tail) > 0:
+		first = tail[0]
+		endSeg = seg{d: m.s[first], e: m.e[first], l: m.l[first], f: int32(N), z: int32(N)}
+		for k := 1; k < len(tail); k++ {
+			endSeg = join(endSeg, seg{d: m.s[tail[k]], e: m.e[tail[k]], l: m.l[tail[k]]}, m.t[tail[k-1]*n+tail[k]])
+		}
+		if in.Shape == Closed {
+			endSeg = join(endSeg, seg{e: -Horizon, l: in.Late[in.Start]}, m.t[tail[len(tail)-1]*n+in.Start])
+		}
+		endSeg.f, endSeg.z = int32(N), int32(N)
+		m.e[N], m.l[N] = endSeg.e, endSeg.l
+	case in.Shape == Closed:
+		first = in.Start
+		m.e[N], m.l[N] = -Horizon, in.Late[in.Start]
+		endSeg = seg{e: -Horizon, l: in.Late[in.Start], f: int32(N), z: int32(N)}
+	default: // open, free end
+		first = -1
+		m.e[N], m.l[N] = -Horizon, Horizon
+		endSeg = seg{e: -Horizon, l: Horizon, f: int32(N), z: int32(N)}
+	}
+	m.endSeg = endSeg
+	for i := 0; i < N; i++ {
+		if first >= 0 {
+			m.t[i*n+N] = in.Travel[i*N+first]
+		}
+	}
+	m.origE = append([]int64(nil), m.e...)
+	m.origL = append([]int64(nil), m.l...)
+	m.tighten()
+	m.buildArcs()
+	m.buildPrecedence()
+	m.buildNear()
+	return m, nil
+}
+
+// tighten narrows windows from predecessors and successors until nothing
+// changes (Desrochers, Desrosiers, Solomon 1992; Dumas et al. 1995):
+// service at j cannot start before the earliest arrival from any possible
+// predecessor, and must start early enough to reach some possible successor.
+// Both rules keep every feasible plan feasible. When a window empties, no
+// plan meets every window: the originals are kept for lateness search.
+func (m *model) tighten() {
+	if len(m.movable) == 0 {
+		return
+	}
+	n := m.n
+	nodes := append([]int(nil), m.movable...)
+	preds := append([]int{m.start}, m.movable...)
+	succs := append(append([]int(nil), m.movable...), m.end)
+	if len(m.movable)*len(m.movable) > 25_000_000 {
+		return
+	}
+	for round := 0; round < 8; round++ {
+		changed := false
+		for _, j := range nodes {
+			lo := Horizon
+			for _, i := range preds {
+				if i == j {
+					continue
+				}
+				a := m.e[i] + m.s[i] + m.t[i*n+j]
+				if a <= m.l[j] && a < lo {
+					lo = a
+				}
+			}
+			if lo > m.e[j] && lo != Horizon {
+				m.e[j] = lo
+				changed = true
+			}
+			if lo == Horizon {
+				m.infeas = true
+			}
+			hi := -Horizon
+			for _, k := range succs {
+				if k == j {
+					continue
+				}
+				if m.e[j]+m.s[j]+m.t[j*n+k] > m.l[k] {
+					continue
+				}
+				b := m.l[k] - m.s[j] - m.t[j*n+k]
+				if b > hi {
+					hi = b
+				}
+			}
+			if hi == -Horizon {
+				m.infeas = true
+			} else if hi < m.l[j] {
+				m.l[j] = hi
+				changed = true
+			}
+			if m.e[j] > m.l[j] {
+				m.infeas = true
+			}
+			if m.infeas {
+				break
+			}
+		}
+		if m.infeas || !changed {
+			break
+		}
+	}
+	if m.infeas {
+		copy(m.e, m.origE)
+		copy(m.l, m.origL)
+	}
+}
+
+func (m *model) buildArcs() {
+	n := m.n
+	m.arcOK = make([]bool, n*n)
+	for i := 0; i < n; i++ {
+		for j := 0; j < n; j++ {
+			m.arcOK[i*n+j] = i != j && m.e[i]+m.s[i]+m.t[i*n+j] <= m.l[j]
+		}
+	}
+}
+
+// buildPrecedence records u-before-k when k, served as early as it can be,
+// cannot reach u by u's latest start even directly (Dumas et al. 1995).
+// Stretches of a route that would break a precedence are skipped by the
+// local search. With the triangle inequality broken this is a heuristic
+// filter only: it never makes a plan infeasible, it may hide a move.
+func (m *model) buildPrecedence() {
+	n := m.n
+	words := (n + 63) / 64
+	m.before = make([][]uint64, n)
+	flat := make([]uint64, n*words)
+	for u := 0; u < n; u++ {
+		m.before[u] = flat[u*words : (u+1)*words]
+	}
+	if m.infeas {
+		return
+	}
+	for _, u := range m.movable {
+		for _, k := range m.movable {
+			if u != k && m.e[k]+m.s[k]+m.t[k*n+u] > m.l[u] {
+				m.before[u][k>>6] |= 1 << (k & 63)
+			}
+		}
+	}
+}
+
+// buildNear keeps, per node, the movable nodes that may directly precede it,
+// nearest first: the candidate lists of insertion and relatedness.
+func (m *model) buildNear() {
+	n := m.n
+	m.nearPred = make([][]int32, n)
+	for _, j := range m.movable {
+		var l []int32
+		for _, i := range m.movable {
+			if i != j && (m.infeas || m.arcOK[i*n+j]) {
+				l = append(l, int32(i))
+			}
+		}
+		sort.Slice(l, func(a, b int) bool {
+			ta, tb := m.t[int(l[a])*n+j], m.t[int(l[b])*n+j]
+			if ta != tb {
+				return ta < tb
+			}
+			return l[a] < l[b]
+		})
+		m.nearPred[j] = l
+	}
+}
+
+// external turns a model route (start ... sentinel) into an instance route.
+func (m *model) external(r []int32) []int {
+	out := make([]int, 0, m.in.N)
+	out = append(out, m.prefix...)
+	for _, v := range r[1 : len(r)-1] {
+		out = append(out, int(v))
+	}
+	out = append(out, m.suffix...)
+	if m.in.Shape == OpenFixed && m.in.N > 1 {
+		out = append(out, m.in.End)
+	}
+	return out
+}
+
+var errNoNodes = errors.New("nothing to plan")
