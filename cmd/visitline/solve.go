@@ -11,6 +11,7 @@ import (
 	"time"
 
 	"visitline/solver"
+	"visitline/solver/bound"
 	"visitline/solver/format"
 )
 
@@ -23,6 +24,7 @@ type solveFlags struct {
 	objective  string
 	format     string
 	quiet      bool
+	bound      bool
 }
 
 func runSolve(args []string, stdout, stderr io.Writer) error {
@@ -37,6 +39,7 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	fs.StringVar(&f.objective, "objective", "travel", "travel (sum of arcs) or completion (end time, waiting counted)")
 	fs.StringVar(&f.format, "format", "table", "output: table, json or csv")
 	fs.BoolVar(&f.quiet, "quiet", false, "no progress on stderr")
+	fs.BoolVar(&f.bound, "bound", true, "compute a lower bound beside the search and prove the plan optimal where the exact search can")
 	fs.Usage = func() {
 		fmt.Fprintln(stderr, "usage: visitline solve [flags] FILE")
 		fs.PrintDefaults()
@@ -82,11 +85,23 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 			fmt.Fprintf(stderr, "%8.3fs  iter %-8d cost %-12g %s (%s)\n", p.Elapsed.Seconds(), p.Iteration, in.Float(p.Cost), state, p.Operator)
 		}
 	}
-	res, err := solver.Solve(ctx, in, s)
+	var res solver.Result
+	var b bound.Bound
+	if f.bound {
+		res, b, err = bound.Solve(ctx, in, s)
+	} else {
+		res, err = solver.Solve(ctx, in, s)
+	}
 	if err != nil {
 		return err
 	}
 	j := format.NewPlanJSON(in, obj, res.Best, &res)
+	if f.bound {
+		fillBound(&j, in, b, res.Best)
+		if !res.Best.Feasible {
+			explain(ctx, &j, in, f.budget)
+		}
+	}
 	switch f.format {
 	case "json":
 		return format.WriteJSON(stdout, j)
@@ -94,6 +109,37 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 		return format.WriteCSV(stdout, in, j)
 	}
 	return format.WriteTable(stdout, j)
+}
+
+// fillBound adds the bound side's verdict to the plan's JSON.
+func fillBound(j *format.PlanJSON, in *solver.Instance, b bound.Bound, best solver.Plan) {
+	r := bound.ReportFor(b, best)
+	if r.HasBound {
+		lb := in.Float(r.LowerBound)
+		j.LowerBound = &lb
+	}
+	if r.HasGap {
+		g := r.GapPct
+		j.GapBoundPct = &g
+	}
+	j.ProvenOptimal = r.ProvenOptimal
+}
+
+// explain says why a day with no feasible plan is infeasible, within a
+// share of the budget (at least a few seconds).
+func explain(ctx context.Context, j *format.PlanJSON, in *solver.Instance, budget time.Duration) {
+	limit := max(budget/2, 5*time.Second)
+	ctx, cancel := context.WithTimeout(ctx, limit)
+	defer cancel()
+	ex, err := bound.Explain(ctx, in)
+	if err != nil {
+		if errors.Is(err, bound.ErrUndecided) {
+			j.Reason = "no plan meets every window within the search limits, and no short explanation was found in time"
+		}
+		return
+	}
+	j.Conflict = ex.ConflictIDs
+	j.Reason = ex.Reason
 }
 
 // loadInstance opens and reads an instance file, naming it in every error.

@@ -412,7 +412,7 @@ func reason(in *solver.Instance, frame []int, ex Explanation) string {
 		parts = append(parts, win(v))
 	}
 	var b strings.Builder
-	from := "leaving " + in.ID(in.Start) + " at " + num(in.Early[in.Start])
+	from := "leaving the start " + in.ID(in.Start) + " at " + num(in.Early[in.Start])
 	if len(in.Fixed) > 1 {
 		from = "after the visits already done"
 	}
@@ -440,7 +440,7 @@ func reason(in *solver.Instance, frame []int, ex Explanation) string {
 		if !ex.WidenExact {
 			q = " (perhaps less)"
 		}
-		fixes = append(fixes, fmt.Sprintf("moving the latest start of %s %s later%s", in.ID(ex.Widen), num(ex.WidenBy), q))
+		fixes = append(fixes, fmt.Sprintf("moving the latest start of %s later by %s%s", in.ID(ex.Widen), num(ex.WidenBy), q))
 	}
 	if ex.Drop >= 0 {
 		fixes = append(fixes, "leaving out "+in.ID(ex.Drop))

@@ -52,7 +52,7 @@ func TestExplainTwoTightWindows(t *testing.T) {
 	assert.Contains(t, []int{1, 2}, ex.Drop)
 	assert.Contains(t, ex.Reason, "A [10, 12]")
 	assert.Contains(t, ex.Reason, "B [10, 12]")
-	assert.Contains(t, ex.Reason, "3 later")
+	assert.Contains(t, ex.Reason, "later by 3")
 	checkConflictByEnumeration(t, in, ex)
 }
 
