@@ -20,7 +20,8 @@ type Options struct {
 	// Iterations of the subgradient ascent on the node penalties (default 80).
 	Iterations int
 	// StateLabels caps the labels of one state of the relaxation; beyond it,
-	// neighbouring labels are merged into optimistic ones (default 24).
+	// neighbouring labels are merged into optimistic ones (default 24 up to
+	// 60 nodes, 8 above: larger tables converge too slowly to pay).
 	StateLabels int
 	// TableLabels caps the labels of the whole relaxation (default 6 million);
 	// a larger table is retried with fewer labels per state.
@@ -157,6 +158,9 @@ func Exact(ctx context.Context, in *solver.Instance, o Options) Bound {
 // runPhases computes the bounds under ctx and then, when exact, runs the
 // exact search under sctx (which ends no later than ctx).
 func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact bool) Bound {
+	if o.StateLabels <= 0 && in.N > 60 {
+		o.StateLabels = 8
+	}
 	o = o.withDefaults()
 	var b Bound
 	if err := in.Validate(); err != nil {
@@ -214,12 +218,13 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 	}
 	// State-space relaxation with penalties.
 	var rx *relax
+	u0, _ := b.ub(o)
+	asc := newAscent(p, obj, lagrangeOpts{iters: o.Iterations, perState: o.StateLabels, maxTotal: o.TableLabels, ub: u0})
 	if ctx.Err() == nil {
 		lctx, cancel := shareOf(ctx, o.RelaxShare)
-		u, _ := b.ub(o)
-		var route []int
-		rx, route = lagrange(lctx, p, obj, lagrangeOpts{iters: o.Iterations, perState: o.StateLabels, maxTotal: o.TableLabels, ub: u}, y)
+		asc.run(lctx, o.Iterations, y)
 		cancel()
+		rx, route := asc.best, asc.route
 		switch {
 		case rx == nil:
 			b.Notes = append(b.Notes, "state-space bound skipped: the table does not fit the label cap or time ran out")
@@ -238,6 +243,34 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 	b.checkProven(o)
 	if !exact || b.ProvenOptimal || sctx.Err() != nil {
 		return b
+	}
+	rx = asc.best
+	if rx != nil && rx.z == inf {
+		rx = nil
+	}
+	// more gives time the exact search cannot use to the penalty ascent:
+	// only when there is a deadline, so that runs without one stay the
+	// same from run to run.
+	_, timed := sctx.Deadline()
+	more := func(share float64) {
+		if !timed || asc.done || asc.best == nil || sctx.Err() != nil {
+			return
+		}
+		if u, ok := b.ub(o); ok {
+			asc.target = min(asc.target, u)
+		}
+		actx, cancel := shareOf(sctx, share)
+		asc.run(actx, 1000, y)
+		cancel()
+		if asc.best.z != inf && (!b.HasStateSpace || asc.best.z > b.StateSpace) {
+			b.StateSpace, b.HasStateSpace = asc.best.z, true
+			b.raise(asc.best.z, "state-space")
+			rx = asc.best
+		}
+		if asc.route != nil {
+			b.offerChecked(in, asc.route, obj)
+		}
+		b.checkProven(o)
 	}
 	// Exact search with a growing beam.
 	ubf := func() int64 {
@@ -274,8 +307,18 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 			b.raise(lb, "search")
 		}
 		b.checkProven(o)
-		if b.ProvenOptimal || last || sctx.Err() != nil {
+		if b.ProvenOptimal || sctx.Err() != nil {
 			break
+		}
+		if last {
+			more(1)
+			break
+		}
+		if beam >= 2048 {
+			more(0.4)
+			if b.ProvenOptimal {
+				break
+			}
 		}
 	}
 	return b

@@ -305,41 +305,73 @@ type lagrangeOpts struct {
 	ub       int64 // best known feasible cost; inf when none
 }
 
-// lagrange improves the penalties by subgradient ascent (Polyak steps
-// towards ub) and returns the tables of the best penalties found, or nil when
-// the tables do not fit. The relaxed path of the best tables is checked: when
-// it is a feasible route whose cost equals the bound, it is optimal, and
-// bestRoute returns it.
+// ascent is the subgradient ascent on the node penalties (Polyak steps
+// towards the best known cost), resumable so that time left over by the
+// exact search can go to it.
+type ascent struct {
+	p      *prob
+	obj    solver.Objective
+	o      lagrangeOpts
+	lamF   []float64
+	lam    []int64
+	mu     float64
+	stall  int
+	target int64
+	iters  int
+	best   *relax
+	// route is set when a relaxed optimal path is a feasible route whose
+	// cost equals the bound: it is then optimal.
+	route []int
+	// done: converged, proven, shown infeasible, or out of room.
+	done bool
+}
+
+func newAscent(p *prob, obj solver.Objective, o lagrangeOpts) *ascent {
+	return &ascent{p: p, obj: obj, o: o, lamF: make([]float64, p.n), lam: make([]int64, p.n), mu: 2, target: o.ub}
+}
+
+// lagrange runs a fresh ascent of o.iters iterations; see ascent.run.
 func lagrange(ctx context.Context, p *prob, obj solver.Objective, o lagrangeOpts, y *yielder) (best *relax, bestRoute []int) {
-	n := p.n
-	lamF := make([]float64, n)
-	lam := make([]int64, n)
-	mu := 2.0
-	stall := 0
-	target := o.ub
-	for it := 0; it < max(1, o.iters); it++ {
-		rx := buildRelax(ctx, p, obj, append([]int64(nil), lam...), o.perState, o.maxTotal, y)
+	a := newAscent(p, obj, o)
+	a.run(ctx, o.iters, y)
+	return a.best, a.route
+}
+
+// run does up to iters more iterations (fewer when it converges or ctx
+// ends). ub, when below the target, replaces it.
+func (a *ascent) run(ctx context.Context, iters int, y *yielder) {
+	p, n := a.p, a.p.n
+	for it := 0; it < max(1, iters) && !a.done; it++ {
+		if ctx.Err() != nil {
+			return
+		}
+		rx := buildRelax(ctx, p, a.obj, append([]int64(nil), a.lam...), a.o.perState, a.o.maxTotal, y)
 		if rx == nil {
-			if best == nil && o.perState > 1 && ctx.Err() == nil {
+			if a.best == nil && a.o.perState > 1 && ctx.Err() == nil {
 				// Too big: retry with a coarser table.
-				o.perState = max(1, o.perState/4)
+				a.o.perState = max(1, a.o.perState/4)
 				it--
 				continue
 			}
-			return best, bestRoute
+			if ctx.Err() == nil {
+				a.done = true
+			}
+			return
 		}
+		a.iters++
 		if rx.z == inf {
 			// No relaxed path at all: no feasible plan exists.
-			return rx, nil
+			a.best, a.done = rx, true
+			return
 		}
-		if best == nil || rx.z > best.z {
-			best = rx
-			stall = 0
+		if a.best == nil || rx.z > a.best.z {
+			a.best = rx
+			a.stall = 0
 		} else {
-			stall++
-			if stall >= 4 {
-				mu /= 2
-				stall = 0
+			a.stall++
+			if a.stall >= 8 {
+				a.mu /= 2
+				a.stall = 0
 			}
 		}
 		// Is the relaxed path a route?
@@ -355,44 +387,41 @@ func lagrange(ctx context.Context, p *prob, obj solver.Objective, o lagrangeOpts
 		}
 		if elementary && solver.CheckRoute(p.in, rx.path) == nil {
 			sch := solver.Evaluate(p.in, rx.path)
-			if sch.Feasible && sch.Cost(obj) <= rx.z {
-				return rx, append([]int(nil), rx.path...)
+			if sch.Feasible && sch.Cost(a.obj) <= rx.z {
+				a.best, a.route, a.done = rx, append([]int(nil), rx.path...), true
+				return
 			}
-			if sch.Feasible && sch.Cost(obj) < target {
-				target = sch.Cost(obj)
+			if sch.Feasible && sch.Cost(a.obj) < a.target {
+				a.target = sch.Cost(a.obj)
 			}
 		}
-		if elementary || mu < 0.01 {
-			break // a zero subgradient cannot move the penalties any further
+		if elementary || a.mu < 0.005 {
+			a.done = true // a zero subgradient cannot move the penalties any further
+			return
 		}
-		tgt := target
+		tgt := a.target
 		if tgt >= inf {
 			tgt = rx.z + max(1, abs64(rx.z)/20)
 		}
-		if tgt <= best.z {
-			break // the bound has closed on the best known cost
+		if tgt <= a.best.z {
+			a.done = true // the bound has closed on the best known cost
+			return
 		}
 		var norm float64
 		for j := 0; j < n; j++ {
-			if j == p.start {
-				continue
+			if j != p.start {
+				g := float64(1 - counts[j])
+				norm += g * g
 			}
-			g := float64(1 - counts[j])
-			norm += g * g
 		}
-		step := mu * float64(tgt-rx.z) / norm
+		step := a.mu * float64(tgt-rx.z) / norm
 		for j := 0; j < n; j++ {
-			if j == p.start {
-				continue
+			if j != p.start {
+				a.lamF[j] += step * float64(1-counts[j])
+				a.lam[j] = int64(math.Round(a.lamF[j]))
 			}
-			lamF[j] += step * float64(1-counts[j])
-			lam[j] = int64(math.Round(lamF[j]))
-		}
-		if ctx.Err() != nil {
-			break
 		}
 	}
-	return best, bestRoute
 }
 
 func abs64(v int64) int64 {
