@@ -3,7 +3,7 @@ GO ?= go
 BENCH_DIR ?= ../shared/benchmarks/tsptw
 BENCH_BUDGET ?= 5s
 
-.PHONY: all build test bench demo vet fmt site clean
+.PHONY: all build test bench bound-report demo vet fmt site clean
 
 all: build
 
@@ -17,6 +17,9 @@ test:
 bench: build
 	$(GO) test -run '^$$' -bench . -benchtime 3x ./solver/...
 	./bin/visitline bench --budget $(BENCH_BUDGET) --bounds $(BENCH_DIR)/best-known.csv --json bench-results.json --readme README.md $(BENCH_DIR)
+
+bound-report:
+	VISITLINE_BOUND_REPORT=Dumas,GendreauDumasExtended VISITLINE_BOUND_BUDGET=10s GOMAXPROCS=1 $(GO) test -count=1 -timeout 0 -run TestBoundReport -v ./solver/bound
 
 demo: build
 	./bin/visitline solve --budget 3s examples/warehouse/picks.txt

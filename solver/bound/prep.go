@@ -1,16 +1,3 @@
-// Package bound proves how good a plan is: lower bounds on the optimal
-// objective (assignment relaxation, state-space relaxation with Lagrangian
-// penalties), an exact dynamic programme over (visited set, last node, time)
-// that proves optimality or infeasibility, an explanation of why a day with
-// no feasible plan is infeasible, and exhaustive enumeration as a test
-// oracle.
-//
-// Every value this package calls a bound is at most the optimum: the
-// arithmetic is exact (int64 in the instance's scale) and every pruning rule
-// is a relaxation. The package never prints, never reads files and imports
-// only the engine and the standard library. Long work takes a
-// context.Context and gives other goroutines a turn often, so that it runs in
-// the single-threaded WebAssembly build as well.
 package bound
 
 import (
