@@ -135,3 +135,41 @@ func TestBoundReport(t *testing.T) {
 		fmt.Printf("SUMMARY %-22s runs=%d proven=%d mean-gap-to-best-known=%.3f%% mean-seconds=%.2f budget=%v\n", f, s.runs, s.proven, s.gap/float64(s.runs), s.sec/float64(s.runs), budget)
 	}
 }
+
+// BenchmarkExact proves one mid-sized tight-window instance optimal per
+// iteration (Dumas n60w40.001, optimum 591 per best-known.csv: Dumas et al.
+// (1995)).
+func BenchmarkExact(b *testing.B) {
+	var k known
+	for _, x := range loadKnown(b) {
+		if x.family == "Dumas" && x.instance == "n60w40.001.txt" {
+			k = x
+		}
+	}
+	in := loadBench(b, k)
+	for b.Loop() {
+		r := Exact(context.Background(), in, Options{})
+		if !r.ProvenOptimal || in.Float(r.Cost) != k.best {
+			b.Fatalf("not proven: %+v", r.Notes)
+		}
+	}
+}
+
+// BenchmarkRelaxation builds the state-space relaxation of a wide-window
+// instance once per iteration (GendreauDumasExtended n60w120.001).
+func BenchmarkRelaxation(b *testing.B) {
+	var k known
+	for _, x := range loadKnown(b) {
+		if x.family == "GendreauDumasExtended" && x.instance == "n60w120.001.txt" {
+			k = x
+		}
+	}
+	in := loadBench(b, k)
+	p := newProb(in)
+	lam := make([]int64, in.N)
+	for b.Loop() {
+		if rx := buildRelax(context.Background(), p, solver.TravelTime, lam, 24, 6<<20, &yielder{}); rx == nil {
+			b.Fatal("no table")
+		}
+	}
+}

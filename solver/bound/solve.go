@@ -124,8 +124,8 @@ func SolveWith(ctx context.Context, in *solver.Instance, s solver.Settings, o Op
 		}
 	}()
 	res, err := solver.Solve(engCtx, in, s)
-	if s.Budget <= 0 {
-		stopSearch() // only an iteration budget: the search ends with the engine
+	if s.Budget <= 0 || err != nil {
+		stopSearch() // only an iteration budget (or a failure): the search ends with the engine
 	}
 	<-done
 	if err != nil {
