@@ -132,6 +132,9 @@ func (b *Bound) ub(o Options) (int64, bool) {
 
 func (b *Bound) checkProven(o Options) {
 	if u, ok := b.ub(o); ok && b.Valid && b.Value >= u {
+		if b.Value > u {
+			b.Notes = append(b.Notes, fmt.Sprintf("internal error: the %s bound %d is above a feasible cost %d", b.Method, b.Value, u))
+		}
 		b.Value = u
 		b.ProvenOptimal = true
 	}

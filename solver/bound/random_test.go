@@ -141,6 +141,9 @@ func checkAgainstEnumeration(t *testing.T, name string, in *solver.Instance, obj
 	t.Helper()
 	want, wantCost, ok := Enumerate(in, obj)
 	b := Exact(context.Background(), in, Options{Objective: obj})
+	for _, note := range b.Notes {
+		require.NotContains(t, note, "internal error", name)
+	}
 	if !ok {
 		require.True(t, b.Infeasible, "%s: enumeration finds no feasible route, the exact search must prove it (notes %v)", name, b.Notes)
 		require.Nil(t, b.Route, name)
