@@ -76,7 +76,8 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 		}
 		return true
 	}
-	var cands []cand
+	var cands, sorted []cand
+	var counts []int32
 	bySucc := make([]int64, n)
 	for i := range bySucc {
 		bySucc[i] = inf
@@ -153,12 +154,7 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 			// Pareto filter with two-cycle elimination: a label goes when a
 			// label with the same successor, or two labels with different
 			// successors, are at least as good in both L and C.
-			slices.SortFunc(cands, func(a, b cand) int {
-				if a.L != b.L {
-					return cmp.Compare(b.L, a.L)
-				}
-				return cmp.Compare(a.C, b.C)
-			})
+			cands, sorted = sortCands(cands, sorted, p.lt[i]-p.et[i], p.lt[i], &counts)
 			keep := cands[:0]
 			anyC, b1, b2 := inf, inf, inf
 			var s1 int32 = -1
@@ -249,6 +245,64 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 	}
 	rx.envOff[n*n] = int32(len(rx.envL))
 	return rx
+}
+
+// sortCands orders candidates by L descending, then C ascending. All L lie
+// in [top-width, top]; when that range is small (integer times of a few
+// thousand units), a counting sort by L and an insertion sort of each run of
+// equal L is much faster than a comparison sort. It returns the sorted
+// slice and the spare buffer.
+func sortCands(c, buf []cand, width, top int64, counts *[]int32) (sortedOut, spare []cand) {
+	if width < 0 || width > 1<<13 || len(c) < 48 {
+		slices.SortFunc(c, func(a, b cand) int {
+			if a.L != b.L {
+				return cmp.Compare(b.L, a.L)
+			}
+			return cmp.Compare(a.C, b.C)
+		})
+		return c, buf
+	}
+	w := int(width) + 1
+	if cap(*counts) < w+1 {
+		*counts = make([]int32, w+1)
+	}
+	cnt := (*counts)[:w+1]
+	for k := range cnt {
+		cnt[k] = 0
+	}
+	for _, x := range c {
+		cnt[top-x.L+1]++
+	}
+	for k := 1; k <= w; k++ {
+		cnt[k] += cnt[k-1]
+	}
+	if cap(buf) < len(c) {
+		buf = make([]cand, len(c))
+	}
+	out := buf[:len(c)]
+	for _, x := range c {
+		k := top - x.L
+		out[cnt[k]] = x
+		cnt[k]++
+	}
+	// Runs of equal L by C ascending.
+	for a := 0; a < len(out); {
+		b := a + 1
+		for b < len(out) && out[b].L == out[a].L {
+			b++
+		}
+		for x := a + 1; x < b; x++ {
+			v := out[x]
+			y := x - 1
+			for y >= a && out[y].C > v.C {
+				out[y+1] = out[y]
+				y--
+			}
+			out[y+1] = v
+		}
+		a = b
+	}
+	return out, c
 }
 
 // mergeLabels cuts a Pareto list (L descending) to k labels by replacing runs
