@@ -11,12 +11,12 @@ import (
 // least total cost (Hungarian method with potentials, O(n³)). Subtours are
 // allowed, so its value is at most the cost of any route. For the
 // completion objective an arc i→j weighs s_i + t_ij and the bound adds the
-// departure time of the start. ok is false when no assignment exists (then no
+// departure time of the start. pot are the dual potentials per node. ok is false when no assignment exists (then no
 // route exists either) or ctx ended.
-func assignmentBound(ctx context.Context, p *prob, obj solver.Objective, y *yielder) (value int64, ok, infeasible bool) {
+func assignmentBound(ctx context.Context, p *prob, obj solver.Objective, y *yielder) (value int64, pot []int64, ok, infeasible bool) {
 	n := p.n
 	if n == 1 {
-		return 0, true, false
+		return 0, nil, true, false
 	}
 	m := n
 	dummy := -1
@@ -58,7 +58,7 @@ func assignmentBound(ctx context.Context, p *prob, obj solver.Objective, y *yiel
 	used := make([]bool, m+1)
 	for i := 1; i <= m; i++ {
 		if y.tick() && ctx.Err() != nil {
-			return 0, false, false
+			return 0, nil, false, false
 		}
 		match[0] = i
 		j0 := 0
@@ -84,7 +84,7 @@ func assignmentBound(ctx context.Context, p *prob, obj solver.Objective, y *yiel
 				}
 			}
 			if j1 < 0 {
-				return 0, false, true
+				return 0, nil, false, true
 			}
 			for j := 0; j <= m; j++ {
 				if used[j] {
@@ -113,5 +113,13 @@ func assignmentBound(ctx context.Context, p *prob, obj solver.Objective, y *yiel
 	if obj == solver.CompletionTime {
 		total += p.e[p.start]
 	}
-	return total, true, false
+	// The dual potentials: u_k + v_k, the node penalties under which the
+	// state-space relaxation starts at least as high as this bound (each
+	// node is once a tail and once a head, so Σ(c − u − v) over a route is
+	// its reduced cost, which is never negative).
+	pot = make([]int64, n)
+	for k := 0; k < n; k++ {
+		pot[k] = u[k+1] + v[k+1]
+	}
+	return total, pot, true, false
 }

@@ -21,7 +21,7 @@ type Options struct {
 	Iterations int
 	// StateLabels caps the labels of one state of the relaxation; beyond it,
 	// neighbouring labels are merged into optimistic ones (default 24 up to
-	// 60 nodes, 8 above: larger tables converge too slowly to pay).
+	// 100 nodes, 8 above: larger tables converge too slowly to pay).
 	StateLabels int
 	// TableLabels caps the labels of the whole relaxation (default 6 million);
 	// a larger table is retried with fewer labels per state.
@@ -141,7 +141,8 @@ func (b *Bound) checkProven(o Options) {
 }
 
 // Lower computes lower bounds without the exact search: the assignment
-// relaxation and the state-space relaxation with penalties (and, for the
+// relaxation and the state-space relaxation with penalties, started from the
+// assignment's dual potentials (and, for the
 // completion objective, a bound from the windows). It may still find and
 // prove an optimal route when the relaxation's best path is one.
 func Lower(ctx context.Context, in *solver.Instance, o Options) Bound {
@@ -161,7 +162,7 @@ func Exact(ctx context.Context, in *solver.Instance, o Options) Bound {
 // runPhases computes the bounds under ctx and then, when exact, runs the
 // exact search under sctx (which ends no later than ctx).
 func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact bool) Bound {
-	if o.StateLabels <= 0 && in.N > 60 {
+	if o.StateLabels <= 0 && in.N > 100 {
 		o.StateLabels = 8
 	}
 	o = o.withDefaults()
@@ -196,9 +197,11 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 		b.raise(windowBound(p), "windows")
 	}
 	// Assignment relaxation.
+	var apPot []int64
 	if in.N <= 1500 {
-		if v, ok, infeas := assignmentBound(ctx, p, obj, y); ok {
+		if v, pot, ok, infeas := assignmentBound(ctx, p, obj, y); ok {
 			b.Assignment, b.HasAssignment = v, true
+			apPot = pot
 			b.raise(v, "assignment")
 		} else if infeas {
 			b.Infeasible = true
@@ -223,6 +226,7 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 	var rx *relax
 	u0, _ := b.ub(o)
 	asc := newAscent(p, obj, lagrangeOpts{iters: o.Iterations, perState: o.StateLabels, maxTotal: o.TableLabels, ub: u0})
+	asc.warm(apPot)
 	if ctx.Err() == nil {
 		lctx, cancel := shareOf(ctx, o.RelaxShare)
 		asc.run(lctx, o.Iterations, y)

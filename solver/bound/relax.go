@@ -384,6 +384,22 @@ func newAscent(p *prob, obj solver.Objective, o lagrangeOpts) *ascent {
 	return &ascent{p: p, obj: obj, o: o, lamF: make([]float64, p.n), lam: make([]int64, p.n), mu: 2, target: o.ub}
 }
 
+// warm starts the penalties at the assignment's dual potentials (additive
+// bounding in the manner of Fischetti and Toth: the relaxation then starts at
+// the assignment bound or above). Any penalties give a valid bound.
+func (a *ascent) warm(pot []int64) {
+	if len(pot) != a.p.n {
+		return
+	}
+	for j := range pot {
+		if j != a.p.start {
+			a.lam[j] = pot[j]
+			a.lamF[j] = float64(pot[j])
+		}
+	}
+	a.mu = 0.5 // from a good start, long steps only undo it
+}
+
 // lagrange runs a fresh ascent of o.iters iterations; see ascent.run.
 func lagrange(ctx context.Context, p *prob, obj solver.Objective, o lagrangeOpts, y *yielder) (best *relax, bestRoute []int) {
 	a := newAscent(p, obj, o)
