@@ -33,8 +33,10 @@ type Options struct {
 	// HistoryLabels caps the labels kept over all stages for rebuilding the
 	// route (default 2^25, about 270 MB).
 	HistoryLabels int
-	// Yield is called every thousand or so steps of work (the bound also
-	// calls runtime.Gosched then), for a single-threaded host to take a turn.
+	// Yield is called about every 20 ms of work (the bound also calls
+	// runtime.Gosched every thousand or so steps). In the WebAssembly worker
+	// it should block until the event loop has had a turn, as the engine's
+	// Settings.Pause does, so that messages get in while the bound runs.
 	Yield func()
 	// RelaxShare is the share of the context's remaining time that the
 	// penalty ascent may use before the exact search starts (default 0.3).

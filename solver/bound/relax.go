@@ -29,12 +29,11 @@ type relax struct {
 	lamSum int64
 	// Per (r, i) at index r*n+i: the lookup envelope envL ascending with envC
 	// the least C among labels with that L or more.
-	envOff       []int32
-	envL, envC   []int64
-	z            int64 // Z(λ): the bound, inf when no relaxed path exists
-	path         []int // a relaxed optimal path, the start first
-	merged       bool  // some labels were merged to fit the cap
-	feasibleOnly bool
+	envOff     []int32
+	envL, envC []int64
+	z          int64 // Z(λ): the bound, inf when no relaxed path exists
+	path       []int // a relaxed optimal path, the start first
+	merged     bool  // some labels were merged to fit the cap
 }
 
 // label arrays of one build.
@@ -398,13 +397,6 @@ func (a *ascent) warm(pot []int64) {
 		}
 	}
 	a.mu = 0.5 // from a good start, long steps only undo it
-}
-
-// lagrange runs a fresh ascent of o.iters iterations; see ascent.run.
-func lagrange(ctx context.Context, p *prob, obj solver.Objective, o lagrangeOpts, y *yielder) (best *relax, bestRoute []int) {
-	a := newAscent(p, obj, o)
-	a.run(ctx, o.iters, y)
-	return a.best, a.route
 }
 
 // run does up to iters more iterations (fewer when it converges or ctx

@@ -84,3 +84,16 @@ func TestSolveInfeasibleDay(t *testing.T) {
 	require.False(t, ok)
 	require.True(t, proven)
 }
+
+func TestYieldHookIsCalled(t *testing.T) {
+	// A wide-window instance takes well over a thousand steps, and the hook
+	// runs at the first turn and then at most every 20 ms: at least once.
+	rng := rand.New(rand.NewSource(4))
+	in := randomInstance(rng, 10, 5000, solver.Closed)
+	calls := 0
+	b := Exact(context.Background(), in, Options{Yield: func() { calls++ }})
+	require.True(t, b.ProvenOptimal)
+	_, opt, _ := Enumerate(in, solver.TravelTime)
+	require.Equal(t, opt, b.Cost)
+	require.GreaterOrEqual(t, calls, 1)
+}
