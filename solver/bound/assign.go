@@ -57,7 +57,7 @@ func assignmentBound(ctx context.Context, p *prob, obj solver.Objective, y *yiel
 	minv := make([]int64, m+1)
 	used := make([]bool, m+1)
 	for i := 1; i <= m; i++ {
-		if y.tick() && ctx.Err() != nil {
+		if ctx.Err() != nil {
 			return 0, nil, false, false
 		}
 		match[0] = i
@@ -67,6 +67,9 @@ func assignmentBound(ctx context.Context, p *prob, obj solver.Objective, y *yiel
 			used[j] = false
 		}
 		for {
+			if y.tick() && ctx.Err() != nil {
+				return 0, nil, false, false
+			}
 			used[j0] = true
 			i0 := match[j0]
 			delta, j1 := inf, -1

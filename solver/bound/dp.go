@@ -427,7 +427,7 @@ func runDP(ctx context.Context, p *prob, cfg dpConfig) dpResult {
 					if stj > p.lt[j] {
 						continue
 					}
-					if mb := p.mustBefore[j]; mb != nil && !subset(mb, words) {
+					if p.mustBefore != nil && p.mustBefore[j] != nil && !subset(p.mustBefore[j], words) {
 						continue
 					}
 					if final && p.shape == solver.Closed && (!p.arc[j*n+p.start] || stj+p.s[j]+p.t(j, p.start) > p.lateRet) {

@@ -13,7 +13,7 @@ const inf int64 = math.MaxInt64 / 4
 
 // spLimit is the largest instance for which all-pairs shortest paths (and so
 // precedences) are computed: Floyd–Warshall is cubic.
-const spLimit = 600
+var spLimit = 600
 
 // prob is an instance after window tightening and arc elimination. Times are
 // those of the instance; e is the original earliest start (schedules are
@@ -40,6 +40,7 @@ type prob struct {
 	pinned     bool       // some node other than the start is pinned (fixed prefix or positions)
 
 	mustBeforeTmp [][]bool
+	y             yielder // turns for other goroutines during the cubic steps
 }
 
 func (p *prob) t(i, j int) int64 { return p.in.Travel[i*p.n+j] }
@@ -293,6 +294,7 @@ func (p *prob) shortestPaths() {
 		}
 		rowK := sp[k*n : k*n+n]
 		for i := 0; i < n; i++ {
+			p.y.tick()
 			dik := sp[i*n+k]
 			if dik == inf {
 				continue
@@ -359,6 +361,7 @@ func (p *prob) precedences() bool {
 			if !p.arc[i*n+j] || j == p.start {
 				continue
 			}
+			p.y.tick()
 			for k := 0; k < n; k++ {
 				if k != i && k != j && before[k][i] && before[j][k] {
 					p.arc[i*n+j] = false

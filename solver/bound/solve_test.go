@@ -2,6 +2,7 @@ package bound
 
 import (
 	"context"
+	"fmt"
 	"math/rand"
 	"sync"
 	"testing"
@@ -96,4 +97,19 @@ func TestYieldHookIsCalled(t *testing.T) {
 	_, opt, _ := Enumerate(in, solver.TravelTime)
 	require.Equal(t, opt, b.Cost)
 	require.GreaterOrEqual(t, calls, 1)
+}
+
+func TestSearchWithoutShortestPaths(t *testing.T) {
+	// Above spLimit nodes there are no shortest paths and no precedences (the
+	// limit is lowered here to keep the test small): the exact search must
+	// still agree with enumeration.
+	old := spLimit
+	spLimit = 4
+	defer func() { spLimit = old }()
+	rng := rand.New(rand.NewSource(8))
+	for c := 0; c < 6; c++ {
+		in := randomInstance(rng, 9, []int64{20, 80, 5000}[c%3], shapes[c%3])
+		require.Nil(t, newProb(in).sp)
+		checkAgainstEnumeration(t, fmt.Sprintf("no shortest paths %d", c), in, solver.TravelTime)
+	}
 }
