@@ -49,6 +49,18 @@ func assignmentBound(ctx context.Context, p *prob, obj solver.Objective, y *yiel
 		}
 		return serv(i) + p.t(i, j), true
 	}
+	// The cost matrix with inf for a forbidden arc, so the inner loop is a
+	// plain scan.
+	cm := make([]int64, m*m)
+	for i := 0; i < m; i++ {
+		for j := 0; j < m; j++ {
+			if c, ok := cost(i, j); ok {
+				cm[i*m+j] = c
+			} else {
+				cm[i*m+j] = inf
+			}
+		}
+	}
 	// Hungarian method, rows are tails and columns heads (1-based inside).
 	u := make([]int64, m+1)
 	v := make([]int64, m+1)
@@ -73,12 +85,14 @@ func assignmentBound(ctx context.Context, p *prob, obj solver.Objective, y *yiel
 			used[j0] = true
 			i0 := match[j0]
 			delta, j1 := inf, -1
+			row := cm[(i0-1)*m : i0*m]
+			ui := u[i0]
 			for j := 1; j <= m; j++ {
 				if used[j] {
 					continue
 				}
-				if c, ok := cost(i0-1, j-1); ok {
-					if cur := c - u[i0] - v[j]; cur < minv[j] {
+				if c := row[j-1]; c < inf {
+					if cur := c - ui - v[j]; cur < minv[j] {
 						minv[j], way[j] = cur, j0
 					}
 				}
