@@ -67,6 +67,18 @@ func loadBench(t testing.TB, k known) *solver.Instance {
 	return in
 }
 
+// reportOptions reads VISITLINE_BOUND_RELAX (the share of the time for the
+// penalty ascent) for experiments; the default options otherwise.
+func reportOptions(t *testing.T) Options {
+	var o Options
+	if v := os.Getenv("VISITLINE_BOUND_RELAX"); v != "" {
+		f, err := strconv.ParseFloat(v, 64)
+		require.NoError(t, err)
+		o.RelaxShare = f
+	}
+	return o
+}
+
 // TestBoundReport runs the exact search on whole families with a time limit
 // per instance and prints the proven count and mean bound gap. It is a
 // measurement, not a test: it runs only with VISITLINE_BOUND_REPORT set, to
@@ -100,7 +112,7 @@ func TestBoundReport(t *testing.T) {
 		in := loadBench(t, k)
 		ctx, cancel := context.WithTimeout(context.Background(), budget)
 		start := time.Now()
-		b := Exact(ctx, in, Options{})
+		b := Exact(ctx, in, reportOptions(t))
 		cancel()
 		el := time.Since(start).Seconds()
 		lb := in.Float(b.Value)
