@@ -1,4 +1,4 @@
-# Visitline build. `make demo` solves the embedded example; `make test` runs every test.
+# Visitline build. `make demo` solves the bakery example; `make test` runs every test.
 GO ?= go
 BENCH_DIR ?= ../shared/benchmarks/tsptw
 BENCH_BUDGET ?= 5s
@@ -22,7 +22,7 @@ bound-report:
 	VISITLINE_BOUND_REPORT=Dumas,GendreauDumasExtended VISITLINE_BOUND_BUDGET=10s GOMAXPROCS=1 $(GO) test -count=1 -timeout 0 -run TestBoundReport -v ./solver/bound
 
 demo: build
-	./bin/visitline solve --budget 3s examples/warehouse/picks.txt
+	./bin/visitline solve --budget 3s --matrix examples/bakery/travel.csv examples/bakery/sites.csv
 
 vet:
 	$(GO) vet ./...

@@ -9,9 +9,23 @@ func sortStable(v []int, less func(a, b int) bool) {
 	sort.SliceStable(v, func(i, j int) bool { return less(v[i], v[j]) })
 }
 
-// lateScore is total lateness and cost of an instance route, as Evaluate
+// lateKey ranks lateness: total lateness, or with fewest the number of late
+// visits first and total lateness second.
+func lateKey(total int64, count int, fewest bool) int64 {
+	if !fewest {
+		return total
+	}
+	const cap = 1<<40 - 1
+	if total > cap {
+		total = cap
+	}
+	return int64(count)<<40 + total
+}
+
+// lateScore is the lateness key and cost of an instance route, as Evaluate
 // counts them (late starts carry on late), without building a schedule.
-func lateScore(in *Instance, r []int, obj Objective) (late, cost int64) {
+func lateScore(in *Instance, r []int, obj Objective, fewest bool) (late, cost int64) {
+	count := 0
 	t := in.Early[r[0]]
 	var travel int64
 	n := in.N
@@ -26,6 +40,7 @@ func lateScore(in *Instance, r []int, obj Objective) (late, cost int64) {
 		}
 		if t > in.Late[v] {
 			late += t - in.Late[v]
+			count++
 		}
 		t += in.Service[v]
 	}
@@ -35,8 +50,10 @@ func lateScore(in *Instance, r []int, obj Objective) (late, cost int64) {
 		t += a
 		if t > in.Late[r[0]] {
 			late += t - in.Late[r[0]]
+			count++
 		}
 	}
+	late = lateKey(late, count, fewest)
 	if obj == CompletionTime {
 		return late, t
 	}
@@ -59,7 +76,7 @@ func (m *model) lateRange() (lo, hi int) {
 func descendLateness(m *model, r []int, obj Objective, maxEvals int) (late, cost int64) {
 	in := m.in
 	lo, hi := m.lateRange()
-	late, cost = lateScore(in, r, obj)
+	late, cost = lateScore(in, r, obj, m.fewest)
 	cand := make([]int, len(r))
 	evals := 0
 	for improved := true; improved && evals < maxEvals; {
@@ -78,7 +95,7 @@ func descendLateness(m *model, r []int, obj Objective, maxEvals int) (late, cost
 				}
 				cand[j] = v
 				evals++
-				if l, c := lateScore(in, cand, obj); l < late || l == late && c < cost {
+				if l, c := lateScore(in, cand, obj, m.fewest); l < late || l == late && c < cost {
 					late, cost = l, c
 					copy(r, cand)
 					improved = true
@@ -87,7 +104,7 @@ func descendLateness(m *model, r []int, obj Objective, maxEvals int) (late, cost
 					copy(cand, r)
 					cand[i], cand[j] = cand[j], cand[i]
 					evals++
-					if l, c := lateScore(in, cand, obj); l < late || l == late && c < cost {
+					if l, c := lateScore(in, cand, obj, m.fewest); l < late || l == late && c < cost {
 						late, cost = l, c
 						copy(r, cand)
 						improved = true

@@ -52,7 +52,7 @@ func (s *search) qSize() int {
 	if k <= 2 {
 		return k
 	}
-	hi := k / 3
+	hi := k / qFrac
 	if hi > 30 {
 		hi = 30
 	}
@@ -172,12 +172,21 @@ func (s *search) bestInsert(x *route, v int32) (pos int, best, second float64) {
 	pos = -1
 	r := x.r
 	feasible := x.total().tw == 0
+	n := m.n
+	ok := m.arcOK
+	skipped := false
 	for p := 0; p < len(r)-1; p++ {
 		a, b := r[p], r[p+1]
 		if feasible && m.e[a] > m.l[v] {
 			// Starts only grow along a feasible route: from here on v
 			// would always start after its latest.
 			break
+		}
+		if !m.infeas && (!ok[int(a)*n+int(v)] || !ok[int(v)*n+int(b)]) {
+			// An arc no feasible plan can hold: try it only if nothing
+			// else is left.
+			skipped = true
+			continue
 		}
 		sg := join(x.fwd[p], u, m.arc(a, v))
 		sg = join(sg, x.bwd[p+1], m.arc(v, b))
@@ -187,6 +196,18 @@ func (s *search) bestInsert(x *route, v int32) (pos int, best, second float64) {
 			best, pos = d, p
 		} else if d < second {
 			second = d
+		}
+	}
+	if pos < 0 && skipped {
+		for p := 0; p < len(r)-1; p++ {
+			sg := join(join(x.fwd[p], u, m.arc(r[p], v)), x.bwd[p+1], m.arc(v, r[p+1]))
+			d := m.value(sg, s.lam) - cur
+			if d < best {
+				second = best
+				best, pos = d, p
+			} else if d < second {
+				second = d
+			}
 		}
 	}
 	return pos, best, second

@@ -22,19 +22,19 @@ type model struct {
 	// tightened ones prove the instance infeasible, to minimise lateness).
 	origE, origL []int64
 
-	start    int   // where the movable part begins (the last node of the prefix)
-	startAt  int64 // time service starts at start
-	end      int   // the sentinel
-	endSeg   seg   // summary of the sentinel: the pinned tail and the route's end
-	prefix   []int // instance nodes driven or pinned before the movable part (start first)
-	suffix   []int // instance nodes pinned after the movable part (before the end)
-	prefixC  int64 // travel of the prefix
-	movable  []int // nodes the search orders
-	isMov    []bool
-	before   [][]uint64 // before[u] has bit k when u must come before k
-	infeas   bool       // tightening proved that no plan meets every window
-	arcOK    []bool     // arc i→j can be in a feasible plan
-	nearPred [][]int32  // for each node, movable predecessors sorted by travel
+	start   int   // where the movable part begins (the last node of the prefix)
+	startAt int64 // time service starts at start
+	end     int   // the sentinel
+	endSeg  seg   // summary of the sentinel: the pinned tail and the route's end
+	prefix  []int // instance nodes driven or pinned before the movable part (start first)
+	suffix  []int // instance nodes pinned after the movable part (before the end)
+	prefixC int64 // travel of the prefix
+	movable []int // nodes the search orders
+	isMov   []bool
+	before  [][]uint64 // before[u] has bit k when u must come before k
+	infeas  bool       // tightening proved that no plan meets every window
+	fewest  bool       // rank late plans by late visits first
+	arcOK   []bool     // arc i→j can be in a feasible plan
 }
 
 func (m *model) T(i, j int) int64 { return m.t[i*m.n+j] }
@@ -181,10 +181,18 @@ func newModel(in *Instance, obj Objective) (*model, error) {
 	}
 	m.origE = append([]int64(nil), m.e...)
 	m.origL = append([]int64(nil), m.l...)
-	m.tighten()
+	if debugMode != "notight" {
+		m.tighten()
+	}
 	m.buildArcs()
-	m.buildPrecedence()
-	m.buildNear()
+	if debugMode == "" || debugMode == "normal" {
+		m.buildPrecedence()
+	} else {
+		m.before = make([][]uint64, n)
+		for u := range m.before {
+			m.before[u] = make([]uint64, (n+63)/64)
+		}
+	}
 	return m, nil
 }
 
@@ -296,29 +304,6 @@ func (m *model) buildPrecedence() {
 	}
 }
 
-// buildNear keeps, per node, the movable nodes that may directly precede it,
-// nearest first: the candidate lists of insertion and relatedness.
-func (m *model) buildNear() {
-	n := m.n
-	m.nearPred = make([][]int32, n)
-	for _, j := range m.movable {
-		var l []int32
-		for _, i := range m.movable {
-			if i != j && (m.infeas || m.arcOK[i*n+j]) {
-				l = append(l, int32(i))
-			}
-		}
-		sort.Slice(l, func(a, b int) bool {
-			ta, tb := m.t[int(l[a])*n+j], m.t[int(l[b])*n+j]
-			if ta != tb {
-				return ta < tb
-			}
-			return l[a] < l[b]
-		})
-		m.nearPred[j] = l
-	}
-}
-
 // external turns a model route (start ... sentinel) into an instance route.
 func (m *model) external(r []int32) []int {
 	out := make([]int, 0, m.in.N)
@@ -334,3 +319,5 @@ func (m *model) external(r []int32) []int {
 }
 
 var errNoNodes = errors.New("nothing to plan")
+
+var debugMode string

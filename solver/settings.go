@@ -108,6 +108,9 @@ type Settings struct {
 	FixedMix bool
 	// Objective to minimise once every window is met.
 	Objective Objective
+	// FewestLate ranks plans that cannot meet every window by the number of
+	// late visits first (then total lateness) instead of total lateness.
+	FewestLate bool
 	// Workers is how many searches run side by side, sharing the best plan
 	// (0 or 1: one, which is reproducible; more are not, since they race).
 	Workers int

@@ -21,6 +21,7 @@ func Solve(ctx context.Context, in *Instance, s Settings) (Result, error) {
 	if err != nil {
 		return Result{}, err
 	}
+	m.fewest = s.FewestLate
 	e := &engine{m: m, set: s, start: time.Now()}
 	if e.set.ProgressEvery <= 0 {
 		e.set.ProgressEvery = 50 * time.Millisecond
@@ -66,7 +67,7 @@ func Solve(ctx context.Context, in *Instance, s Settings) (Result, error) {
 	}
 	if !res.Best.Feasible && ctx.Err() == nil {
 		p := minimiseLateness(m, res.Best.Route, s.Objective)
-		if p.Schedule.TotalLateness < res.Best.Schedule.TotalLateness {
+		if e.better(p, res.Best) {
 			p.Iteration, p.Elapsed, p.Operator = e.iters, time.Since(e.start), "lateness"
 			res.Best = p
 			res.Improvements++
@@ -122,7 +123,7 @@ func (e *engine) offer(r *route, op string) bool {
 	}
 	if t.tw > 0 || !e.haveBest || !e.best.Feasible {
 		p := e.planOf(r.r, e.iters, op)
-		if e.haveBest && !better(p, e.best) {
+		if e.haveBest && !e.better(p, e.best) {
 			return false
 		}
 		e.take(r.r, t, p)
@@ -139,7 +140,7 @@ func (e *engine) offerExternal(route []int, op string) bool {
 	e.mu.Lock()
 	defer e.mu.Unlock()
 	p.Iteration, p.Elapsed = e.iters, time.Since(e.start)
-	if e.haveBest && !better(p, e.best) {
+	if e.haveBest && !e.better(p, e.best) {
 		return false
 	}
 	e.haveBest = true
@@ -157,12 +158,16 @@ func (e *engine) offerExternal(route []int, op string) bool {
 	return true
 }
 
-func better(a, b Plan) bool {
+func (e *engine) better(a, b Plan) bool {
 	if a.Feasible != b.Feasible {
 		return a.Feasible
 	}
-	if !a.Feasible && a.Schedule.TotalLateness != b.Schedule.TotalLateness {
-		return a.Schedule.TotalLateness < b.Schedule.TotalLateness
+	if !a.Feasible {
+		ka := lateKey(a.Schedule.TotalLateness, a.Schedule.LateVisits, e.m.fewest)
+		kb := lateKey(b.Schedule.TotalLateness, b.Schedule.LateVisits, e.m.fewest)
+		if ka != kb {
+			return ka < kb
+		}
 	}
 	return a.Cost < b.Cost
 }
@@ -228,18 +233,46 @@ func (e *engine) tick(ctx context.Context) (goOn bool, mixChanged []float64) {
 		default:
 		}
 	}
-	if now.Sub(e.lastTick) >= e.set.ProgressEvery {
-		e.lastTick = now
-		if e.set.OnProgress != nil {
-			e.set.OnProgress(Progress{Iteration: e.iters, Elapsed: now.Sub(e.start), BestCost: e.best.Cost, Feasible: e.best.Feasible, Weights: normalised(e.weights)})
-		}
-		if e.set.Pause != nil {
-			e.mu.Unlock()
-			e.set.Pause()
-			e.mu.Lock()
-		}
-	}
+	e.heartbeat(now)
 	return true, mixChanged
+}
+
+// heartbeat reports progress and gives the host a turn when due. Call with
+// e.mu held.
+func (e *engine) heartbeat(now time.Time) {
+	if now.Sub(e.lastTick) < e.set.ProgressEvery {
+		return
+	}
+	e.lastTick = now
+	if e.set.OnProgress != nil {
+		e.set.OnProgress(Progress{Iteration: e.iters, Elapsed: now.Sub(e.start), BestCost: e.best.Cost, Feasible: e.best.Feasible, Weights: normalised(e.weights)})
+	}
+	if e.set.Pause != nil {
+		e.mu.Unlock()
+		e.set.Pause()
+		e.mu.Lock()
+	}
+}
+
+// interrupted is checked inside long steps (a polish of a big route): it
+// keeps progress and pauses flowing and says when the run must end now.
+func (e *engine) interrupted(ctx context.Context) bool {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	if e.done {
+		return true
+	}
+	if ctx.Err() != nil {
+		e.finish("cancelled")
+		return true
+	}
+	now := time.Now()
+	if !e.deadline.IsZero() && !now.Before(e.deadline) {
+		e.finish("budget")
+		return true
+	}
+	e.heartbeat(now)
+	return false
 }
 
 func (e *engine) finish(why string) {

@@ -238,3 +238,37 @@ func TestParseMix(t *testing.T) {
 		assert.Error(t, err, bad)
 	}
 }
+
+func TestSolveFewestLateVisits(t *testing.T) {
+	rng := rand.New(rand.NewSource(13))
+	for trial := 0; trial < 6; trial++ {
+		in := randomInstance(rng, 8, 10, Closed)
+		in.Late[1], in.Early[1] = 5, 0
+		in.Late[2], in.Early[2] = 5, 0
+		// Oracle: fewest late visits, then least lateness, then travel.
+		var bestKey [3]int64
+		have := false
+		var rec func(k int, free []int)
+		free := []int{1, 2, 3, 4, 5, 6, 7}
+		rec = func(k int, free []int) {
+			if k == len(free) {
+				s := Evaluate(in, append([]int{0}, free...))
+				key := [3]int64{int64(s.LateVisits), s.TotalLateness, s.Travel}
+				if !have || key[0] < bestKey[0] || key[0] == bestKey[0] && (key[1] < bestKey[1] || key[1] == bestKey[1] && key[2] < bestKey[2]) {
+					bestKey, have = key, true
+				}
+				return
+			}
+			for i := k; i < len(free); i++ {
+				free[k], free[i] = free[i], free[k]
+				rec(k+1, free)
+				free[k], free[i] = free[i], free[k]
+			}
+		}
+		rec(0, free)
+		res, err := Solve(context.Background(), in, Settings{Iterations: 300, Seed: 1, FewestLate: true})
+		require.NoError(t, err)
+		checkPlan(t, in, TravelTime, res.Best)
+		assert.Equal(t, bestKey[0], int64(res.Best.Schedule.LateVisits), "trial %d late visits", trial)
+	}
+}

@@ -107,6 +107,22 @@ var ErrUndecided = errors.New("could not decide within the limits whether the wi
 // visits are removed); when only the pins make the day infeasible, Pins says
 // so.
 func Explain(ctx context.Context, in *solver.Instance) (Explanation, error) {
+	return ExplainWith(ctx, in, ExplainOptions{})
+}
+
+// ExplainOptions say how the Reason writes times and sites. Nil functions
+// write internal times in input units and sites by id.
+type ExplainOptions struct {
+	// FormatTime writes a point in time (a window bound, a departure).
+	FormatTime func(int64) string
+	// FormatDuration writes a length of time (a widening).
+	FormatDuration func(int64) string
+	// Name names a node in the sentence (for example its site name).
+	Name func(int) string
+}
+
+// ExplainWith is Explain with the Reason written the caller's way.
+func ExplainWith(ctx context.Context, in *solver.Instance, eo ExplainOptions) (Explanation, error) {
 	ex := Explanation{Widen: -1, Drop: -1}
 	if err := in.Validate(); err != nil {
 		return ex, err
@@ -189,7 +205,7 @@ func Explain(ctx context.Context, in *solver.Instance) (Explanation, error) {
 			break
 		}
 	}
-	ex.Reason = reason(in, frame, ex)
+	ex.Reason = reason(in, ex, eo)
 	return ex, nil
 }
 
@@ -396,23 +412,34 @@ func widening(ctx context.Context, in *solver.Instance, v int) (by int64, exact,
 	}
 }
 
-// reason writes the explanation as plain sentences with site ids.
-func reason(in *solver.Instance, frame []int, ex Explanation) string {
+// reason writes the explanation as plain sentences with site names.
+func reason(in *solver.Instance, ex Explanation, eo ExplainOptions) string {
+	plain := func(v int64) string { return strconv.FormatFloat(in.Float(v), 'f', -1, 64) }
+	ft, fd, name := eo.FormatTime, eo.FormatDuration, eo.Name
+	if ft == nil {
+		ft = plain
+	}
+	if fd == nil {
+		fd = plain
+	}
+	if name == nil {
+		name = in.ID
+	}
 	num := func(v int64) string {
 		if v >= solver.Horizon/2 {
 			return "open"
 		}
-		return strconv.FormatFloat(in.Float(v), 'f', -1, 64)
+		return ft(v)
 	}
 	win := func(v int) string {
-		return fmt.Sprintf("%s [%s, %s]", in.ID(v), num(in.Early[v]), num(in.Late[v]))
+		return fmt.Sprintf("%s [%s, %s]", name(v), num(in.Early[v]), num(in.Late[v]))
 	}
 	var parts []string
 	for _, v := range ex.Conflict {
 		parts = append(parts, win(v))
 	}
 	var b strings.Builder
-	from := "leaving the start " + in.ID(in.Start) + " at " + num(in.Early[in.Start])
+	from := "leaving the start " + name(in.Start) + " at " + num(in.Early[in.Start])
 	if len(in.Fixed) > 1 {
 		from = "after the visits already done"
 	}
@@ -440,10 +467,10 @@ func reason(in *solver.Instance, frame []int, ex Explanation) string {
 		if !ex.WidenExact {
 			q = " (perhaps less)"
 		}
-		fixes = append(fixes, fmt.Sprintf("moving the latest start of %s later by %s%s", in.ID(ex.Widen), num(ex.WidenBy), q))
+		fixes = append(fixes, fmt.Sprintf("moving the latest start of %s later by %s%s", name(ex.Widen), fd(ex.WidenBy), q))
 	}
 	if ex.Drop >= 0 {
-		fixes = append(fixes, "leaving out "+in.ID(ex.Drop))
+		fixes = append(fixes, "leaving out "+name(ex.Drop))
 	}
 	if len(fixes) > 0 {
 		fmt.Fprintf(&b, " The day becomes feasible by %s.", strings.Join(fixes, ", or by "))
