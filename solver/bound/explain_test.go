@@ -169,3 +169,24 @@ func checkConflictByEnumeration(t *testing.T, in *solver.Instance, ex Explanatio
 	}
 	require.NotEmpty(t, ex.Reason)
 }
+
+func TestExplainWithWritesTimesAndNamesTheCallersWay(t *testing.T) {
+	// The day of TestExplainTwoTightWindows, with times written as clock
+	// minutes and sites by name.
+	travel := func(i, j int) int64 {
+		if i+j == 3 && (i == 1 || i == 2) {
+			return 5
+		}
+		return 10
+	}
+	in := hand([]string{"S", "A", "B"}, solver.Closed, travel, []int64{480, 490, 490}, []int64{1000, 492, 492})
+	names := []string{"Depot", "Bakery", "Café"}
+	clock := func(v int64) string { return fmt.Sprintf("%02d:%02d", v/60, v%60) }
+	ex, err := ExplainWith(context.Background(), in, ExplainOptions{FormatTime: clock,
+		FormatDuration: func(v int64) string { return fmt.Sprint(v, " min") }, Name: func(i int) string { return names[i] }})
+	require.NoError(t, err)
+	assert.Equal(t, []string{"A", "B"}, ex.ConflictIDs)
+	assert.Contains(t, ex.Reason, "Bakery [08:10, 08:12]")
+	assert.Contains(t, ex.Reason, "leaving the start Depot at 08:00")
+	assert.Contains(t, ex.Reason, "later by 3 min")
+}
