@@ -3,7 +3,6 @@ package main
 import (
 	"context"
 	"encoding/csv"
-	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
@@ -35,20 +34,29 @@ type benchRow struct {
 	SecondsToBest float64 `json:"seconds_to_best"`
 	Seconds       float64 `json:"seconds"`
 	Iterations    int     `json:"iterations"`
+	// Budget is the time budget of this run in seconds (per family).
+	Budget float64 `json:"budget_seconds"`
+	// SecondsToBestKnown is when the run first reached the best-known value
+	// (-1: never, or no best-known value).
+	SecondsToBestKnown float64 `json:"seconds_to_best_known"`
 	// Trace is (seconds, cost) of every improvement, for the chart.
 	Trace [][2]float64 `json:"trace,omitempty"`
 }
 
 type familySummary struct {
-	Family        string  `json:"family"`
-	Runs          int     `json:"runs"`
-	Feasible      int     `json:"feasible"`
-	AtBest        int     `json:"at_best_known"`
-	MeanGapPct    float64 `json:"mean_gap_pct"`
-	MaxGapPct     float64 `json:"max_gap_pct"`
-	MedianToBest  float64 `json:"median_seconds_to_best"`
-	MeanIterRate  float64 `json:"iterations_per_second"`
-	WithBestKnown int     `json:"with_best_known"`
+	Family       string  `json:"family"`
+	Runs         int     `json:"runs"`
+	Feasible     int     `json:"feasible"`
+	AtBest       int     `json:"at_best_known"`
+	MeanGapPct   float64 `json:"mean_gap_pct"`
+	MaxGapPct    float64 `json:"max_gap_pct"`
+	MedianToBest float64 `json:"median_seconds_to_best"`
+	// MedianToBestKnown is the median over the runs at best-known of the
+	// time they first reached it.
+	MedianToBestKnown float64 `json:"median_seconds_to_best_known"`
+	Budget            string  `json:"budget"`
+	MeanIterRate      float64 `json:"iterations_per_second"`
+	WithBestKnown     int     `json:"with_best_known"`
 }
 
 type bestKnown struct{ value float64 }
@@ -63,14 +71,25 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 	jsonOut := fs.String("json", "", "write every run as JSON to this file")
 	readme := fs.String("readme", "", "rewrite the results table of this README between its bench markers")
 	quiet := fs.Bool("quiet", false, "print only the family summary")
+	workers := fs.Int("workers", 1, "searches side by side per run (1: one thread, reproducible at an iteration budget)")
+	chart := fs.String("chart", "", "draw the share of instances at best-known against time as SVG into this file")
+	from := fs.String("from", "", "re-render the summary, README table and chart from the JSON of an earlier run instead of solving")
+	famBudget := budgetFor{}
+	fs.Var(famBudget, "budget-for", "time budget for one family, FAMILY=DURATION (repeatable), e.g. OhlmannThomas=30s")
 	if err := fs.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
 			return nil
 		}
 		return usageError{err.Error()}
 	}
+	if *from != "" {
+		return benchFromJSON(*from, *readme, *chart, stdout)
+	}
 	if fs.NArg() == 0 {
 		return usageError{"want instance files or folders (see visitline bench -h)"}
+	}
+	if *workers < 1 {
+		return usageError{fmt.Sprintf("--workers %d: want 1 or more", *workers)}
 	}
 	if *budget <= 0 && *iterations <= 0 {
 		return usageError{"set a --budget above 0 or an --iterations count"}
@@ -100,10 +119,11 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 		}
 		fam := filepath.Base(filepath.Dir(file))
 		name := filepath.Base(file)
+		runBudget := famBudget.of(fam, *budget)
 		for seed := 1; seed <= *seeds; seed++ {
-			row := benchRow{Family: fam, Instance: name, Nodes: in.N, Seed: int64(seed)}
+			row := benchRow{Family: fam, Instance: name, Nodes: in.N, Seed: int64(seed), Budget: runBudget.Seconds(), SecondsToBestKnown: -1}
 			var trace [][2]float64
-			s := solver.Settings{Budget: *budget, Iterations: *iterations, Seed: int64(seed),
+			s := solver.Settings{Budget: runBudget, Iterations: *iterations, Seed: int64(seed), Workers: *workers,
 				OnImprove: func(p solver.Plan) {
 					if p.Feasible {
 						trace = append(trace, [2]float64{p.Elapsed.Seconds(), in.Float(p.Cost)})
@@ -128,7 +148,10 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 					row.GapPct = 100 * (row.Found - bk.value) / bk.value
 					// Published values of the real-valued families are rounded
 					// to two decimals (shared/benchmarks/tsptw/README.md).
-					row.AtBest = row.Found <= bk.value+0.01+1e-9 || row.GapPct <= 0.05 && in.Scale > 1
+					row.AtBest = atBestKnown(row.Found, bk.value, in.Scale)
+				}
+				if row.AtBest {
+					row.SecondsToBestKnown = timeToValue(trace, bk.value, in.Scale)
 				}
 			}
 			rows = append(rows, row)
@@ -147,25 +170,22 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 				fmt.Fprintf(stdout, "%-22s %-18s %5d %4d %10s %10s %8s %8.2f %s\n", fam, name, in.N, seed, bk, strconv.FormatFloat(row.Found, 'f', 2, 64), gap, row.SecondsToBest, state)
 			}
 		}
+		// Written after every instance, so that a long run that is stopped
+		// keeps what it measured.
+		if *jsonOut != "" {
+			rep := benchReport{Budget: budget.String(), PerFamily: famBudget.String(), Iterations: *iterations, Workers: *workers,
+				Machine: machine(), Command: benchCommand(args), Families: summarise(rows), Runs: rows}
+			if err := rep.write(*jsonOut); err != nil {
+				return err
+			}
+		}
 	}
-	sums := summarise(rows)
-	table := summaryTable(sums, *budget, *iterations)
+	rep := benchReport{Budget: budget.String(), PerFamily: famBudget.String(), Iterations: *iterations, Workers: *workers,
+		Machine: machine(), Command: benchCommand(args), Families: summarise(rows), Runs: rows}
+	table := rep.table()
 	fmt.Fprint(stdout, "\n"+table)
-	if *jsonOut != "" {
-		data, _ := json.MarshalIndent(struct {
-			Budget   string          `json:"budget"`
-			Machine  string          `json:"machine"`
-			Families []familySummary `json:"families"`
-			Runs     []benchRow      `json:"runs"`
-		}{budget.String(), machine(), sums, rows}, "", " ")
-		if err := os.WriteFile(*jsonOut, data, 0o644); err != nil {
-			return err
-		}
-	}
-	if *readme != "" {
-		if err := replaceBetween(*readme, "<!-- bench:start -->", "<!-- bench:end -->", table); err != nil {
-			return err
-		}
+	if err := rep.publish(*readme, *chart); err != nil {
+		return err
 	}
 	for _, r := range rows {
 		if !r.Checked {
@@ -187,8 +207,8 @@ func summarise(rows []benchRow) []familySummary {
 	var out []familySummary
 	for _, fam := range order {
 		rs := by[fam]
-		s := familySummary{Family: fam, Runs: len(rs)}
-		var times []float64
+		s := familySummary{Family: fam, Runs: len(rs), Budget: (time.Duration(rs[0].Budget * float64(time.Second))).String()}
+		var times, toKnown []float64
 		var rate float64
 		gapN := 0
 		for _, r := range rs {
@@ -208,6 +228,9 @@ func summarise(rows []benchRow) []familySummary {
 				gapN++
 			}
 			times = append(times, r.SecondsToBest)
+			if r.AtBest && r.SecondsToBestKnown >= 0 {
+				toKnown = append(toKnown, r.SecondsToBestKnown)
+			}
 			if r.Seconds > 0 {
 				rate += float64(r.Iterations) / r.Seconds
 			}
@@ -219,26 +242,11 @@ func summarise(rows []benchRow) []familySummary {
 		if len(times) > 0 {
 			s.MedianToBest = times[len(times)/2]
 		}
+		s.MedianToBestKnown = median(toKnown)
 		s.MeanIterRate = rate / float64(len(rs))
 		out = append(out, s)
 	}
 	return out
-}
-
-func summaryTable(sums []familySummary, budget time.Duration, iters int) string {
-	var b strings.Builder
-	lim := budget.String()
-	if iters > 0 {
-		lim += fmt.Sprintf(", %d iterations", iters)
-	}
-	fmt.Fprintf(&b, "Budget %s per run, one thread; %s.\n\n", lim, machine())
-	b.WriteString("| family | runs | feasible | at best-known | mean gap % | max gap % | median s to best | iterations/s |\n")
-	b.WriteString("|---|---|---|---|---|---|---|---|\n")
-	for _, s := range sums {
-		fmt.Fprintf(&b, "| %s | %d | %d | %d (%.0f%%) | %.3f | %.3f | %.2f | %.0f |\n", s.Family, s.Runs, s.Feasible, s.AtBest,
-			100*float64(s.AtBest)/math.Max(1, float64(s.WithBestKnown)), s.MeanGapPct, s.MaxGapPct, s.MedianToBest, s.MeanIterRate)
-	}
-	return b.String()
 }
 
 func machine() string {

@@ -1,0 +1,173 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"sort"
+	"strings"
+	"time"
+)
+
+// budgetFor holds --budget-for FAMILY=DURATION entries.
+type budgetFor map[string]time.Duration
+
+func (b budgetFor) String() string {
+	keys := make([]string, 0, len(b))
+	for k := range b {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	parts := make([]string, len(keys))
+	for i, k := range keys {
+		parts[i] = k + "=" + b[k].String()
+	}
+	return strings.Join(parts, ",")
+}
+
+func (b budgetFor) Set(v string) error {
+	for _, part := range strings.Split(v, ",") {
+		fam, d, ok := strings.Cut(strings.TrimSpace(part), "=")
+		if !ok || strings.TrimSpace(fam) == "" {
+			return fmt.Errorf("%q: want FAMILY=DURATION, e.g. OhlmannThomas=30s", part)
+		}
+		dur, err := time.ParseDuration(strings.TrimSpace(d))
+		if err != nil || dur <= 0 {
+			return fmt.Errorf("%q: duration %q is not a positive time such as 10s or 1m", part, d)
+		}
+		b[strings.TrimSpace(fam)] = dur
+	}
+	return nil
+}
+
+// of is the budget of family fam, def when it has none of its own.
+func (b budgetFor) of(fam string, def time.Duration) time.Duration {
+	if d, ok := b[fam]; ok {
+		return d
+	}
+	return def
+}
+
+// atBestKnown says whether a found value counts as the best-known one.
+// Published values of the real-valued families are rounded to two decimals
+// (shared/benchmarks/tsptw/README.md): a tolerance of 0.01, or 0.05 %
+// relative where the input has decimals.
+func atBestKnown(found, known float64, scale int64) bool {
+	if found <= known+0.01+1e-9 {
+		return true
+	}
+	return scale > 1 && known > 0 && 100*(found-known)/known <= 0.05
+}
+
+// timeToValue is the first time in trace (seconds, cost) at which the cost
+// counts as the best-known value, or -1.
+func timeToValue(trace [][2]float64, known float64, scale int64) float64 {
+	for _, p := range trace {
+		if atBestKnown(p[1], known, scale) {
+			return p[0]
+		}
+	}
+	return -1
+}
+
+// median of xs, -1 when empty (JSON has no NaN).
+func median(xs []float64) float64 {
+	if len(xs) == 0 {
+		return -1
+	}
+	s := append([]float64(nil), xs...)
+	sort.Float64s(s)
+	m := len(s) / 2
+	if len(s)%2 == 1 {
+		return s[m]
+	}
+	return (s[m-1] + s[m]) / 2
+}
+
+func benchCommand(args []string) string {
+	return "visitline bench " + strings.Join(args, " ")
+}
+
+// benchReport is what bench writes as JSON and renders into the README.
+type benchReport struct {
+	Budget     string          `json:"budget"`
+	PerFamily  string          `json:"budget_per_family,omitempty"`
+	Iterations int             `json:"iterations,omitempty"`
+	Workers    int             `json:"workers"`
+	Machine    string          `json:"machine"`
+	Command    string          `json:"command"`
+	Families   []familySummary `json:"families"`
+	Runs       []benchRow      `json:"runs"`
+}
+
+func (r *benchReport) write(path string) error {
+	data, err := json.MarshalIndent(r, "", " ")
+	if err != nil {
+		return err
+	}
+	tmp := path + ".tmp"
+	if err := os.WriteFile(tmp, append(data, '\n'), 0o644); err != nil {
+		return err
+	}
+	return os.Rename(tmp, path)
+}
+
+func (r *benchReport) table() string {
+	var b strings.Builder
+	threads := "one thread"
+	if r.Workers > 1 {
+		threads = fmt.Sprintf("%d workers", r.Workers)
+	}
+	lim := ""
+	if r.Iterations > 0 {
+		lim = fmt.Sprintf(", at most %d iterations", r.Iterations)
+	}
+	fmt.Fprintf(&b, "`%s`: %s per run%s; %s.\n\n", r.Command, threads, lim, r.Machine)
+	b.WriteString("| family | budget | runs | feasible | at best-known | mean gap % | max gap % | median s to best-known | iterations/s |\n")
+	b.WriteString("|---|---|---|---|---|---|---|---|---|\n")
+	for _, s := range r.Families {
+		med := "-"
+		if s.MedianToBestKnown >= 0 {
+			med = fmt.Sprintf("%.2f", s.MedianToBestKnown)
+		}
+		fmt.Fprintf(&b, "| %s | %s | %d | %d | %d of %d (%.0f%%) | %.3f | %.3f | %s | %.0f |\n", s.Family, s.Budget, s.Runs, s.Feasible, s.AtBest, s.WithBestKnown,
+			100*float64(s.AtBest)/math.Max(1, float64(s.WithBestKnown)), s.MeanGapPct, s.MaxGapPct, med, s.MeanIterRate)
+	}
+	return b.String()
+}
+
+// publish rewrites the README table and draws the chart, where asked.
+func (r *benchReport) publish(readme, chart string) error {
+	if chart != "" {
+		if err := os.WriteFile(chart, []byte(drawChart(r.Runs)), 0o644); err != nil {
+			return err
+		}
+	}
+	if readme != "" {
+		if err := replaceBetween(readme, "<!-- bench:start -->", "<!-- bench:end -->", r.table()); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+func benchFromJSON(path, readme, chart string, stdout io.Writer) error {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return fmt.Errorf("%s: cannot open: %w", path, unwrapPath(err))
+	}
+	var r benchReport
+	if err := json.Unmarshal(data, &r); err != nil {
+		return fmt.Errorf("%s: not a bench result file: %w", path, err)
+	}
+	if len(r.Runs) == 0 {
+		return fmt.Errorf("%s: holds no runs", path)
+	}
+	// Summaries are worked out again from the runs, so that a file written
+	// by a run that was stopped halfway renders like a finished one.
+	r.Families = summarise(r.Runs)
+	fmt.Fprint(stdout, r.table())
+	return r.publish(readme, chart)
+}
