@@ -39,6 +39,9 @@ type benchRow struct {
 	// SecondsToBestKnown is when the run first reached the best-known value
 	// (-1: never, or no best-known value).
 	SecondsToBestKnown float64 `json:"seconds_to_best_known"`
+	// CPUSeconds is the CPU time the process used during the run (-1:
+	// unknown); below Seconds when the machine was shared.
+	CPUSeconds float64 `json:"cpu_seconds"`
 	// Trace is (seconds, cost) of every improvement, for the chart.
 	Trace [][2]float64 `json:"trace,omitempty"`
 }
@@ -57,6 +60,9 @@ type familySummary struct {
 	Budget            string  `json:"budget"`
 	MeanIterRate      float64 `json:"iterations_per_second"`
 	WithBestKnown     int     `json:"with_best_known"`
+	// CPUShare is the CPU time over the wall-clock time of the runs: 1 when
+	// the run had a whole core to itself (one worker).
+	CPUShare float64 `json:"cpu_share"`
 }
 
 type bestKnown struct{ value float64 }
@@ -129,9 +135,14 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 						trace = append(trace, [2]float64{p.Elapsed.Seconds(), in.Float(p.Cost)})
 					}
 				}}
+			cpu0 := processCPU()
 			res, err := solver.Solve(context.Background(), in, s)
 			if err != nil {
 				return fmt.Errorf("%s: %w", file, err)
+			}
+			row.CPUSeconds = -1
+			if cpu0 >= 0 {
+				row.CPUSeconds = processCPU() - cpu0
 			}
 			// The independent evaluator decides, not the engine's own numbers.
 			chk := solver.Evaluate(in, res.Best.Route)
@@ -209,6 +220,7 @@ func summarise(rows []benchRow) []familySummary {
 		rs := by[fam]
 		s := familySummary{Family: fam, Runs: len(rs), Budget: (time.Duration(rs[0].Budget * float64(time.Second))).String()}
 		var times, toKnown []float64
+		var cpu, wall float64
 		var rate float64
 		gapN := 0
 		for _, r := range rs {
@@ -228,6 +240,10 @@ func summarise(rows []benchRow) []familySummary {
 				gapN++
 			}
 			times = append(times, r.SecondsToBest)
+			if r.CPUSeconds >= 0 {
+				cpu += r.CPUSeconds
+				wall += r.Seconds
+			}
 			if r.AtBest && r.SecondsToBestKnown >= 0 {
 				toKnown = append(toKnown, r.SecondsToBestKnown)
 			}
@@ -243,6 +259,9 @@ func summarise(rows []benchRow) []familySummary {
 			s.MedianToBest = times[len(times)/2]
 		}
 		s.MedianToBestKnown = median(toKnown)
+		if wall > 0 {
+			s.CPUShare = cpu / wall
+		}
 		s.MeanIterRate = rate / float64(len(rs))
 		out = append(out, s)
 	}

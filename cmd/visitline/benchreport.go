@@ -125,16 +125,21 @@ func (r *benchReport) table() string {
 		lim = fmt.Sprintf(", at most %d iterations", r.Iterations)
 	}
 	fmt.Fprintf(&b, "`%s`: %s per run%s; %s.\n\n", r.Command, threads, lim, r.Machine)
-	b.WriteString("| family | budget | runs | feasible | at best-known | mean gap % | max gap % | median s to best-known | iterations/s |\n")
-	b.WriteString("|---|---|---|---|---|---|---|---|---|\n")
+	b.WriteString("| family | budget | runs | feasible | at best-known | mean gap % | max gap % | median s to best-known | iterations/s | CPU share |\n")
+	b.WriteString("|---|---|---|---|---|---|---|---|---|---|\n")
 	for _, s := range r.Families {
 		med := "-"
 		if s.MedianToBestKnown >= 0 {
 			med = fmt.Sprintf("%.2f", s.MedianToBestKnown)
 		}
-		fmt.Fprintf(&b, "| %s | %s | %d | %d | %d of %d (%.0f%%) | %.3f | %.3f | %s | %.0f |\n", s.Family, s.Budget, s.Runs, s.Feasible, s.AtBest, s.WithBestKnown,
-			100*float64(s.AtBest)/math.Max(1, float64(s.WithBestKnown)), s.MeanGapPct, s.MaxGapPct, med, s.MeanIterRate)
+		share := "-"
+		if s.CPUShare > 0 {
+			share = fmt.Sprintf("%.0f%%", 100*s.CPUShare)
+		}
+		fmt.Fprintf(&b, "| %s | %s | %d | %d | %d of %d (%.0f%%) | %.3f | %.3f | %s | %.0f | %s |\n", s.Family, s.Budget, s.Runs, s.Feasible, s.AtBest, s.WithBestKnown,
+			100*float64(s.AtBest)/math.Max(1, float64(s.WithBestKnown)), s.MeanGapPct, s.MaxGapPct, med, s.MeanIterRate, share)
 	}
+	b.WriteString("\nCPU share: the CPU time the runs had over their wall-clock time (the budgets are wall-clock; below 100% the machine was shared and the runs had less of a core than their budget says).\n")
 	return b.String()
 }
 
