@@ -42,6 +42,11 @@ type benchRow struct {
 	// CPUSeconds is the CPU time the process used during the run (-1:
 	// unknown); below Seconds when the machine was shared.
 	CPUSeconds float64 `json:"cpu_seconds"`
+	// CPUToBestKnown is the process CPU time until the best-known value
+	// was first reached (-1: never, or unknown).
+	CPUToBestKnown float64 `json:"cpu_to_best_known"`
+	// Workers is the number of searches side by side.
+	Workers int `json:"workers"`
 	// Trace is (seconds, cost) of every improvement, for the chart.
 	Trace [][2]float64 `json:"trace,omitempty"`
 }
@@ -57,9 +62,11 @@ type familySummary struct {
 	// MedianToBestKnown is the median over the runs at best-known of the
 	// time they first reached it.
 	MedianToBestKnown float64 `json:"median_seconds_to_best_known"`
-	Budget            string  `json:"budget"`
-	MeanIterRate      float64 `json:"iterations_per_second"`
-	WithBestKnown     int     `json:"with_best_known"`
+	// MedianCPUToBestKnown is the same in CPU seconds of the process.
+	MedianCPUToBestKnown float64 `json:"median_cpu_to_best_known"`
+	Budget               string  `json:"budget"`
+	MeanIterRate         float64 `json:"iterations_per_second"`
+	WithBestKnown        int     `json:"with_best_known"`
 	// CPUShare is the CPU time over the wall-clock time of the runs: 1 when
 	// the run had a whole core to itself (one worker).
 	CPUShare float64 `json:"cpu_share"`
@@ -80,6 +87,9 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 	workers := fs.Int("workers", 1, "searches side by side per run (1: one thread, reproducible at an iteration budget)")
 	chart := fs.String("chart", "", "draw the share of instances at best-known against time as SVG into this file")
 	from := fs.String("from", "", "re-render the summary, README table and chart from the JSON of an earlier run instead of solving")
+	cpuBudget := fs.Bool("cpu-budget", false, "count the budgets in CPU time of this process instead of wall-clock time (fairer on a shared machine; needs a system that reports CPU time)")
+	stopAtBest := fs.Bool("stop-at-best", false, "end a run as soon as it reaches the best-known value (for time-to-target measurements)")
+	baseline := fs.String("baseline", "", "with --from: compare the time to best-known per instance against this earlier JSON (e.g. one worker)")
 	famBudget := budgetFor{}
 	fs.Var(famBudget, "budget-for", "time budget for one family, FAMILY=DURATION (repeatable), e.g. OhlmannThomas=30s")
 	if err := fs.Parse(args); err != nil {
@@ -89,6 +99,9 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 		return usageError{err.Error()}
 	}
 	if *from != "" {
+		if *baseline != "" {
+			return speedupFromJSON(*baseline, *from, *readme, stdout)
+		}
 		return benchFromJSON(*from, *readme, *chart, stdout)
 	}
 	if fs.NArg() == 0 {
@@ -127,16 +140,38 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 		name := filepath.Base(file)
 		runBudget := famBudget.of(fam, *budget)
 		for seed := 1; seed <= *seeds; seed++ {
-			row := benchRow{Family: fam, Instance: name, Nodes: in.N, Seed: int64(seed), Budget: runBudget.Seconds(), SecondsToBestKnown: -1}
+			row := benchRow{Family: fam, Instance: name, Nodes: in.N, Seed: int64(seed), Budget: runBudget.Seconds(), SecondsToBestKnown: -1, Workers: *workers}
 			var trace [][2]float64
-			s := solver.Settings{Budget: runBudget, Iterations: *iterations, Seed: int64(seed), Workers: *workers,
-				OnImprove: func(p solver.Plan) {
-					if p.Feasible {
-						trace = append(trace, [2]float64{p.Elapsed.Seconds(), in.Float(p.Cost)})
-					}
-				}}
+			s := solver.Settings{Budget: runBudget, Iterations: *iterations, Seed: int64(seed), Workers: *workers}
+			bk, hasBK := known[fam+"/"+name]
+			ctx, cancel := context.WithCancel(context.Background())
 			cpu0 := processCPU()
-			res, err := solver.Solve(context.Background(), in, s)
+			row.CPUToBestKnown = -1
+			s.OnImprove = func(p solver.Plan) {
+				if !p.Feasible {
+					return
+				}
+				trace = append(trace, [2]float64{p.Elapsed.Seconds(), in.Float(p.Cost)})
+				if hasBK && row.CPUToBestKnown < 0 && atBestKnown(in.Float(p.Cost), bk.value, in.Scale) {
+					if cpu0 >= 0 {
+						row.CPUToBestKnown = processCPU() - cpu0
+					}
+					if *stopAtBest {
+						cancel()
+					}
+				}
+			}
+			if *cpuBudget && runBudget > 0 {
+				if cpu0 < 0 {
+					cancel()
+					return errors.New("--cpu-budget: this system does not report CPU time")
+				}
+				// The wall-clock budget stays as a backstop.
+				s.Budget = 20 * runBudget
+				go stopAtCPU(ctx, cancel, cpu0+runBudget.Seconds())
+			}
+			res, err := solver.Solve(ctx, in, s)
+			cancel()
 			if err != nil {
 				return fmt.Errorf("%s: %w", file, err)
 			}
@@ -153,7 +188,7 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 			row.Seconds = res.Elapsed.Seconds()
 			row.Iterations = res.Iterations
 			row.Trace = trace
-			if bk, ok := known[fam+"/"+name]; ok {
+			if hasBK {
 				row.HasBest, row.BestKnown = true, bk.value
 				if row.Feasible {
 					row.GapPct = 100 * (row.Found - bk.value) / bk.value
@@ -184,14 +219,14 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 		// Written after every instance, so that a long run that is stopped
 		// keeps what it measured.
 		if *jsonOut != "" {
-			rep := benchReport{Budget: budget.String(), PerFamily: famBudget.String(), Iterations: *iterations, Workers: *workers,
+			rep := benchReport{CPUBudget: *cpuBudget, Budget: budget.String(), PerFamily: famBudget.String(), Iterations: *iterations, Workers: *workers,
 				Machine: machine(), Command: benchCommand(args), Families: summarise(rows), Runs: rows}
 			if err := rep.write(*jsonOut); err != nil {
 				return err
 			}
 		}
 	}
-	rep := benchReport{Budget: budget.String(), PerFamily: famBudget.String(), Iterations: *iterations, Workers: *workers,
+	rep := benchReport{CPUBudget: *cpuBudget, Budget: budget.String(), PerFamily: famBudget.String(), Iterations: *iterations, Workers: *workers,
 		Machine: machine(), Command: benchCommand(args), Families: summarise(rows), Runs: rows}
 	table := rep.table()
 	fmt.Fprint(stdout, "\n"+table)
@@ -219,7 +254,7 @@ func summarise(rows []benchRow) []familySummary {
 	for _, fam := range order {
 		rs := by[fam]
 		s := familySummary{Family: fam, Runs: len(rs), Budget: (time.Duration(rs[0].Budget * float64(time.Second))).String()}
-		var times, toKnown []float64
+		var times, toKnown, cpuToKnown []float64
 		var cpu, wall float64
 		var rate float64
 		gapN := 0
@@ -246,6 +281,9 @@ func summarise(rows []benchRow) []familySummary {
 			}
 			if r.AtBest && r.SecondsToBestKnown >= 0 {
 				toKnown = append(toKnown, r.SecondsToBestKnown)
+				if r.CPUToBestKnown >= 0 {
+					cpuToKnown = append(cpuToKnown, r.CPUToBestKnown)
+				}
 			}
 			if r.Seconds > 0 {
 				rate += float64(r.Iterations) / r.Seconds
@@ -259,6 +297,7 @@ func summarise(rows []benchRow) []familySummary {
 			s.MedianToBest = times[len(times)/2]
 		}
 		s.MedianToBestKnown = median(toKnown)
+		s.MedianCPUToBestKnown = median(cpuToKnown)
 		if wall > 0 {
 			s.CPUShare = cpu / wall
 		}
@@ -282,6 +321,9 @@ func machine() string {
 	}
 	if cpu != "" {
 		host += ", " + cpu
+	}
+	if runtime.GOOS == "js" {
+		return fmt.Sprintf("%s (one thread), %s", host, runtime.Version())
 	}
 	return fmt.Sprintf("%s, %d cores, %s", host, runtime.NumCPU(), runtime.Version())
 }

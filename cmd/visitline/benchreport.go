@@ -92,6 +92,8 @@ func benchCommand(args []string) string {
 
 // benchReport is what bench writes as JSON and renders into the README.
 type benchReport struct {
+	// CPUBudget: the budgets were CPU time, not wall-clock time.
+	CPUBudget  bool            `json:"cpu_budget,omitempty"`
 	Budget     string          `json:"budget"`
 	PerFamily  string          `json:"budget_per_family,omitempty"`
 	Iterations int             `json:"iterations,omitempty"`
@@ -124,22 +126,34 @@ func (r *benchReport) table() string {
 	if r.Iterations > 0 {
 		lim = fmt.Sprintf(", at most %d iterations", r.Iterations)
 	}
-	fmt.Fprintf(&b, "`%s`: %s per run%s; %s.\n\n", r.Command, threads, lim, r.Machine)
-	b.WriteString("| family | budget | runs | feasible | at best-known | mean gap % | max gap % | median s to best-known | iterations/s | CPU share |\n")
-	b.WriteString("|---|---|---|---|---|---|---|---|---|---|\n")
+	clock := "wall-clock budgets"
+	if r.CPUBudget {
+		clock = "budgets in CPU time"
+	}
+	fmt.Fprintf(&b, "`%s`: %s per run%s, %s; %s.\n\n", r.Command, threads, lim, clock, r.Machine)
+	b.WriteString("| family | budget | runs | feasible | at best-known | mean gap % | max gap % | median s to best-known | median CPU s to best-known | iterations/s | CPU share |\n")
+	b.WriteString("|---|---|---|---|---|---|---|---|---|---|---|\n")
 	for _, s := range r.Families {
 		med := "-"
 		if s.MedianToBestKnown >= 0 {
 			med = fmt.Sprintf("%.2f", s.MedianToBestKnown)
 		}
+		cmed := "-"
+		if s.MedianCPUToBestKnown >= 0 {
+			cmed = fmt.Sprintf("%.2f", s.MedianCPUToBestKnown)
+		}
 		share := "-"
 		if s.CPUShare > 0 {
 			share = fmt.Sprintf("%.0f%%", 100*s.CPUShare)
 		}
-		fmt.Fprintf(&b, "| %s | %s | %d | %d | %d of %d (%.0f%%) | %.3f | %.3f | %s | %.0f | %s |\n", s.Family, s.Budget, s.Runs, s.Feasible, s.AtBest, s.WithBestKnown,
-			100*float64(s.AtBest)/math.Max(1, float64(s.WithBestKnown)), s.MeanGapPct, s.MaxGapPct, med, s.MeanIterRate, share)
+		fmt.Fprintf(&b, "| %s | %s | %d | %d | %d of %d (%.0f%%) | %.3f | %.3f | %s | %s | %.0f | %s |\n", s.Family, s.Budget, s.Runs, s.Feasible, s.AtBest, s.WithBestKnown,
+			100*float64(s.AtBest)/math.Max(1, float64(s.WithBestKnown)), s.MeanGapPct, s.MaxGapPct, med, cmed, s.MeanIterRate, share)
 	}
-	b.WriteString("\nCPU share: the CPU time the runs had over their wall-clock time (the budgets are wall-clock; below 100% the machine was shared and the runs had less of a core than their budget says).\n")
+	if r.CPUBudget {
+		b.WriteString("\nCPU share: the CPU time the runs had over their wall-clock time; each run stopped at its budget of CPU time, so a low share made it take longer, not search less. Iterations/s are per wall-clock second.\n")
+	} else {
+		b.WriteString("\nCPU share: the CPU time the runs had over their wall-clock time (the budgets are wall-clock: below 100% the machine was shared and the runs searched for less CPU time than their budget says). Iterations/s are per wall-clock second.\n")
+	}
 	return b.String()
 }
 
@@ -175,4 +189,95 @@ func benchFromJSON(path, readme, chart string, stdout io.Writer) error {
 	r.Families = summarise(r.Runs)
 	fmt.Fprint(stdout, r.table())
 	return r.publish(readme, chart)
+}
+
+// speedupFromJSON compares the time to the best-known value, instance by
+// instance (median over the seeds), of two bench runs: base (one worker)
+// and with (several). A run that never reached the best-known value counts
+// as its whole budget, and its row says so.
+func speedupFromJSON(basePath, withPath, readme string, stdout io.Writer) error {
+	load := func(path string) (*benchReport, error) {
+		data, err := os.ReadFile(path)
+		if err != nil {
+			return nil, fmt.Errorf("%s: cannot open: %w", path, unwrapPath(err))
+		}
+		var r benchReport
+		if err := json.Unmarshal(data, &r); err != nil {
+			return nil, fmt.Errorf("%s: not a bench result file: %w", path, err)
+		}
+		return &r, nil
+	}
+	base, err := load(basePath)
+	if err != nil {
+		return err
+	}
+	with, err := load(withPath)
+	if err != nil {
+		return err
+	}
+	type agg struct {
+		wall, cpu []float64
+		missed    int
+		workers   int
+	}
+	group := func(r *benchReport) (map[string]*agg, []string) {
+		m := map[string]*agg{}
+		var order []string
+		for _, row := range r.Runs {
+			if !row.HasBest {
+				continue
+			}
+			k := row.Family + "/" + row.Instance
+			a, ok := m[k]
+			if !ok {
+				a = &agg{workers: max(1, row.Workers)}
+				m[k] = a
+				order = append(order, k)
+			}
+			w, c := row.SecondsToBestKnown, row.CPUToBestKnown
+			if w < 0 {
+				a.missed++
+				w, c = row.Seconds, row.CPUSeconds
+			}
+			a.wall = append(a.wall, w)
+			a.cpu = append(a.cpu, c)
+		}
+		return m, order
+	}
+	bm, order := group(base)
+	wm, _ := group(with)
+	var b strings.Builder
+	fmt.Fprintf(&b, "Baseline `%s`; compared `%s`; %s.\n\n", base.Command, with.Command, with.Machine)
+	b.WriteString("| instance | seeds | workers | median s to best-known, base | with | speed-up (wall) | CPU-based speed-up | missed (base / with) |\n")
+	b.WriteString("|---|---|---|---|---|---|---|---|\n")
+	var walls, cpus []float64
+	for _, k := range order {
+		a, c := bm[k], wm[k]
+		if c == nil {
+			continue
+		}
+		mb, mw := median(a.wall), median(c.wall)
+		sw := mb / mw
+		// Had each worker a core of its own, the wall-clock time with k
+		// workers would be their CPU time over k: this estimate does not
+		// depend on how busy the shared machine was.
+		cb, cw := median(a.cpu), median(c.cpu)
+		sc := math.NaN()
+		if cb > 0 && cw > 0 {
+			sc = cb / (cw / float64(c.workers))
+		}
+		walls = append(walls, sw)
+		if !math.IsNaN(sc) {
+			cpus = append(cpus, sc)
+		}
+		fmt.Fprintf(&b, "| %s | %d | %d | %.2f | %.2f | %.2f | %.2f | %d / %d |\n", k, len(c.wall), c.workers, mb, mw, sw, sc, a.missed, c.missed)
+	}
+	if len(walls) > 0 {
+		fmt.Fprintf(&b, "\nMedian speed-up over %d instances: %.2f wall-clock, %.2f CPU-based (target at least 1.6).\n", len(walls), median(walls), median(cpus))
+	}
+	fmt.Fprint(stdout, b.String())
+	if readme != "" {
+		return replaceBetween(readme, "<!-- workers:start -->", "<!-- workers:end -->", b.String())
+	}
+	return nil
 }

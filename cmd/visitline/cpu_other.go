@@ -2,5 +2,10 @@
 
 package main
 
+import "context"
+
 // processCPU is unknown here (-1).
 func processCPU() float64 { return -1 }
+
+// stopAtCPU cannot measure here: it leaves the run to its other limits.
+func stopAtCPU(ctx context.Context, cancel context.CancelFunc, limit float64) {}

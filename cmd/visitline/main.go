@@ -19,6 +19,7 @@ usage:
   visitline serve [flags]              serve the planner page on 127.0.0.1
   visitline gen [flags] > FILE         write an invented, feasible instance of any size
   visitline scale [flags]              measure the engine on generated instances of growing size
+  visitline wasm-speed [flags] FILES   compare the WebAssembly build's iteration rate with this one's
 `
 
 func main() {
@@ -44,6 +45,8 @@ func run(args []string, stdout, stderr io.Writer) int {
 		err = runGen(args[1:], stdout, stderr)
 	case "scale":
 		err = runScale(args[1:], stdout, stderr)
+	case "wasm-speed":
+		err = runSpeed(args[1:], stdout, stderr)
 	case "serve":
 		err = runServe(args[1:], stdout, stderr)
 	case "-h", "--help", "help":
