@@ -5,7 +5,7 @@ BENCH_DIR ?= ../shared/benchmarks/tsptw
 BENCH_BUDGETS ?= --budget 10s --budget-for OhlmannThomas=30s
 BENCH_FLAGS = --workers 1 --bounds $(BENCH_DIR)/best-known.csv
 
-.PHONY: all build test bench bench-kernels bench-quick demo vet fmt site clean
+.PHONY: all build wasm-cli test bench bench-kernels bench-quick bench-scale bench-wasm bench-workers demo vet fmt site clean
 
 all: build
 
@@ -28,6 +28,42 @@ bench-kernels:
 # A few minutes, for development: 1 s per instance, nothing in the README.
 bench-quick: build
 	./bin/visitline bench --budget 1s $(BENCH_FLAGS) --quiet --json bench-quick.json --chart bench-quick.svg $(BENCH_DIR)
+
+# The command line built for js/wasm, run under Node.js by the wasm targets.
+WASM_EXEC ?= node $(shell $(GO) env GOROOT)/lib/wasm/wasm_exec_node.js
+wasm-cli:
+	GOOS=js GOARCH=wasm $(GO) build -o bin/visitline.wasm ./cmd/visitline
+
+# Generated instances of 100 to 2,000 sites at four window tightness levels,
+# each case in a fresh process (peak memory of its own). Budgets in CPU time
+# so that a shared machine does not shorten them; about 10 minutes on an
+# idle machine.
+SCALE_BUDGET ?= 30s
+bench-scale: build
+	./bin/visitline scale --cpu-budget --budget $(SCALE_BUDGET) --json scale-results.json --readme README.md
+
+# WebAssembly against native: the same seed and iteration budgets on both
+# sides, then scale rows run in Node.js.
+SPEED_FILES ?= $(BENCH_DIR)/Dumas/n100w40.001.txt $(BENCH_DIR)/Dumas/n200w40.001.txt \
+	$(BENCH_DIR)/GendreauDumasExtended/n100w100.001.txt $(BENCH_DIR)/OhlmannThomas/n200w120.001.txt \
+	$(BENCH_DIR)/Langevin/N60ft406.dat $(BENCH_DIR)/SolomonPesant/rc208.2 \
+	bin/gen/n300-tight.txt bin/gen/n1000-tight.txt
+bin/gen/n300-tight.txt: build
+	mkdir -p bin/gen && ./bin/visitline gen --n 300 --tightness tight --seed 1 > $@
+bin/gen/n1000-tight.txt: build
+	mkdir -p bin/gen && ./bin/visitline gen --n 1000 --tightness tight --seed 1 > $@
+WASM_SCALE_BUDGET ?= 30s
+bench-wasm: build wasm-cli bin/gen/n300-tight.txt bin/gen/n1000-tight.txt
+	./bin/visitline wasm-speed --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --iterations 300 --repeats 3 --json wasm-speed.json --readme README.md $(SPEED_FILES)
+	./bin/visitline scale --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --budget $(WASM_SCALE_BUDGET) --sizes 100,300,1000 --json scale-wasm.json --readme README.md --section scale-wasm
+
+# Time to the best-known value with two workers against one, several seeds,
+# on instances that take one worker over a second.
+WORKER_FILES ?= $(BENCH_DIR)/OhlmannThomas/n150w120.001.txt $(BENCH_DIR)/OhlmannThomas/n200w120.002.txt
+bench-workers: build
+	./bin/visitline bench --workers 1 --seeds 5 --budget 60s --stop-at-best --quiet --bounds $(BENCH_DIR)/best-known.csv --json workers-1.json $(WORKER_FILES)
+	./bin/visitline bench --workers 2 --seeds 5 --budget 60s --stop-at-best --quiet --bounds $(BENCH_DIR)/best-known.csv --json workers-2.json $(WORKER_FILES)
+	./bin/visitline bench --from workers-2.json --baseline workers-1.json --readme README.md
 
 demo: build
 	./bin/visitline solve --budget 3s examples/warehouse/picks.txt

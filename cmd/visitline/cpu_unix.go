@@ -4,6 +4,7 @@ package main
 
 import (
 	"context"
+	"os"
 	"syscall"
 	"time"
 )
@@ -35,4 +36,13 @@ func stopAtCPU(ctx context.Context, cancel context.CancelFunc, limit float64) {
 			}
 		}
 	}
+}
+
+// childPeakMB is the resident high-water of a finished child process in
+// MiB (Linux reports ru_maxrss in KiB), or -1.
+func childPeakMB(ps *os.ProcessState) float64 {
+	if ru, ok := ps.SysUsage().(*syscall.Rusage); ok && ru.Maxrss > 0 {
+		return float64(ru.Maxrss) / 1024
+	}
+	return -1
 }

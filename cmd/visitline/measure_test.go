@@ -184,7 +184,7 @@ func TestParseCaseAndSizes(t *testing.T) {
 }
 
 func TestScaleCaseChecksItsPlan(t *testing.T) {
-	row, err := scaleCase(40, 3, 2, 0, 200, 1)
+	row, err := scaleCase(40, 3, 2, 0, 200, 1, false)
 	require.NoError(t, err)
 	assert.True(t, row.Checked)
 	assert.True(t, row.Feasible)

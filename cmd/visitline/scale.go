@@ -38,22 +38,33 @@ type scaleRow struct {
 	FirstFeasibleSeconds   float64 `json:"first_feasible_seconds"`
 	FirstFeasibleIteration int     `json:"first_feasible_iteration"`
 	FirstFeasibleCost      int64   `json:"first_feasible_cost"`
-	FinalCost              int64   `json:"final_cost"`
-	ImprovementPct         float64 `json:"improvement_pct"`
-	Feasible               bool    `json:"feasible"`
-	Checked                bool    `json:"checked"`
-	Iterations             int     `json:"iterations"`
-	Seconds                float64 `json:"seconds"`
-	ItersPerSecond         float64 `json:"iterations_per_second"`
+	// FirstFeasibleCPU is the process CPU time to the first feasible plan
+	// (-1: none, or unknown).
+	FirstFeasibleCPU float64 `json:"first_feasible_cpu"`
+	// CPUSeconds is the process CPU time of the run (-1: unknown).
+	CPUSeconds float64 `json:"cpu_seconds"`
+	CPUBudget  bool    `json:"cpu_budget,omitempty"`
+	// CPUWholeProcess: CPUSeconds is the whole child process's, start-up
+	// included (a js/wasm runner cannot measure its own).
+	CPUWholeProcess bool    `json:"cpu_whole_process,omitempty"`
+	FinalCost       int64   `json:"final_cost"`
+	ImprovementPct  float64 `json:"improvement_pct"`
+	Feasible        bool    `json:"feasible"`
+	Checked         bool    `json:"checked"`
+	Iterations      int     `json:"iterations"`
+	Seconds         float64 `json:"seconds"`
+	ItersPerSecond  float64 `json:"iterations_per_second"`
 	// SecondsPerIteration is measured over the search after the first
-	// feasible plan, so that construction does not count.
+	// feasible plan, so that construction does not count; in CPU time where
+	// the platform reports it, else wall-clock.
 	SecondsPerIteration float64 `json:"seconds_per_iteration"`
 	// PeakSysMB is the high-water of runtime.MemStats.Sys sampled during
 	// the run: memory the Go runtime took from the system (in WebAssembly,
 	// the linear memory).
 	PeakSysMB float64 `json:"peak_sys_mb"`
-	// PeakRSSMB is the process's resident high-water (VmHWM), where the
-	// system reports it (-1 elsewhere).
+	// PeakRSSMB is the process's resident high-water (VmHWM, or the
+	// child's ru_maxrss as its parent saw it), where the system reports it
+	// (-1 elsewhere).
 	PeakRSSMB float64 `json:"peak_rss_mb"`
 	Fresh     bool    `json:"fresh_process"`
 	Stop      string  `json:"stop"`
@@ -80,6 +91,9 @@ func runScale(args []string, stdout, stderr io.Writer) error {
 	from := fs.String("from", "", "render the rows of an earlier --json file instead of running")
 	readme := fs.String("readme", "", "rewrite this README between its scale markers")
 	section := fs.String("section", "scale", "README markers: <!-- SECTION:start --> and <!-- SECTION:end -->")
+	cpuBudget := fs.Bool("cpu-budget", false, "count the budget in CPU time of the process instead of wall-clock time (fairer on a shared machine)")
+	wasm := fs.String("wasm", "", "run each case in this program built for js/wasm, under --runner, in a fresh process")
+	runner := fs.String("runner", defaultWasmRunner(), "with --wasm: the command that runs a js/wasm program")
 	oneCase := fs.String("case", "", "internal: run one case N:TIGHTNESS and print its row as JSON")
 	quiet := fs.Bool("quiet", false, "no per-case lines")
 	if err := fs.Parse(args); err != nil {
@@ -99,7 +113,7 @@ func runScale(args []string, stdout, stderr io.Writer) error {
 		if err != nil {
 			return usageError{"--case: " + err.Error()}
 		}
-		row, err := scaleCase(n, lvl, *seed, *budget, *iterations, *workers)
+		row, err := scaleCase(n, lvl, *seed, *budget, *iterations, *workers, *cpuBudget)
 		if err != nil {
 			return err
 		}
@@ -141,7 +155,21 @@ func runScale(args []string, stdout, stderr io.Writer) error {
 		}
 	}
 	self := ""
-	if *fresh {
+	var pre []string
+	if *wasm != "" {
+		if runtime.GOOS == "js" {
+			return usageError{"--wasm: run it from the native build"}
+		}
+		if _, err := os.Stat(*wasm); err != nil {
+			return fmt.Errorf("%s: %w", *wasm, unwrapPath(err))
+		}
+		run := strings.Fields(*runner)
+		if len(run) == 0 {
+			return usageError{"--runner is empty"}
+		}
+		self, pre = run[0], append(run[1:len(run):len(run)], *wasm)
+		*fresh = true
+	} else if *fresh {
 		if self, err = os.Executable(); err != nil {
 			return fmt.Errorf("cannot find this program to run each case afresh: %w (use --fresh=false)", err)
 		}
@@ -153,9 +181,9 @@ func runScale(args []string, stdout, stderr io.Writer) error {
 		for _, lvl := range lvls {
 			var row scaleRow
 			if *fresh {
-				row, err = scaleChild(self, n, lvl, *seed, *budget, *iterations, *workers, stderr)
+				row, err = scaleChild(self, pre, n, lvl, *seed, *budget, *iterations, *workers, *cpuBudget, stderr)
 			} else {
-				row, err = scaleCase(n, lvl, *seed, *budget, *iterations, *workers)
+				row, err = scaleCase(n, lvl, *seed, *budget, *iterations, *workers, *cpuBudget)
 			}
 			if err != nil {
 				return fmt.Errorf("n %d, %s windows: %w", n, lvl, err)
@@ -176,7 +204,7 @@ func runScale(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	for _, r := range rep.Rows {
-		if !r.Checked {
+		if !r.Checked && !strings.HasPrefix(r.Stop, "killed") {
 			return fmt.Errorf("n %d, %s windows: the engine's plan disagrees with the independent evaluator", r.N, r.Tightness)
 		}
 	}
@@ -209,12 +237,29 @@ func parseSizes(s string) ([]int, error) {
 }
 
 // scaleChild runs one case in a fresh process of this program.
-func scaleChild(self string, n int, lvl gen.Tightness, seed int64, budget time.Duration, iters, workers int, stderr io.Writer) (scaleRow, error) {
-	cmd := exec.Command(self, "scale", "--case", fmt.Sprintf("%d:%s", n, lvl), "--seed", strconv.FormatInt(seed, 10),
-		"--budget", budget.String(), "--iterations", strconv.Itoa(iters), "--workers", strconv.Itoa(workers))
+func scaleChild(self string, pre []string, n int, lvl gen.Tightness, seed int64, budget time.Duration, iters, workers int, cpuBudget bool, stderr io.Writer) (scaleRow, error) {
+	cmd := exec.Command(self, append(append([]string(nil), pre...), "scale", "--case", fmt.Sprintf("%d:%s", n, lvl), "--seed", strconv.FormatInt(seed, 10),
+		"--budget", budget.String(), "--iterations", strconv.Itoa(iters), "--workers", strconv.Itoa(workers), "--cpu-budget="+strconv.FormatBool(cpuBudget))...)
 	var out bytes.Buffer
 	cmd.Stdout, cmd.Stderr = &out, stderr
-	if err := cmd.Run(); err != nil {
+	// A case that overruns its budget this far is stopped and reported as
+	// such rather than holding up the rest.
+	limit := 20*budget + time.Minute
+	if budget <= 0 {
+		limit = 30 * time.Minute
+	}
+	if err := cmd.Start(); err != nil {
+		return scaleRow{}, fmt.Errorf("case process: %w", err)
+	}
+	timer := time.AfterFunc(limit, func() { cmd.Process.Kill() })
+	err := cmd.Wait()
+	killed := !timer.Stop()
+	if killed {
+		return scaleRow{N: n, Tightness: lvl.String(), Seed: seed, Budget: budget.Seconds(), FirstFeasibleSeconds: -1, FirstFeasibleCPU: -1,
+			CPUSeconds: -1, PeakRSSMB: childPeakMB(cmd.ProcessState), Seconds: limit.Seconds(), Fresh: true, CPUBudget: cpuBudget,
+			Stop: fmt.Sprintf("killed after %s", limit)}, nil
+	}
+	if err != nil {
 		return scaleRow{}, fmt.Errorf("case process: %w", err)
 	}
 	var row scaleRow
@@ -222,11 +267,21 @@ func scaleChild(self string, n int, lvl gen.Tightness, seed int64, budget time.D
 		return scaleRow{}, fmt.Errorf("case process printed no row: %w", err)
 	}
 	row.Fresh = true
+	// The child's resident high-water as the system saw it (for a js/wasm
+	// case, the whole runner process); its CPU time where the child could
+	// not measure its own.
+	if mb := childPeakMB(cmd.ProcessState); mb > 0 {
+		row.PeakRSSMB = mb
+	}
+	if row.CPUSeconds < 0 {
+		row.CPUSeconds = (cmd.ProcessState.UserTime() + cmd.ProcessState.SystemTime()).Seconds()
+		row.CPUWholeProcess = true
+	}
 	return row, nil
 }
 
 // scaleCase generates one instance and solves it in this process.
-func scaleCase(n int, lvl gen.Tightness, seed int64, budget time.Duration, iters, workers int) (scaleRow, error) {
+func scaleCase(n int, lvl gen.Tightness, seed int64, budget time.Duration, iters, workers int, cpuBudget bool) (scaleRow, error) {
 	t0 := time.Now()
 	g, err := gen.Generate(gen.Options{N: n, Tightness: lvl, Seed: seed})
 	if err != nil {
@@ -234,8 +289,10 @@ func scaleCase(n int, lvl gen.Tightness, seed int64, budget time.Duration, iters
 	}
 	in := g.Instance
 	row := scaleRow{N: n, Tightness: lvl.String(), Seed: seed, Platform: runtime.GOOS + "/" + runtime.GOARCH,
-		Budget: budget.Seconds(), GenSeconds: time.Since(t0).Seconds(), FirstFeasibleSeconds: -1,
+		Budget: budget.Seconds(), GenSeconds: time.Since(t0).Seconds(), FirstFeasibleSeconds: -1, FirstFeasibleCPU: -1, CPUSeconds: -1, CPUBudget: cpuBudget,
 		ReferenceCost: solver.Evaluate(in, g.Reference).Travel}
+	cpu0 := processCPU()
+	var called time.Time
 	var peak uint64
 	var ms runtime.MemStats
 	sample := func() {
@@ -247,16 +304,35 @@ func scaleCase(n int, lvl gen.Tightness, seed int64, budget time.Duration, iters
 	s := solver.Settings{Budget: budget, Iterations: iters, Seed: seed, Workers: workers, ProgressEvery: 100 * time.Millisecond,
 		OnImprove: func(p solver.Plan) {
 			if p.Feasible && row.FirstFeasibleSeconds < 0 {
-				row.FirstFeasibleSeconds = p.Elapsed.Seconds()
+				if cpu0 >= 0 {
+					row.FirstFeasibleCPU = processCPU() - cpu0
+				}
+				// From the call, preprocessing included (Plan.Elapsed
+				// starts after it).
+				row.FirstFeasibleSeconds = time.Since(called).Seconds()
 				row.FirstFeasibleIteration = p.Iteration
 				row.FirstFeasibleCost = p.Cost
 			}
 		},
 		OnProgress: func(solver.Progress) { sample() }}
 	sample()
-	res, err := solver.Solve(context.Background(), in, s)
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	if cpuBudget && budget > 0 {
+		if cpu0 < 0 {
+			return row, errors.New("--cpu-budget: this system does not report CPU time")
+		}
+		s.Budget = 20 * budget // a backstop
+		go stopAtCPU(ctx, cancel, cpu0+budget.Seconds())
+	}
+	called = time.Now()
+	res, err := solver.Solve(ctx, in, s)
 	if err != nil {
 		return row, err
+	}
+	wall := time.Since(called)
+	if cpu0 >= 0 {
+		row.CPUSeconds = processCPU() - cpu0
 	}
 	sample()
 	chk := solver.Evaluate(in, res.Best.Route)
@@ -267,7 +343,7 @@ func scaleCase(n int, lvl gen.Tightness, seed int64, budget time.Duration, iters
 		row.ImprovementPct = 100 * float64(row.FirstFeasibleCost-row.FinalCost) / float64(row.FirstFeasibleCost)
 	}
 	row.Iterations = res.Iterations
-	row.Seconds = res.Elapsed.Seconds()
+	row.Seconds = wall.Seconds()
 	row.Stop = res.Stop
 	if row.Seconds > 0 {
 		row.ItersPerSecond = float64(res.Iterations) / row.Seconds
@@ -275,7 +351,13 @@ func scaleCase(n int, lvl gen.Tightness, seed int64, budget time.Duration, iters
 	// Too few iterations after the first feasible plan say nothing of the
 	// cost of one.
 	if row.FirstFeasibleSeconds >= 0 && res.Iterations >= row.FirstFeasibleIteration+10 {
-		row.SecondsPerIteration = (row.Seconds - row.FirstFeasibleSeconds) / float64(res.Iterations-row.FirstFeasibleIteration)
+		// CPU time where known: it does not grow with the load of a shared
+		// machine.
+		if row.CPUSeconds >= 0 && row.FirstFeasibleCPU >= 0 {
+			row.SecondsPerIteration = (row.CPUSeconds - row.FirstFeasibleCPU) / float64(res.Iterations-row.FirstFeasibleIteration)
+		} else {
+			row.SecondsPerIteration = (row.Seconds - row.FirstFeasibleSeconds) / float64(res.Iterations-row.FirstFeasibleIteration)
+		}
 	}
 	row.PeakSysMB = float64(peak) / (1 << 20)
 	row.PeakRSSMB = vmHWM()
@@ -317,6 +399,8 @@ func scaleLine(r scaleRow) string {
 
 func checkWord(r scaleRow) string {
 	switch {
+	case strings.HasPrefix(r.Stop, "killed"):
+		return r.Stop
 	case !r.Checked:
 		return "MISMATCH"
 	case !r.Feasible:
@@ -371,8 +455,13 @@ func scaleTable(rep scaleReport) string {
 		plat = rep.Rows[0].Platform
 	}
 	fmt.Fprintf(&b, "`%s` (%s): %s.\n\n", rep.Command, plat, rep.Machine)
-	b.WriteString("| sites | windows | budget | first feasible (s) | cost at first feasible | cost at end | improvement % | iterations/s | ms per iteration | peak memory MB | checked |\n")
-	b.WriteString("|---|---|---|---|---|---|---|---|---|---|---|\n")
+	clock := "wall-clock"
+	if len(rep.Rows) > 0 && rep.Rows[0].CPUBudget {
+		clock = "CPU time"
+	}
+	fmt.Fprintf(&b, "Budgets in %s; \"CPU\" columns are process CPU seconds (\"-\" where the platform does not report them), the others wall-clock.\n\n", clock)
+	b.WriteString("| sites | windows | budget | first feasible (s) | first feasible (CPU s) | cost at first feasible | cost at end | improvement % | iterations/s | ms per iteration (CPU where known) | CPU share | peak memory MB | checked |\n")
+	b.WriteString("|---|---|---|---|---|---|---|---|---|---|---|---|---|\n")
 	for _, r := range rep.Rows {
 		ff := "none"
 		if r.FirstFeasibleSeconds >= 0 {
@@ -386,8 +475,18 @@ func scaleTable(rep scaleReport) string {
 		if r.SecondsPerIteration > 0 {
 			per = fmt.Sprintf("%.3f", 1000*r.SecondsPerIteration)
 		}
-		fmt.Fprintf(&b, "| %d | %s | %gs | %s | %d | %d | %.2f | %.0f | %s | %s | %s |\n", r.N, r.Tightness, r.Budget, ff, r.FirstFeasibleCost, r.FinalCost,
-			r.ImprovementPct, r.ItersPerSecond, per, mem, checkWord(r))
+		ffc, share := "-", "-"
+		if r.FirstFeasibleCPU >= 0 {
+			ffc = fmt.Sprintf("%.3f", r.FirstFeasibleCPU)
+		}
+		if r.CPUSeconds >= 0 && r.Seconds > 0 {
+			share = fmt.Sprintf("%.0f%%", 100*r.CPUSeconds/r.Seconds)
+			if r.CPUWholeProcess {
+				share += " (process)"
+			}
+		}
+		fmt.Fprintf(&b, "| %d | %s | %gs | %s | %s | %d | %d | %.2f | %.0f | %s | %s | %s | %s |\n", r.N, r.Tightness, r.Budget, ff, ffc, r.FirstFeasibleCost, r.FinalCost,
+			r.ImprovementPct, r.ItersPerSecond, per, share, mem, checkWord(r))
 	}
 	// Growth of the cost of one iteration with n, per tightness and over all.
 	by := map[string][]scaleRow{}
@@ -408,6 +507,8 @@ func scaleTable(rep scaleReport) string {
 	}
 	if k, m := slope(rep.Rows); m >= 2 {
 		fmt.Fprintf(&b, " all %.2f.", k)
+	} else {
+		b.WriteString(" not enough rows to fit.")
 	}
 	b.WriteString("\n")
 	return b.String()
