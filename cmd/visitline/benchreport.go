@@ -191,6 +191,10 @@ func benchFromJSON(path, readme, chart string, stdout io.Writer) error {
 	return r.publish(readme, chart)
 }
 
+// speedupMinCPU is the one-worker CPU time to best-known (seconds) above
+// which an instance counts for the speed-up target.
+const speedupMinCPU = 1.0
+
 // speedupFromJSON compares the time to the best-known value, instance by
 // instance (median over the seeds), of two bench runs: base (one worker)
 // and with (several). A run that never reached the best-known value counts
@@ -248,9 +252,9 @@ func speedupFromJSON(basePath, withPath, readme string, stdout io.Writer) error 
 	wm, _ := group(with)
 	var b strings.Builder
 	fmt.Fprintf(&b, "Baseline `%s`; compared `%s`; %s.\n\n", base.Command, with.Command, with.Machine)
-	b.WriteString("| instance | seeds | workers | median s to best-known, base | with | speed-up (wall) | CPU-based speed-up | missed (base / with) |\n")
+	b.WriteString("| instance | seeds | workers | median s to best-known, base / with | speed-up (wall) | median CPU s to best-known, base / with | CPU-based speed-up | missed (base / with) |\n")
 	b.WriteString("|---|---|---|---|---|---|---|---|\n")
-	var walls, cpus []float64
+	var walls, cpus, qWalls, qCPUs []float64
 	for _, k := range order {
 		a, c := bm[k], wm[k]
 		if c == nil {
@@ -270,10 +274,23 @@ func speedupFromJSON(basePath, withPath, readme string, stdout io.Writer) error 
 		if !math.IsNaN(sc) {
 			cpus = append(cpus, sc)
 		}
-		fmt.Fprintf(&b, "| %s | %d | %d | %.2f | %.2f | %.2f | %.2f | %d / %d |\n", k, len(c.wall), c.workers, mb, mw, sw, sc, a.missed, c.missed)
+		// The target is about instances that take one worker over a second.
+		if cb > speedupMinCPU {
+			qWalls = append(qWalls, sw)
+			if !math.IsNaN(sc) {
+				qCPUs = append(qCPUs, sc)
+			}
+		}
+		fmt.Fprintf(&b, "| %s | %d | %d | %.2f / %.2f | %.2f | %.2f / %.2f | %.2f | %d / %d |\n", k, len(c.wall), c.workers, mb, mw, sw, cb, cw, sc, a.missed, c.missed)
 	}
 	if len(walls) > 0 {
-		fmt.Fprintf(&b, "\nMedian speed-up over %d instances: %.2f wall-clock, %.2f CPU-based (target at least 1.6).\n", len(walls), median(walls), median(cpus))
+		fmt.Fprintf(&b, "\nMedian speed-up over all %d instances: %.2f wall-clock, %.2f CPU-based. ", len(walls), median(walls), median(cpus))
+		if len(qWalls) > 0 {
+			fmt.Fprintf(&b, "Over the %d that take one worker more than %.0f s of CPU: %.2f wall-clock, %.2f CPU-based (target at least 1.6).\n", len(qWalls), speedupMinCPU, median(qWalls), median(qCPUs))
+		} else {
+			fmt.Fprintf(&b, "None takes one worker more than %.0f s of CPU.\n", speedupMinCPU)
+		}
+		b.WriteString("\nCPU-based speed-up: the one-worker CPU time over the two-worker CPU time divided by two, i.e. what the wall-clock ratio would be with a core per worker and nothing else running.\n")
 	}
 	fmt.Fprint(stdout, b.String())
 	if readme != "" {

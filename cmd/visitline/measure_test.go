@@ -152,7 +152,8 @@ func TestSpeedupFromJSONComparesMedians(t *testing.T) {
 	// Base median 4; with two workers 2, 1 and a miss counted at its 30 s
 	// budget: median 2; speed-up 2. CPU: base 4, two workers median 4 of
 	// CPU over 2 workers = 2: 2.
-	assert.Contains(t, out.String(), "| F/i | 3 | 2 | 4.00 | 2.00 | 2.00 | 2.00 | 0 / 1 |")
+	assert.Contains(t, out.String(), "| F/i | 3 | 2 | 4.00 / 2.00 | 2.00 | 4.00 / 4.00 | 2.00 | 0 / 1 |")
+	assert.Contains(t, out.String(), "Over the 1 that take one worker more than 1 s of CPU: 2.00 wall-clock, 2.00 CPU-based")
 }
 
 func TestSlopeOfPowerLaw(t *testing.T) {
