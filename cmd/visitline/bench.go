@@ -171,7 +171,7 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 				}
 				// The wall-clock budget stays as a backstop.
 				s.Budget = 20 * runBudget
-				go stopAtCPU(ctx, cancel, cpu0+runBudget.Seconds())
+				cpuLimit(ctx, cancel, &s, cpu0+runBudget.Seconds())
 			}
 			called = time.Now()
 			res, err := solver.Solve(ctx, in, s)

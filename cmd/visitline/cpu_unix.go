@@ -3,10 +3,8 @@
 package main
 
 import (
-	"context"
 	"os"
 	"syscall"
-	"time"
 )
 
 // processCPU is the CPU time this process has used, in seconds (user and
@@ -18,24 +16,6 @@ func processCPU() float64 {
 		return -1
 	}
 	return float64(ru.Utime.Sec+ru.Stime.Sec) + float64(ru.Utime.Usec+ru.Stime.Usec)/1e6
-}
-
-// stopAtCPU cancels once this process has used limit seconds of CPU time,
-// or returns when ctx ends first.
-func stopAtCPU(ctx context.Context, cancel context.CancelFunc, limit float64) {
-	tk := time.NewTicker(5 * time.Millisecond)
-	defer tk.Stop()
-	for {
-		select {
-		case <-ctx.Done():
-			return
-		case <-tk.C:
-			if processCPU() >= limit {
-				cancel()
-				return
-			}
-		}
-	}
 }
 
 // childPeakMB is the resident high-water of a finished child process in

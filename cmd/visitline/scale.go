@@ -323,7 +323,7 @@ func scaleCase(n int, lvl gen.Tightness, seed int64, budget time.Duration, iters
 			return row, errors.New("--cpu-budget: this system does not report CPU time")
 		}
 		s.Budget = 20 * budget // a backstop
-		go stopAtCPU(ctx, cancel, cpu0+budget.Seconds())
+		cpuLimit(ctx, cancel, &s, cpu0+budget.Seconds())
 	}
 	called = time.Now()
 	res, err := solver.Solve(ctx, in, s)
