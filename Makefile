@@ -1,4 +1,4 @@
-# Visitline build. `make demo` solves the embedded example; `make test` runs every test.
+# Visitline build. `make demo` solves the bakery example; `make test` runs every test.
 GO ?= go
 BENCH_DIR ?= ../shared/benchmarks/tsptw
 # Per-family budgets of issue 3's targets: 10 s, 30 s for OhlmannThomas.
@@ -66,7 +66,7 @@ bench-workers: build
 	./bin/visitline bench --from workers-2.json --baseline workers-1.json --readme README.md
 
 demo: build
-	./bin/visitline solve --budget 3s examples/warehouse/picks.txt
+	./bin/visitline solve --budget 3s --matrix examples/bakery/travel.csv examples/bakery/sites.csv
 
 vet:
 	$(GO) vet ./...

@@ -52,7 +52,7 @@ func (s *search) qSize() int {
 	if k <= 2 {
 		return k
 	}
-	hi := k / 3
+	hi := k / qFrac
 	if hi > 30 {
 		hi = 30
 	}

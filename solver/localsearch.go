@@ -16,6 +16,29 @@ type polisher struct {
 	maxScan int // how far a stretch may move, in positions
 	buf     []int32
 	moves   int
+	// active marks the nodes whose surroundings changed ("don't look
+	// bits"): a node stays quiet until a move touches an arc next to it.
+	active []bool
+}
+
+// wake marks every node active.
+func (p *polisher) wakeAll() {
+	if len(p.active) < p.m.n {
+		p.active = make([]bool, p.m.n)
+	}
+	for i := range p.active {
+		p.active[i] = true
+	}
+}
+
+// wakeAround marks the nodes at route positions i-1, i, i+1.
+func (p *polisher) wakeAround(i int) {
+	r := p.x.r
+	for k := i - 1; k <= i+1; k++ {
+		if k >= 0 && k < len(r) {
+			p.active[r[k]] = true
+		}
+	}
 }
 
 // run improves x until no move helps or budget moves were made.
@@ -62,8 +85,12 @@ func (p *polisher) mustPrecedeAny(v int32, a, b int) bool {
 func (p *polisher) orOpt() bool {
 	x, m := p.x, p.m
 	improvedAny := false
-	for L := 1; L <= 3; L++ {
-		for i := 1; i+L-1 <= len(x.r)-2; i++ {
+	for i := 1; i <= len(x.r)-2; i++ {
+		if !p.active[x.r[i]] {
+			continue
+		}
+		found := false
+		for L := 1; L <= 3 && i+L-1 <= len(x.r)-2 && !found; L++ {
 			j := i + L - 1
 			cur := m.value(x.total(), p.lam)
 			for rev := 0; rev < 2; rev++ {
@@ -97,8 +124,7 @@ func (p *polisher) orOpt() bool {
 					s = join(s, x.bwd[j+1], m.arc(x.r[i-1], x.r[j+1]))
 					if m.value(s, p.lam) < cur-improveEps {
 						p.applyOr(i, j, q, rev == 1)
-						improvedAny = true
-						cur = m.value(x.total(), p.lam)
+						improvedAny, found = true, true
 						goto next
 					}
 				}
@@ -118,13 +144,15 @@ func (p *polisher) orOpt() bool {
 					s = join(s, x.bwd[q+1], m.arc(sz, x.r[q+1]))
 					if m.value(s, p.lam) < cur-improveEps {
 						p.applyOr(i, j, q, rev == 1)
-						improvedAny = true
-						cur = m.value(x.total(), p.lam)
+						improvedAny, found = true, true
 						goto next
 					}
 				}
 			}
 		next:
+		}
+		if !found {
+			p.active[x.r[i]] = false
 		}
 	}
 	return improvedAny
@@ -145,6 +173,10 @@ func (p *polisher) mustPrecedeAnyNode(i, j int, nd int32) bool {
 // applyOr moves r[i..j] (reversed if rev) to sit between r[q] and r[q+1].
 func (p *polisher) applyOr(i, j, q int, rev bool) {
 	x := p.x
+	p.wakeAround(i)
+	p.wakeAround(j)
+	p.wakeAround(q)
+	p.wakeAround(q + 1)
 	b := p.buf[:0]
 	segm := make([]int32, 0, j-i+1)
 	if rev {
@@ -175,6 +207,9 @@ func (p *polisher) twoOpt() bool {
 	improvedAny := false
 	feasible := x.total().tw == 0
 	for i := 1; i < len(x.r)-2; i++ {
+		if !p.active[x.r[i]] && !p.active[x.r[i-1]] {
+			continue
+		}
 		cur := m.value(x.total(), p.lam)
 		rev := m.unit(int(x.r[i]))
 		for j := i + 1; j <= len(x.r)-2 && j-i <= p.maxScan; j++ {
@@ -185,6 +220,8 @@ func (p *polisher) twoOpt() bool {
 			s := join(x.fwd[i-1], rev, m.arc(x.r[i-1], x.r[j]))
 			s = join(s, x.bwd[j+1], m.arc(x.r[i], x.r[j+1]))
 			if m.value(s, p.lam) < cur-improveEps {
+				p.wakeAround(i)
+				p.wakeAround(j)
 				b := append(p.buf[:0], x.r...)
 				for a, c := i, j; a < c; a, c = a+1, c-1 {
 					b[a], b[c] = b[c], b[a]
@@ -207,6 +244,9 @@ func (p *polisher) swap() bool {
 	x, m := p.x, p.m
 	improvedAny := false
 	for i := 1; i < len(x.r)-2; i++ {
+		if !p.active[x.r[i]] {
+			continue
+		}
 		cur := m.value(x.total(), p.lam)
 		a := x.r[i]
 		ua := m.unit(int(a))
@@ -231,6 +271,8 @@ func (p *polisher) swap() bool {
 			}
 			s = join(s, x.bwd[j+1], m.arc(a, x.r[j+1]))
 			if m.value(s, p.lam) < cur-improveEps {
+				p.wakeAround(i)
+				p.wakeAround(j)
 				bf := append(p.buf[:0], x.r...)
 				bf[i], bf[j] = bf[j], bf[i]
 				p.buf = bf

@@ -181,9 +181,18 @@ func newModel(in *Instance, obj Objective) (*model, error) {
 	}
 	m.origE = append([]int64(nil), m.e...)
 	m.origL = append([]int64(nil), m.l...)
-	m.tighten()
+	if debugMode != "notight" {
+		m.tighten()
+	}
 	m.buildArcs()
-	m.buildPrecedence()
+	if debugMode == "" || debugMode == "normal" {
+		m.buildPrecedence()
+	} else {
+		m.before = make([][]uint64, n)
+		for u := range m.before {
+			m.before[u] = make([]uint64, (n+63)/64)
+		}
+	}
 	m.buildNear()
 	return m, nil
 }
@@ -334,3 +343,5 @@ func (m *model) external(r []int32) []int {
 }
 
 var errNoNodes = errors.New("nothing to plan")
+
+var debugMode string

@@ -104,10 +104,22 @@ func TestFeasibleOnEverySharedInstance(t *testing.T) {
 	files, err := filepath.Glob(filepath.Join(dir, "*", "*"))
 	require.NoError(t, err)
 	require.Len(t, files, 417)
+	worst, worstName := 0, ""
+	defer func() { t.Logf("most rounds to a first feasible plan: %d (%s)", worst, worstName) }()
 	for _, f := range files {
 		in := load(t, f)
-		res, err := solver.Solve(context.Background(), in, solver.Settings{Iterations: 5, Seed: 1})
+		// Stop at the first plan that meets every window.
+		ctx, cancel := context.WithCancel(context.Background())
+		res, err := solver.Solve(ctx, in, solver.Settings{Iterations: 20000, Seed: 1, OnImprove: func(p solver.Plan) {
+			if p.Feasible {
+				cancel()
+			}
+		}})
+		cancel()
 		require.NoError(t, err)
+		if res.Iterations > worst {
+			worst, worstName = res.Iterations, f
+		}
 		chk := solver.Evaluate(in, res.Best.Route)
 		require.True(t, chk.Feasible, "%s: no feasible plan (lateness %v)", f, in.Float(chk.TotalLateness))
 		key := filepath.Base(filepath.Dir(f)) + "/" + filepath.Base(f)

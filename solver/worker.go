@@ -8,6 +8,9 @@ import (
 // Adaptive weights (Ropke and Pisinger, Transportation Science 40(4), 2006):
 // an operator scores when its result is a new best, better than the current
 // plan, or accepted; every segment the weights move toward the scores.
+var tempFactor = 0.01
+var qFrac = 1
+
 const (
 	scoreBest     = 33
 	scoreBetter   = 9
@@ -47,6 +50,7 @@ func (e *engine) work(ctx context.Context, id int, seed int64) {
 	s.lam = 1000
 	s.pol.x, s.pol.lam = s.cur, s.lam
 	s.pol.moves = 0
+	s.pol.wakeAll()
 	s.pol.run(1 << 30)
 	e.offer(s.cur, "construct")
 	if s.cur.total().tw > 0 {
@@ -66,7 +70,7 @@ func (e *engine) work(ctx context.Context, id int, seed int64) {
 	bestLocal := newRoute(m, s.cur.r)
 
 	curVal := m.value(s.cur.total(), s.lam)
-	temp0 := 0.01 * math.Max(1, float64(m.cost(s.cur.total()))) / float64(maxInt(1, len(m.movable))) * 10
+	temp0 := tempFactor * math.Max(1, float64(m.cost(s.cur.total())))
 	temp := temp0
 	sinceBest := 0
 	restartAfter := 2000 + 20*len(m.movable)
@@ -104,6 +108,7 @@ func (e *engine) work(ctx context.Context, id int, seed int64) {
 		}
 		s.pol.x, s.pol.lam = x, s.lam
 		s.pol.moves = 0
+		s.wakeRemoved(x)
 		s.pol.run(50 + len(m.movable))
 		val := m.value(x.total(), s.lam)
 
@@ -159,6 +164,29 @@ func (e *engine) work(ctx context.Context, id int, seed int64) {
 			temp = temp0
 			sinceBest = 0
 		}
+	}
+}
+
+// wakeRemoved marks the reinserted visits and their neighbours in x for
+// the polish; the rest of the route was a local optimum already.
+func (s *search) wakeRemoved(x *route) {
+	p := &s.pol
+	if len(p.active) < s.m.n {
+		p.active = make([]bool, s.m.n)
+	}
+	for i := range p.active {
+		p.active[i] = false
+	}
+	for _, v := range s.removed {
+		s.inRem[v] = true
+	}
+	for i, v := range x.r {
+		if s.inRem[v] {
+			p.wakeAround(i)
+		}
+	}
+	for _, v := range s.removed {
+		s.inRem[v] = false
 	}
 }
 
@@ -249,11 +277,9 @@ func (s *search) findFeasible(ctx context.Context, e *engine) {
 	x := newRoute(m, s.cur.r)
 	level := 1
 	for tries := 0; bestTW > 0 && tries < 200000; tries++ {
-		if tries%8 == 0 && e.isDone() {
-			return
-		}
-		if ctx.Err() != nil {
-			return
+		// Each round counts as an iteration, so that every budget holds.
+		if goOn, _ := e.tick(ctx); !goOn {
+			break
 		}
 		x.set(best.r)
 		// Shake: move `level` random visits to random places.
@@ -275,6 +301,7 @@ func (s *search) findFeasible(ctx context.Context, e *engine) {
 		}
 		s.pol.x, s.pol.lam = x, 1e6
 		s.pol.moves = 0
+		s.pol.wakeAll()
 		s.pol.run(1 << 30)
 		if tw := x.total().tw; tw < bestTW {
 			bestTW = tw
@@ -286,7 +313,7 @@ func (s *search) findFeasible(ctx context.Context, e *engine) {
 		} else {
 			level = 1
 		}
-		if m.infeas && tries > 2000 {
+		if m.infeas && tries > 200 || tries > 5000 && tries > 50*len(m.movable) {
 			break
 		}
 	}

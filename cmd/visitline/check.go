@@ -1,6 +1,8 @@
 package main
 
 import (
+	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"os"
@@ -10,19 +12,39 @@ import (
 )
 
 func runCheck(args []string, stdout, stderr io.Writer) error {
-	if len(args) != 2 {
-		return usageError{"usage: visitline check FILE PLAN.json"}
+	fs := flag.NewFlagSet("check", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	var lf loadFlags
+	lf.register(fs)
+	fs.Usage = func() {
+		fmt.Fprintln(stderr, "usage: visitline check [flags] SITES.csv|BENCHMARK.txt PLAN.json\n(give the flags the plan was solved with)")
+		fs.PrintDefaults()
 	}
-	in, err := loadInstance(args[0])
+	args, err := parseArgs(fs, args)
+	if err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return nil
+		}
+		return usageError{err.Error()}
+	}
+	if len(args) != 2 {
+		return usageError{"usage: visitline check [flags] FILE PLAN.json"}
+	}
+	opt, err := lf.options()
 	if err != nil {
 		return err
 	}
+	d, err := loadDataset(args[0], opt)
+	if err != nil {
+		return err
+	}
+	in := d.Instance
 	fh, err := os.Open(args[1])
 	if err != nil {
 		return fmt.Errorf("%s: cannot open: %w", args[1], unwrapPath(err))
 	}
 	defer fh.Close()
-	route, err := format.ReadPlanRoute(fh, args[1])
+	route, err := format.ReadPlanRouteFor(fh, args[1], in)
 	if err != nil {
 		return err
 	}
@@ -32,10 +54,10 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 	}
 	s := solver.Evaluate(in, route)
 	if s.Feasible {
-		fmt.Fprintf(stdout, "%s: feasible; travel %g, completion %g\n", args[1], in.Float(s.Travel), in.Float(s.Completion))
+		fmt.Fprintf(stdout, "%s: feasible; travel %s, completion %s\n", args[1], d.FormatDuration(s.Travel), d.FormatTime(s.Completion))
 		return nil
 	}
-	fmt.Fprintf(stdout, "%s: infeasible: %d late, total lateness %g; travel %g\n", args[1], s.LateVisits, in.Float(s.TotalLateness), in.Float(s.Travel))
+	fmt.Fprintf(stdout, "%s: infeasible: %d late, total lateness %s; travel %s\n", args[1], s.LateVisits, d.FormatDuration(s.TotalLateness), d.FormatDuration(s.Travel))
 	all := s.Visits
 	if s.Return.Node >= 0 {
 		all = append(all, s.Return)
@@ -46,7 +68,7 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 			if k == len(s.Visits) {
 				what = "the return to " + in.ID(v.Node)
 			}
-			fmt.Fprintf(stdout, "  %s starts at %g, after its latest %g, late by %g\n", what, in.Float(v.Start), in.Float(in.Late[v.Node]), in.Float(v.Lateness))
+			fmt.Fprintf(stdout, "  %s starts at %s, after its latest %s, late by %s\n", what, d.FormatTime(v.Start), d.FormatTime(in.Late[v.Node]), d.FormatDuration(v.Lateness))
 		}
 	}
 	return errSilent

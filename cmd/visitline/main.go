@@ -4,6 +4,7 @@
 package main
 
 import (
+	"flag"
 	"fmt"
 	"io"
 	"os"
@@ -76,3 +77,25 @@ func (u usageError) Error() string { return u.msg }
 
 // errSilent ends a command with exit code 1 after it printed its own report.
 var errSilent = fmt.Errorf("failed")
+
+// parseArgs parses flags wherever they stand among the arguments
+// ("solve sites.csv --matrix t.csv" as well as "solve --matrix t.csv
+// sites.csv") and returns the positional arguments. After "--" every
+// argument is positional.
+func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
+	var pos []string
+	for {
+		if err := fs.Parse(args); err != nil {
+			return nil, err
+		}
+		rest := fs.Args()
+		if len(rest) == 0 {
+			return pos, nil
+		}
+		if len(args) > len(rest) && args[len(args)-len(rest)-1] == "--" {
+			return append(pos, rest...), nil
+		}
+		pos = append(pos, rest[0])
+		args = rest[1:]
+	}
+}

@@ -8,6 +8,8 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"runtime"
+	"strings"
 	"time"
 
 	"visitline/solver"
@@ -22,7 +24,47 @@ type solveFlags struct {
 	fixedMix   bool
 	objective  string
 	format     string
+	date       string
 	quiet      bool
+	workers    int
+	load       loadFlags
+}
+
+// loadFlags are the flags that say how to read an instance; solve and
+// check share them.
+type loadFlags struct {
+	matrix, matrixUnit string
+	speed, roadFactor  float64
+	start, end         string
+	shiftStart         string
+	done, now          string
+}
+
+func (l *loadFlags) register(fs *flag.FlagSet) {
+	fs.StringVar(&l.matrix, "matrix", "", "travel matrix CSV/TSV for a sites file (default: travel from the sites' lat,lon or x,y)")
+	fs.StringVar(&l.matrixUnit, "matrix-unit", "minutes", "unit of the matrix numbers: minutes or seconds")
+	fs.Float64Var(&l.speed, "speed", format.DefaultSpeedKmh, "speed for travel from coordinates: km/h for lat,lon (x,y units per hour for x,y)")
+	fs.Float64Var(&l.roadFactor, "road-factor", 0, fmt.Sprintf("road distance over straight-line distance (0: %g for lat,lon, 1 for x,y)", format.DefaultRoadFactor))
+	fs.StringVar(&l.start, "start", "", "id of the start site (default: the first site)")
+	fs.StringVar(&l.end, "end", "start", "where the route ends: start (closed tour), free (open, ends at the last visit) or a site id")
+	fs.StringVar(&l.shiftStart, "shift-start", "", "time the route leaves the start, as the file writes times (default: the start site's earliest)")
+	fs.StringVar(&l.done, "done", "", "ids of the visits already made, in order, comma-separated; the rest is planned again from the last one")
+	fs.StringVar(&l.now, "now", "", "time of leaving the last done visit (default: worked out from the done visits)")
+}
+
+func (l *loadFlags) options() (format.Options, error) {
+	unit, err := format.ParseUnit(l.matrixUnit)
+	if err != nil {
+		return format.Options{}, usageError{"--" + err.Error()}
+	}
+	o := format.Options{MatrixName: l.matrix, MatrixUnit: unit, Speed: l.speed, RoadFactor: l.roadFactor,
+		Start: l.start, End: l.end, ShiftStart: l.shiftStart, Now: l.now}
+	if l.done != "" {
+		for _, id := range strings.Split(l.done, ",") {
+			o.Done = append(o.Done, strings.TrimSpace(id))
+		}
+	}
+	return o, nil
 }
 
 func runSolve(args []string, stdout, stderr io.Writer) error {
@@ -35,28 +77,48 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	fs.StringVar(&f.mix, "mix", "", "starting weights of the destroy operators, e.g. random=1,slice=1,related=1,worst=1")
 	fs.BoolVar(&f.fixedMix, "fixed-mix", false, "keep the mix as given instead of adapting it")
 	fs.StringVar(&f.objective, "objective", "travel", "travel (sum of arcs) or completion (end time, waiting counted)")
-	fs.StringVar(&f.format, "format", "table", "output: table, json or csv")
+	fs.StringVar(&f.format, "format", "table", "output: table, json, csv or ics (iCalendar)")
+	fs.StringVar(&f.date, "date", "", "day of the plan for --format ics when the sites file has no dates, YYYY-MM-DD (default: today)")
 	fs.BoolVar(&f.quiet, "quiet", false, "no progress on stderr")
+	fs.IntVar(&f.workers, "workers", 0, fmt.Sprintf("searches side by side, sharing the best plan (default: the number of cores, %d; but 1 with --iterations, so that a seed reproduces the run)", runtime.NumCPU()))
+	f.load.register(fs)
 	fs.Usage = func() {
-		fmt.Fprintln(stderr, "usage: visitline solve [flags] FILE")
+		fmt.Fprintln(stderr, "usage: visitline solve [flags] SITES.csv|BENCHMARK.txt")
 		fs.PrintDefaults()
 	}
-	if err := fs.Parse(args); err != nil {
+	pos, err := parseArgs(fs, args)
+	if err != nil {
 		if errors.Is(err, flag.ErrHelp) {
 			return nil
 		}
 		return usageError{err.Error()}
 	}
-	if fs.NArg() != 1 {
+	if len(pos) != 1 {
 		return usageError{"want exactly one input FILE (see visitline solve -h)"}
 	}
 	switch f.format {
-	case "table", "json", "csv":
+	case "table", "json", "csv", "ics":
 	default:
-		return usageError{fmt.Sprintf("--format %q: want table, json or csv", f.format)}
+		return usageError{fmt.Sprintf("--format %q: want table, json, csv or ics", f.format)}
+	}
+	day := time.Now()
+	if f.date != "" {
+		var err error
+		if day, err = time.Parse("2006-01-02", f.date); err != nil {
+			return usageError{fmt.Sprintf("--date %q: want YYYY-MM-DD, e.g. 2026-12-01", f.date)}
+		}
 	}
 	if f.budget <= 0 && f.iterations <= 0 {
 		return usageError{"set a --budget above 0 or an --iterations count, or the search never stops"}
+	}
+	if f.workers < 0 || f.workers == 0 && isSet(fs, "workers") {
+		return usageError{fmt.Sprintf("--workers %d: want 1 or more", f.workers)}
+	}
+	if f.workers == 0 {
+		f.workers = runtime.NumCPU()
+		if f.iterations > 0 {
+			f.workers = 1
+		}
 	}
 	obj, err := solver.ParseObjective(f.objective)
 	if err != nil {
@@ -66,28 +128,38 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return usageError{"--mix: " + err.Error()}
 	}
-	in, err := loadInstance(fs.Arg(0))
+	opt, err := f.load.options()
 	if err != nil {
 		return err
 	}
+	d, err := loadDataset(pos[0], opt)
+	if err != nil {
+		return err
+	}
+	for _, w := range d.Warnings {
+		fmt.Fprintf(stderr, "warning: %s\n", w)
+	}
+	in := d.Instance
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
-	s := solver.Settings{Budget: f.budget, Iterations: f.iterations, Seed: f.seed, Mix: mix, FixedMix: f.fixedMix, Objective: obj}
+	s := solver.Settings{Budget: f.budget, Iterations: f.iterations, Seed: f.seed, Mix: mix, FixedMix: f.fixedMix, Objective: obj, Workers: f.workers}
 	if !f.quiet {
 		s.OnImprove = func(p solver.Plan) {
 			state := "feasible"
 			if !p.Feasible {
-				state = fmt.Sprintf("lateness %g", in.Float(p.Schedule.TotalLateness))
+				state = "lateness " + d.FormatDuration(p.Schedule.TotalLateness)
 			}
-			fmt.Fprintf(stderr, "%8.3fs  iter %-8d cost %-12g %s (%s)\n", p.Elapsed.Seconds(), p.Iteration, in.Float(p.Cost), state, p.Operator)
+			fmt.Fprintf(stderr, "%8.3fs  iter %-8d cost %-12s %s (%s)\n", p.Elapsed.Seconds(), p.Iteration, d.FormatDuration(p.Cost), state, p.Operator)
 		}
 	}
 	res, err := solver.Solve(ctx, in, s)
 	if err != nil {
 		return err
 	}
-	j := format.NewPlanJSON(in, obj, res.Best, &res)
+	j := d.PlanJSON(obj, res.Best, &res)
 	switch f.format {
+	case "ics":
+		return format.WriteICS(stdout, d, res.Best, format.ICSOptions{Date: day, Stamp: time.Now()})
 	case "json":
 		return format.WriteJSON(stdout, j)
 	case "csv":
@@ -96,14 +168,40 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	return format.WriteTable(stdout, j)
 }
 
-// loadInstance opens and reads an instance file, naming it in every error.
+// loadInstance reads an instance file with default options (bench).
 func loadInstance(path string) (*solver.Instance, error) {
+	d, err := loadDataset(path, format.Options{})
+	if err != nil {
+		return nil, err
+	}
+	return d.Instance, nil
+}
+
+// loadDataset opens the instance file (a sites file or a benchmark file)
+// and the matrix named in opt, naming them in every error; format.Load
+// does the rest, as it does for the page.
+func loadDataset(path string, opt format.Options) (*format.Dataset, error) {
 	fh, err := os.Open(path)
 	if err != nil {
 		return nil, fmt.Errorf("%s: cannot open: %w", path, unwrapPath(err))
 	}
 	defer fh.Close()
-	return format.ReadBenchmark(fh, path)
+	opt.SitesName = path
+	var matrix io.Reader
+	if opt.MatrixName != "" {
+		mh, err := os.Open(opt.MatrixName)
+		if err != nil {
+			return nil, fmt.Errorf("%s: cannot open: %w", opt.MatrixName, unwrapPath(err))
+		}
+		defer mh.Close()
+		matrix = mh
+	}
+	d, err := format.Load(fh, matrix, opt)
+	var oe *format.OptionError
+	if errors.As(err, &oe) {
+		return nil, usageError{"--" + oe.Error()}
+	}
+	return d, err
 }
 
 func unwrapPath(err error) error {
@@ -112,4 +210,15 @@ func unwrapPath(err error) error {
 		return pe.Err
 	}
 	return err
+}
+
+// isSet says whether the flag name was given on the command line.
+func isSet(fs *flag.FlagSet, name string) bool {
+	set := false
+	fs.Visit(func(f *flag.Flag) {
+		if f.Name == name {
+			set = true
+		}
+	})
+	return set
 }

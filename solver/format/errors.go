@@ -21,25 +21,54 @@ type ParseError struct {
 }
 
 func (e *ParseError) Error() string {
+	return place(e.File, e.Line, e.Column, e.Field) + e.Msg
+}
+
+// place writes "file:line:column: field: " for errors and warnings. Text
+// without a file name is pasted text.
+func place(file string, line, col int, field string) string {
 	var b strings.Builder
-	if e.File != "" {
-		b.WriteString(e.File)
+	if file != "" {
+		b.WriteString(file)
 	} else {
-		b.WriteString("input")
+		b.WriteString("pasted text")
 	}
-	if e.Line > 0 {
-		fmt.Fprintf(&b, ":%d", e.Line)
-		if e.Column > 0 {
-			fmt.Fprintf(&b, ":%d", e.Column)
+	if line > 0 {
+		fmt.Fprintf(&b, ":%d", line)
+		if col > 0 {
+			fmt.Fprintf(&b, ":%d", col)
 		}
 	}
 	b.WriteString(": ")
-	if e.Field != "" {
-		b.WriteString(e.Field)
+	if field != "" {
+		b.WriteString(field)
 		b.WriteString(": ")
 	}
-	b.WriteString(e.Msg)
 	return b.String()
+}
+
+// Warning is suspicious but legal input: the data loads, and the user
+// should look at the place named.
+type Warning struct {
+	File   string
+	Line   int
+	Column int
+	Field  string
+	Msg    string
+}
+
+func (w Warning) String() string { return place(w.File, w.Line, w.Column, w.Field) + w.Msg }
+
+// OptionError is a bad option value (a command-line flag or a setting of
+// the page), named as Option.
+type OptionError struct {
+	Option string // "end", "now", "speed", ...
+	Value  string
+	Msg    string
+}
+
+func (e *OptionError) Error() string {
+	return fmt.Sprintf("%s %q: %s", e.Option, e.Value, e.Msg)
 }
 
 func (e *ParseError) Unwrap() error { return e.Err }

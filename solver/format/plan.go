@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 	"strings"
 	"time"
@@ -24,6 +25,14 @@ type PlanVisit struct {
 	Latest    float64 `json:"latest"`
 	Slack     float64 `json:"slack"`
 	Lateness  float64 `json:"lateness,omitempty"`
+	// Filled for sites files: the site name, and for clock-time files the
+	// times as written there (08:30, or 2026-12-01 08:30; "open").
+	Name           string `json:"name,omitempty"`
+	ArrivalClock   string `json:"arrival_clock,omitempty"`
+	StartClock     string `json:"start_clock,omitempty"`
+	DepartureClock string `json:"departure_clock,omitempty"`
+	EarliestClock  string `json:"earliest_clock,omitempty"`
+	LatestClock    string `json:"latest_clock,omitempty"`
 }
 
 // Late names a visit that misses its window and by how much (input units).
@@ -61,6 +70,20 @@ type PlanJSON struct {
 	// Filled when the windows cannot all be met.
 	Conflict []string `json:"conflict,omitempty"`
 	Reason   string   `json:"reason,omitempty"`
+	// Filled for sites files. Unit is "min": every number above is in
+	// minutes. Times is "minutes", "clock" or "dated"; TimeOrigin is what
+	// time 0 is (the reference, midnight, or midnight of a date).
+	Unit         string `json:"unit,omitempty"`
+	Times        string `json:"times,omitempty"`
+	TimeOrigin   string `json:"time_origin,omitempty"`
+	TravelSource string `json:"travel_source,omitempty"`
+	// Filled when done visits were re-planned away: the route starts at At
+	// (the last done visit) at Now.
+	Done     []string `json:"done,omitempty"`
+	At       string   `json:"at,omitempty"`
+	Now      *float64 `json:"now,omitempty"`
+	NowClock string   `json:"now_clock,omitempty"`
+	Warnings []string `json:"warnings,omitempty"`
 }
 
 // NewPlanJSON converts a plan of in (and the run's statistics) for output.
@@ -91,6 +114,51 @@ func NewPlanJSON(in *solver.Instance, obj solver.Objective, p solver.Plan, res *
 	}
 	if res != nil {
 		j.Iterations, j.Seconds, j.Improvements, j.Stop = res.Iterations, res.Elapsed.Seconds(), res.Improvements, res.Stop
+	}
+	return j
+}
+
+// PlanJSON converts a plan of d's instance for output, with site names,
+// clock times and the dataset's warnings.
+func (d *Dataset) PlanJSON(obj solver.Objective, p solver.Plan, res *solver.Result) PlanJSON {
+	in := d.Instance
+	j := NewPlanJSON(in, obj, p, res)
+	for _, w := range d.Warnings {
+		j.Warnings = append(j.Warnings, w.String())
+	}
+	if d.Unit == "" {
+		return j
+	}
+	j.Unit, j.Times, j.TravelSource = d.Unit, d.Time.Mode.String(), d.Travel
+	switch d.Time.Mode {
+	case Minutes:
+		j.TimeOrigin = "reference"
+	case Clock:
+		j.TimeOrigin = "00:00"
+	case Dated:
+		j.TimeOrigin = d.Time.Origin.Format("2006-01-02") + " 00:00"
+	}
+	clock := d.Time.Mode != Minutes
+	fill := func(pv *PlanVisit, v solver.Visit) {
+		pv.Name = d.Names[v.Node]
+		if clock {
+			pv.ArrivalClock, pv.StartClock, pv.DepartureClock = d.Time.Format(v.Arrival), d.Time.Format(v.Start), d.Time.Format(v.Departure)
+			pv.EarliestClock, pv.LatestClock = d.Time.Format(in.Early[v.Node]), d.Time.Format(in.Late[v.Node])
+		}
+	}
+	for k, v := range p.Schedule.Visits {
+		fill(&j.Schedule[k], v)
+	}
+	if j.Return != nil {
+		fill(j.Return, p.Schedule.Return)
+	}
+	if d.At != "" {
+		j.Done, j.At = append([]string{}, d.Done...), d.At
+		now := in.Float(d.Now)
+		j.Now = &now
+		if clock {
+			j.NowClock = d.Time.Format(d.Now)
+		}
 	}
 	return j
 }
@@ -126,16 +194,48 @@ func ReadPlanRoute(r io.Reader, name string) ([]int, error) {
 	return j.Route, nil
 }
 
-// CSVHeader is the header row of WriteCSV.
-var CSVHeader = []string{"order", "site", "arrival", "start", "wait", "departure", "earliest", "latest", "slack", "lateness"}
+// ReadPlanRouteFor reads the route of a plan for in. When the plan also
+// has route_ids, they must name in's sites at the same places: a plan
+// made from other data, or with other options, is refused.
+func ReadPlanRouteFor(r io.Reader, name string, in *solver.Instance) ([]int, error) {
+	var j struct {
+		Route    []int    `json:"route"`
+		RouteIDs []string `json:"route_ids"`
+	}
+	data, err := io.ReadAll(io.LimitReader(r, MaxInputBytes))
+	if err != nil {
+		return nil, &ParseError{File: name, Msg: "cannot read: " + err.Error(), Err: err}
+	}
+	route, err := ReadPlanRoute(strings.NewReader(string(data)), name)
+	if err != nil {
+		return nil, err
+	}
+	if json.Unmarshal(data, &j) != nil || j.RouteIDs == nil {
+		return route, nil
+	}
+	if len(j.RouteIDs) != len(route) {
+		return nil, &ParseError{File: name, Field: "route_ids", Msg: fmt.Sprintf("has %d ids but route has %d nodes", len(j.RouteIDs), len(route))}
+	}
+	for k, v := range route {
+		if v >= 0 && v < in.N && in.ID(v) != j.RouteIDs[k] {
+			return nil, &ParseError{File: name, Field: "route_ids",
+				Msg: fmt.Sprintf("place %d is node %d, which is %q here, but the plan says %q: was the plan made from other data or other options (--start, --end, --done)?", k, v, in.ID(v), j.RouteIDs[k])}
+		}
+	}
+	return route, nil
+}
 
-// WriteCSV writes one row per visit (and the return of a closed tour).
+// CSVHeader is the header row of WriteCSV.
+var CSVHeader = []string{"order", "site", "name", "arrival", "start", "wait", "departure", "earliest", "latest", "slack", "lateness"}
+
+// WriteCSV writes one row per visit (and the return of a closed tour). Times
+// are clock times where the sites file had them; durations are in the
+// input's unit (minutes for sites files, rounded to two decimals).
 func WriteCSV(w io.Writer, in *solver.Instance, j PlanJSON) error {
 	cw := csv.NewWriter(w)
 	if err := cw.Write(CSVHeader); err != nil {
 		return err
 	}
-	num := func(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
 	rows := j.Schedule
 	if j.Return != nil {
 		rows = append(append([]PlanVisit(nil), rows...), *j.Return)
@@ -145,8 +245,8 @@ func WriteCSV(w io.Writer, in *solver.Instance, j PlanJSON) error {
 		if j.Return != nil && k == len(rows)-1 {
 			order = "return"
 		}
-		if err := cw.Write([]string{order, v.ID, num(v.Arrival), num(v.Start), num(v.Wait), num(v.Departure),
-			num(v.Earliest), num(v.Latest), num(v.Slack), num(v.Lateness)}); err != nil {
+		tm := v.times(j)
+		if err := cw.Write([]string{order, v.ID, v.Name, tm[0], tm[1], j.dur(v.Wait), tm[2], tm[3], tm[4], j.dur(v.Slack), j.dur(v.Lateness)}); err != nil {
 			return err
 		}
 	}
@@ -154,44 +254,127 @@ func WriteCSV(w io.Writer, in *solver.Instance, j PlanJSON) error {
 	return cw.Error()
 }
 
+// times are arrival, start, departure, earliest and latest as written.
+func (v PlanVisit) times(j PlanJSON) [5]string {
+	if v.StartClock != "" {
+		return [5]string{v.ArrivalClock, v.StartClock, v.DepartureClock, v.EarliestClock, v.LatestClock}
+	}
+	return [5]string{j.dur(v.Arrival), j.dur(v.Start), j.dur(v.Departure), j.dur(v.Earliest), j.dur(v.Latest)}
+}
+
+// dur writes a number of the plan's unit: minutes of a sites file rounded
+// to two decimals, benchmark units as they are.
+func (j PlanJSON) dur(v float64) string {
+	if j.Unit != "min" {
+		return fnum(v)
+	}
+	// Slack against an open window is "open" too.
+	if v >= float64(solver.Horizon)/float64(SitesScale)/4 {
+		return "open"
+	}
+	return strconv.FormatFloat(math.Round(v*100)/100, 'f', -1, 64)
+}
+
 // WriteTable writes a plain-text table for a terminal.
 func WriteTable(w io.Writer, j PlanJSON) error {
 	var b strings.Builder
 	status := "all windows met"
 	if !j.Feasible {
-		status = fmt.Sprintf("%d late, total lateness %s", len(j.Late), fnum(j.TotalLateness))
+		status = fmt.Sprintf("%d late, total lateness %s", len(j.Late), j.dur(j.TotalLateness))
 	}
-	fmt.Fprintf(&b, "%s  objective %s  cost %s  (%s)\n", j.Instance, j.Objective, fnum(j.Cost), status)
+	unit := ""
+	if j.Unit != "" {
+		unit = " " + j.Unit
+	}
+	fmt.Fprintf(&b, "%s  objective %s  cost %s%s  (%s)\n", j.Instance, j.Objective, j.dur(j.Cost), unit, status)
+	if j.At != "" {
+		now := j.NowClock
+		if now == "" && j.Now != nil {
+			now = j.dur(*j.Now)
+		}
+		fmt.Fprintf(&b, "re-planned from %s at %s; done: %s\n", j.At, now, strings.Join(j.Done, ", "))
+	}
 	if j.LowerBound != nil {
 		if j.ProvenOptimal {
-			fmt.Fprintf(&b, "lower bound %s: optimal\n", fnum(*j.LowerBound))
+			fmt.Fprintf(&b, "lower bound %s: optimal\n", j.dur(*j.LowerBound))
 		} else if j.GapBoundPct != nil {
-			fmt.Fprintf(&b, "lower bound %s: at most %.2f%% above optimal\n", fnum(*j.LowerBound), *j.GapBoundPct)
+			fmt.Fprintf(&b, "lower bound %s: at most %.2f%% above optimal\n", j.dur(*j.LowerBound), *j.GapBoundPct)
 		}
 	}
-	fmt.Fprintf(&b, "%5s  %-12s %10s %10s %8s %10s %21s %8s\n", "order", "site", "arrival", "start", "wait", "departure", "window", "slack")
 	rows := j.Schedule
 	if j.Return != nil {
 		rows = append(append([]PlanVisit(nil), rows...), *j.Return)
 	}
+	// A dated plan on one day prints the date once, above the table.
+	times := make([][5]string, len(rows))
+	day := ""
+	for k, v := range rows {
+		times[k] = v.times(j)
+		for _, t := range times[k] {
+			if d, _, ok := strings.Cut(t, " "); ok && len(d) == 10 && d[4] == '-' && (day == "" || day == d) {
+				day = d
+			} else if t != "open" {
+				day = "-"
+			}
+		}
+	}
+	if day != "" && day != "-" {
+		fmt.Fprintf(&b, "date %s\n", day)
+		for k := range times {
+			for i, t := range times[k] {
+				times[k][i] = strings.TrimPrefix(t, day+" ")
+			}
+		}
+	}
+	names := false
+	tw := 10
+	for k, v := range rows {
+		names = names || v.Name != ""
+		for _, t := range times[k] {
+			if len(t) > tw {
+				tw = len(t)
+			}
+		}
+	}
+	fmt.Fprintf(&b, "%5s  %-12s %*s %*s %8s %*s %*s %8s", "order", "site", tw, "arrival", tw, "start", "wait", tw, "departure", 2*tw+4, "window", "slack")
+	if names {
+		b.WriteString("  name")
+	}
+	b.WriteString("\n")
 	for k, v := range rows {
 		order := strconv.Itoa(k)
 		if j.Return != nil && k == len(rows)-1 {
 			order = "back"
 		}
-		mark := ""
-		if v.Lateness > 0 {
-			mark = "  LATE by " + fnum(v.Lateness)
+		tm := times[k]
+		fmt.Fprintf(&b, "%5s  %-12s %*s %*s %8s %*s %*s %8s", order, v.ID, tw, tm[0], tw, tm[1], j.dur(v.Wait),
+			tw, tm[2], 2*tw+4, "["+tm[3]+", "+tm[4]+"]", j.dur(v.Slack))
+		if names {
+			b.WriteString("  " + v.Name)
 		}
-		fmt.Fprintf(&b, "%5s  %-12s %10s %10s %8s %10s %21s %8s%s\n", order, v.ID, fnum(v.Arrival), fnum(v.Start), fnum(v.Wait),
-			fnum(v.Departure), "["+fnum(v.Earliest)+", "+fnum(v.Latest)+"]", fnum(v.Slack), mark)
+		if v.Lateness > 0 {
+			b.WriteString("  LATE by " + j.dur(v.Lateness))
+		}
+		b.WriteString("\n")
 	}
-	fmt.Fprintf(&b, "travel %s  completion %s  iterations %d  %.2fs (best at %.2fs, by %s)\n", fnum(j.Travel), fnum(j.Completion), j.Iterations, j.Seconds, j.SecondsToBest, j.FoundBy)
+	fmt.Fprintf(&b, "travel %s  completion %s  iterations %d  %.2fs (best at %.2fs, by %s)\n", j.dur(j.Travel),
+		completion(j), j.Iterations, j.Seconds, j.SecondsToBest, j.FoundBy)
 	if j.Reason != "" {
 		fmt.Fprintf(&b, "why: %s\n", j.Reason)
 	}
 	_, err := io.WriteString(w, b.String())
 	return err
+}
+
+// completion writes the end time as the schedule's times are written.
+func completion(j PlanJSON) string {
+	if n := len(j.Schedule); n > 0 && j.Schedule[0].StartClock != "" {
+		if j.Return != nil {
+			return j.Return.ArrivalClock
+		}
+		return j.Schedule[n-1].DepartureClock
+	}
+	return j.dur(j.Completion)
 }
 
 func fnum(v float64) string {

@@ -1,0 +1,138 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+func ex(parts ...string) string {
+	return filepath.Join(append([]string{"..", "..", "examples"}, parts...)...)
+}
+
+func runCmd(args ...string) (code int, stdout, stderr string) {
+	var o, e bytes.Buffer
+	code = run(args, &o, &e)
+	return code, o.String(), e.String()
+}
+
+// Deterministic and quick: an iteration budget, no time budget.
+var quick = []string{"--budget", "0", "--iterations", "50", "--seed", "1", "--quiet"}
+
+func solveArgs(extra ...string) []string {
+	return append(append([]string{"solve"}, quick...), extra...)
+}
+
+func TestSolveBakeryJSON(t *testing.T) {
+	code, out, errOut := runCmd(solveArgs("--format", "json", "--matrix", ex("bakery", "travel.csv"), ex("bakery", "sites.csv"))...)
+	require.Equal(t, 0, code, errOut)
+	var j map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &j))
+	assert.Equal(t, true, j["feasible"])
+	assert.Equal(t, "min", j["unit"])
+	assert.Equal(t, "clock", j["times"])
+	ids := j["route_ids"].([]any)
+	assert.Len(t, ids, 13)
+	assert.Equal(t, "BAK", ids[0])
+	sched := j["schedule"].([]any)
+	assert.Equal(t, "04:35", sched[0].(map[string]any)["start_clock"])
+}
+
+func TestSolveFlagsAfterFile(t *testing.T) {
+	code, out, errOut := runCmd(solveArgs(ex("art", "sites.csv"), "--matrix", ex("art", "travel.tsv"), "--end", "SOUTH", "--format", "csv")...)
+	require.Equal(t, 0, code, errOut)
+	lines := strings.Split(strings.TrimSpace(out), "\n")
+	assert.Equal(t, "order,site,name,arrival,start,wait,departure,earliest,latest,slack,lateness", lines[0])
+	assert.Len(t, lines, 9, "header and eight stops; an open path has no return row")
+	assert.True(t, strings.HasPrefix(lines[8], "7,SOUTH,"), lines[8])
+	assert.Contains(t, lines[1], "2026-12-03 07:00")
+}
+
+func TestSolveBoilerICS(t *testing.T) {
+	code, out, errOut := runCmd(solveArgs("--format", "ics", "--date", "2026-12-01", ex("boiler", "sites.csv"))...)
+	require.Equal(t, 0, code, errOut)
+	assert.True(t, strings.HasPrefix(out, "BEGIN:VCALENDAR\r\nVERSION:2.0\r\n"))
+	assert.Equal(t, 10, strings.Count(out, "BEGIN:VEVENT"), "nine visits and the yard's loading time")
+	assert.Contains(t, out, "DTSTART:20261201T08")
+}
+
+func TestSolveOverbookedShowsLate(t *testing.T) {
+	// The lateness search of a day that cannot be met is costly per
+	// iteration: a small budget keeps the test quick.
+	code, out, errOut := runCmd("solve", "--budget", "0", "--iterations", "5", "--quiet", ex("boiler", "sites-overbooked.csv"))
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "LATE by")
+}
+
+func TestSolveReplan(t *testing.T) {
+	code, out, errOut := runCmd(solveArgs("--matrix", ex("bakery", "travel.csv"), "--done", "C07,C10,C06", "--now", "05:50", ex("bakery", "sites.csv"))...)
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "re-planned from C06 at 05:50; done: C07, C10, C06")
+	assert.NotContains(t, out, " C07 ")
+}
+
+func TestSolveThenCheck(t *testing.T) {
+	dir := t.TempDir()
+	plan := filepath.Join(dir, "plan.json")
+	args := []string{"--matrix", ex("art", "travel.tsv"), "--end", "SOUTH"}
+	code, out, errOut := runCmd(solveArgs(append(append([]string{"--format", "json"}, args...), ex("art", "sites.csv"))...)...)
+	require.Equal(t, 0, code, errOut)
+	require.NoError(t, os.WriteFile(plan, []byte(out), 0o644))
+	code, out, errOut = runCmd(append(append([]string{"check"}, args...), ex("art", "sites.csv"), plan)...)
+	assert.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "feasible; travel")
+	// Checked against the data read another way, the plan's ids disagree.
+	code, _, errOut = runCmd("check", "--matrix", ex("art", "travel.tsv"), "--end", "SOUTH", "--done", "G1", ex("art", "sites.csv"), plan)
+	assert.Equal(t, 1, code)
+	assert.Contains(t, errOut, "route_ids")
+}
+
+func TestBenchmarkFileStillSolves(t *testing.T) {
+	code, out, errOut := runCmd(solveArgs(ex("warehouse", "picks.txt"))...)
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "objective travel")
+}
+
+func TestSolveErrors(t *testing.T) {
+	dir := t.TempDir()
+	bad := filepath.Join(dir, "bad.csv")
+	require.NoError(t, os.WriteFile(bad, []byte("id,open,close\nA,08:00,07:00\n"), 0o644))
+	cases := []struct {
+		name string
+		args []string
+		code int
+		want string
+	}{
+		{"unknown end", []string{"--matrix", ex("bakery", "travel.csv"), "--end", "NOPE", ex("bakery", "sites.csv")}, 2, `--end "NOPE": no site has this id`},
+		{"matrix unit", []string{"--matrix-unit", "hours", ex("boiler", "sites.csv")}, 2, `--matrix-unit "hours": want minutes or seconds`},
+		{"bad window", []string{bad}, 1, bad + `:2:3: latest (column "close"): 07:00 is before the earliest 08:00`},
+		{"missing matrix", []string{"--matrix", filepath.Join(dir, "none.csv"), bad}, 1, "none.csv: cannot open: no such file or directory"},
+		{"bad date", []string{"--format", "ics", "--date", "1.12.2026", ex("boiler", "sites.csv")}, 2, `--date "1.12.2026": want YYYY-MM-DD`},
+		{"matrix for a benchmark", []string{"--matrix", ex("bakery", "travel.csv"), ex("warehouse", "picks.txt")}, 1, "is in the benchmark matrix format"},
+		{"ics of a benchmark", []string{"--format", "ics", ex("warehouse", "picks.txt")}, 1, "a calendar needs a sites file with clock times"},
+		{"two files", []string{ex("boiler", "sites.csv"), ex("boiler", "sites.csv")}, 2, "want exactly one input FILE"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			code, _, errOut := runCmd(solveArgs(c.args...)...)
+			assert.Equal(t, c.code, code)
+			assert.Contains(t, errOut, c.want)
+			assert.NotContains(t, errOut, "goroutine", "no stack traces")
+		})
+	}
+}
+
+func TestSolvePrintsWarnings(t *testing.T) {
+	dir := t.TempDir()
+	sites := filepath.Join(dir, "s.csv")
+	require.NoError(t, os.WriteFile(sites, []byte("id,open,close,x,y\nD,08:00,12:00,0,0\nA,08:05,08:10,50,0\n"), 0o644))
+	code, _, errOut := runCmd(solveArgs(sites)...)
+	assert.Equal(t, 0, code)
+	assert.Contains(t, errOut, "warning: "+sites+":3: A: cannot be reached in time even as the first visit")
+}

@@ -1,0 +1,311 @@
+package format
+
+import (
+	"fmt"
+	"io"
+	"strings"
+)
+
+// Unit is the unit of the numbers in a travel matrix.
+type Unit int
+
+const (
+	// UnitMinutes: plain numbers are minutes; H:MM is also read.
+	UnitMinutes Unit = iota
+	// UnitSeconds: plain numbers are seconds.
+	UnitSeconds
+)
+
+func (u Unit) String() string {
+	if u == UnitSeconds {
+		return "seconds"
+	}
+	return "minutes"
+}
+
+// ParseUnit reads "minutes" (or "min", "") and "seconds" (or "s", "sec").
+func ParseUnit(s string) (Unit, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "", "minutes", "minute", "min", "m":
+		return UnitMinutes, nil
+	case "seconds", "second", "sec", "s":
+		return UnitSeconds, nil
+	}
+	return 0, &OptionError{Option: "matrix-unit", Value: s, Msg: "want minutes or seconds"}
+}
+
+// Matrix is a travel matrix matched to the sites: Travel[i*N+j] is the
+// time from site i to site j in internal units (SitesScale per minute).
+type Matrix struct {
+	Name   string
+	N      int
+	Travel []int64
+	// rowLine[i] is the line of site i's row; col[j] the 1-based column of
+	// site j's times. Warnings use them to point at a cell.
+	rowLine []int
+	col     []int
+}
+
+// Pos returns the line and column of the cell from site i to site j.
+func (m *Matrix) Pos(i, j int) (line, col int) { return m.rowLine[i], m.col[j] }
+
+// MatrixReader reads a square travel matrix as pasted from a spreadsheet:
+// n rows of n times, optionally with a header row of site ids and a first
+// column of site ids, which may list the sites in any order. Without ids
+// the rows and columns follow the order of the sites file. The matrix may
+// be asymmetric; the diagonal may be empty.
+type MatrixReader struct {
+	// Name is the file name used in errors ("" for pasted text).
+	Name string
+	// Comma is the field delimiter; 0 picks tab, semicolon or comma, or
+	// runs of spaces when none of them occurs.
+	Comma rune
+	// Unit of the numbers.
+	Unit Unit
+	r    io.Reader
+}
+
+// NewMatrixReader returns a reader of r.
+func NewMatrixReader(r io.Reader) *MatrixReader { return &MatrixReader{r: r} }
+
+// ReadMatrix reads a travel matrix for the sites ids.
+func ReadMatrix(r io.Reader, name string, unit Unit, ids []string) (*Matrix, error) {
+	mr := NewMatrixReader(r)
+	mr.Name, mr.Unit = name, unit
+	return mr.Read(ids)
+}
+
+// Read reads the matrix and matches it to ids (the sites in file order).
+func (mr *MatrixReader) Read(ids []string) (*Matrix, error) {
+	text, err := readText(mr.r, mr.Name)
+	if err != nil {
+		return nil, err
+	}
+	comma := mr.Comma
+	if c, t := sepLine(text); c != 0 {
+		text = t
+		if comma == 0 {
+			comma = c
+		}
+	}
+	if comma == 0 {
+		comma = sniffComma(text)
+	}
+	recs, err := readRecords(text, mr.Name, comma)
+	if err != nil {
+		return nil, err
+	}
+	return parseMatrix(recs, mr.Name, comma, mr.Unit, ids)
+}
+
+func parseMatrix(recs []record, name string, comma rune, unit Unit, ids []string) (*Matrix, error) {
+	n := len(ids)
+	commaDecimal := comma != ','
+	if len(recs) == 0 {
+		return nil, &ParseError{File: name, Line: 1, Field: "travel matrix", Msg: fmt.Sprintf("no data; want %d rows of %d travel times", n, n)}
+	}
+	isNum := func(s string) bool {
+		if s == "" || s == "-" {
+			return true
+		}
+		_, msg := travelValue(s, unit, commaDecimal)
+		return msg == ""
+	}
+	// Spreadsheets may end every row with an empty cell: drop such
+	// trailing columns while the rows are wider than they need be.
+	for {
+		trim := len(recs) > 0
+		for _, r := range recs {
+			if len(r.fields) <= n || r.fields[len(r.fields)-1] != "" {
+				trim = false
+				break
+			}
+		}
+		if !trim {
+			break
+		}
+		for k := range recs {
+			recs[k].fields = recs[k].fields[:len(recs[k].fields)-1]
+		}
+	}
+	byID := make(map[string]int, n)
+	for i, id := range ids {
+		byID[id] = i
+	}
+	// A header row is there if the first row holds something that is not a
+	// time, or if the row count says so (ids may be numbers).
+	first := recs[0].fields
+	headerByText := false
+	for c, f := range first {
+		if c == 0 && len(first) == n+1 {
+			continue // the corner cell may hold anything ("from\to")
+		}
+		if !isNum(f) {
+			headerByText = true
+			break
+		}
+	}
+	hasHeader := len(recs) == n+1 || headerByText
+	data := recs
+	var header record
+	if hasHeader {
+		header, data = recs[0], recs[1:]
+	}
+	shapeErr := func(line int, msg string) error {
+		return &ParseError{File: name, Line: line, Field: "travel matrix",
+			Msg: msg + fmt.Sprintf("; the sites file has %d sites, so want %d rows of %d travel times (optionally with a header row and a first column of site ids)", n, n, n)}
+	}
+	if len(data) != n {
+		line := recs[len(recs)-1].line
+		if len(data) > n {
+			line = data[n].line
+		}
+		msg := fmt.Sprintf("%d rows of times", len(data))
+		if headerByText && len(recs) == n {
+			msg += fmt.Sprintf(" (line %d was taken as a header of site ids because it holds %q, which is not a travel time)", recs[0].line, firstNonTime(first, isNum))
+		}
+		return nil, shapeErr(line, msg)
+	}
+	width := len(data[0].fields)
+	hasLabels := width == n+1 || !isNum(data[0].fields[0]) && width > 1
+	if hasLabels && width != n+1 || !hasLabels && width != n {
+		return nil, shapeErr(data[0].line, fmt.Sprintf("row 1 of the times has %d values", width))
+	}
+	for r, rec := range data {
+		if len(rec.fields) != width {
+			return nil, &ParseError{File: name, Line: rec.line, Field: "travel matrix",
+				Msg: fmt.Sprintf("row %d has %d values but row 1 has %d; the matrix must be square (%d×%d)", r+1, len(rec.fields), width, n, n)}
+		}
+	}
+	off := 0
+	if hasLabels {
+		off = 1
+	}
+	m := &Matrix{Name: name, N: n, Travel: make([]int64, n*n), rowLine: make([]int, n), col: make([]int, n)}
+	// Column c of the times (0-based, labels excluded) belongs to site colSite[c].
+	colSite := make([]int, n)
+	rowSite := make([]int, n)
+	for c := range colSite {
+		colSite[c] = c
+		rowSite[c] = c
+	}
+	// seen maps a site to where it was first named ("column 3", "line 4").
+	match := func(label string, line, col int, what string, seen map[int]string, here string) (int, error) {
+		i, ok := byID[label]
+		if !ok {
+			hint := ""
+			for _, id := range ids {
+				if strings.EqualFold(id, label) {
+					hint = fmt.Sprintf(" (did you mean %q? ids match exactly)", id)
+				}
+			}
+			return 0, &ParseError{File: name, Line: line, Column: col, Field: what,
+				Msg: fmt.Sprintf("%q is not a site id of the sites file%s; every row and column must name a site", label, hint)}
+		}
+		if prev, dup := seen[i]; dup {
+			return 0, &ParseError{File: name, Line: line, Column: col, Field: what,
+				Msg: fmt.Sprintf("%q appears twice (first at %s); each site gets one row and one column", label, prev)}
+		}
+		seen[i] = here
+		return i, nil
+	}
+	if hasHeader {
+		labels := header.fields
+		start := 0
+		switch {
+		case len(labels) == n+1:
+			start = 1
+		case len(labels) == n:
+		default:
+			return nil, shapeErr(header.line, fmt.Sprintf("the header row has %d cells", len(labels)))
+		}
+		if start == 1 && !hasLabels {
+			return nil, &ParseError{File: name, Line: header.line, Field: "travel matrix",
+				Msg: fmt.Sprintf("the header row has %d cells but the rows have no site id in front; drop the first header cell or add the ids", len(labels))}
+		}
+		seen := map[int]string{}
+		for c := 0; c < n; c++ {
+			i, err := match(labels[start+c], header.line, start+c+1, "header", seen, fmt.Sprintf("column %d", start+c+1))
+			if err != nil {
+				return nil, err
+			}
+			colSite[c] = i
+		}
+	}
+	if hasLabels {
+		seen := map[int]string{}
+		for r, rec := range data {
+			i, err := match(rec.fields[0], rec.line, 1, "row id", seen, fmt.Sprintf("line %d", rec.line))
+			if err != nil {
+				return nil, err
+			}
+			rowSite[r] = i
+		}
+		if !hasHeader {
+			// Rows named, columns not: the columns follow the rows' order.
+			copy(colSite, rowSite)
+		}
+	} else if hasHeader {
+		copy(rowSite, colSite)
+	}
+	for r, rec := range data {
+		i := rowSite[r]
+		m.rowLine[i] = rec.line
+		for c := 0; c < n; c++ {
+			j := colSite[c]
+			m.col[j] = c + off + 1
+			t := rec.fields[c+off]
+			field := fmt.Sprintf("travel time from %s to %s", ids[i], ids[j])
+			if i == j && (t == "" || t == "-") {
+				continue
+			}
+			if t == "" {
+				return nil, &ParseError{File: name, Line: rec.line, Column: c + off + 1, Field: field,
+					Msg: fmt.Sprintf("missing; want %s (0 or more)", unit)}
+			}
+			v, msg := travelValue(t, unit, commaDecimal)
+			if msg != "" {
+				return nil, &ParseError{File: name, Line: rec.line, Column: c + off + 1, Field: field, Msg: msg}
+			}
+			if i != j {
+				m.Travel[i*n+j] = v
+			}
+		}
+	}
+	return m, nil
+}
+
+func firstNonTime(fields []string, isNum func(string) bool) string {
+	for _, f := range fields {
+		if !isNum(f) {
+			return f
+		}
+	}
+	return ""
+}
+
+// travelValue reads one travel time in unit.
+func travelValue(s string, unit Unit, commaDecimal bool) (int64, string) {
+	if unit == UnitMinutes {
+		v, msg := parseDuration(s, commaDecimal)
+		if msg != "" {
+			if strings.HasPrefix(strings.TrimSpace(s), "-") {
+				return 0, fmt.Sprintf("%q is negative; travel times must be 0 or more", s)
+			}
+			return 0, fmt.Sprintf("%q is not a travel time; want minutes (12 or 12.5) or H:MM", s)
+		}
+		return v, ""
+	}
+	r, ok := parseDecimal(s, commaDecimal)
+	if !ok {
+		return 0, fmt.Sprintf("%q is not a travel time; want seconds (720 or 720.5)", s)
+	}
+	if r.Sign() < 0 {
+		return 0, fmt.Sprintf("%q is negative; travel times must be 0 or more", s)
+	}
+	v, ok := ratUnits(r, perSecond)
+	if !ok {
+		return 0, fmt.Sprintf("%q seconds is too large", s)
+	}
+	return v, ""
+}

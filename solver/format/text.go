@@ -1,0 +1,269 @@
+package format
+
+import (
+	"bytes"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"math/big"
+	"strings"
+	"unicode/utf16"
+	"unicode/utf8"
+)
+
+// MaxInputBytes bounds what a text reader takes in, so that a wrong file
+// (a video, a disk image) is refused instead of filling memory.
+const MaxInputBytes = 256 << 20
+
+// maxInput is MaxInputBytes, lowered by tests.
+var maxInput = MaxInputBytes
+
+// record is one row of a delimited file with the line it starts on.
+type record struct {
+	line   int
+	fields []string
+}
+
+// readText reads all of r and returns it as UTF-8 text: a UTF-8 byte order
+// mark is dropped, UTF-16 with a byte order mark (what some spreadsheets
+// save as "Unicode text") is decoded, and anything else that is not UTF-8
+// is refused with the line of the first bad byte.
+func readText(r io.Reader, name string) (string, error) {
+	data, err := io.ReadAll(io.LimitReader(r, int64(maxInput)+1))
+	if err != nil {
+		return "", &ParseError{File: name, Msg: "cannot read: " + err.Error(), Err: err}
+	}
+	if len(data) > maxInput {
+		return "", &ParseError{File: name, Msg: fmt.Sprintf("input is larger than %d MiB; want a text file of sites or travel times", MaxInputBytes>>20)}
+	}
+	switch {
+	case bytes.HasPrefix(data, []byte{0xEF, 0xBB, 0xBF}):
+		data = data[3:]
+	case bytes.HasPrefix(data, []byte{0xFF, 0xFE}), bytes.HasPrefix(data, []byte{0xFE, 0xFF}):
+		return decodeUTF16(data, name)
+	}
+	if !utf8.Valid(data) {
+		line := 1
+		for i := 0; i < len(data); {
+			c, size := utf8.DecodeRune(data[i:])
+			if c == utf8.RuneError && size <= 1 {
+				return "", &ParseError{File: name, Line: line, Field: "text encoding",
+					Msg: fmt.Sprintf("byte 0x%02X is not UTF-8; save the file as UTF-8 (in a spreadsheet: CSV UTF-8)", data[i])}
+			}
+			if c == '\n' {
+				line++
+			}
+			i += size
+		}
+	}
+	if bytes.IndexByte(data, 0) >= 0 {
+		return "", &ParseError{File: name, Field: "text encoding", Msg: "holds NUL bytes: this is not a text file of sites or travel times"}
+	}
+	return string(data), nil
+}
+
+func decodeUTF16(data []byte, name string) (string, error) {
+	be := data[0] == 0xFE
+	data = data[2:]
+	if len(data)%2 != 0 {
+		return "", &ParseError{File: name, Field: "text encoding", Msg: "UTF-16 text with an odd number of bytes; save the file as UTF-8"}
+	}
+	u := make([]uint16, len(data)/2)
+	for i := range u {
+		if be {
+			u[i] = uint16(data[2*i])<<8 | uint16(data[2*i+1])
+		} else {
+			u[i] = uint16(data[2*i+1])<<8 | uint16(data[2*i])
+		}
+	}
+	s := string(utf16.Decode(u))
+	if strings.IndexByte(s, 0) >= 0 {
+		return "", &ParseError{File: name, Field: "text encoding", Msg: "holds NUL characters: this is not a text file of sites or travel times"}
+	}
+	return s, nil
+}
+
+// sepLine handles a first line "sep=;" that some spreadsheets write to
+// name the delimiter: it returns the delimiter and the text with that line
+// turned into a comment, so that line numbers stay as the user sees them.
+func sepLine(text string) (rune, string) {
+	first, rest, _ := strings.Cut(text, "\n")
+	t := strings.TrimSpace(strings.TrimRight(first, "\r"))
+	if len(t) >= 5 && strings.EqualFold(t[:4], "sep=") {
+		r, size := utf8.DecodeRuneInString(t[4:])
+		if 4+size == len(t) && r != '"' && r != '#' {
+			return r, "#" + first + "\n" + rest
+		}
+	}
+	return 0, text
+}
+
+// delimiters in order of preference when a sample fits more than one.
+var delimiters = []rune{'\t', ';', ','}
+
+// sniffComma picks the field delimiter from the first lines of text: the
+// first of tab, semicolon and comma that splits every sampled line into the
+// same number of fields (more than one), else the one most frequent on the
+// first line. It returns 0 when none of them occurs on the first line.
+// Quoted stretches are skipped, so "Café, Main St" does not count.
+func sniffComma(text string) rune {
+	var lines []string
+	for _, l := range strings.Split(text, "\n") {
+		l = strings.TrimRight(l, "\r")
+		t := strings.TrimSpace(l)
+		if t == "" || strings.HasPrefix(t, "#") {
+			continue
+		}
+		lines = append(lines, l)
+		if len(lines) == 5 {
+			break
+		}
+	}
+	if len(lines) == 0 {
+		return 0
+	}
+	count := func(l string, d rune) int {
+		n, quoted := 0, false
+		for _, c := range l {
+			switch {
+			case c == '"':
+				quoted = !quoted
+			case c == d && !quoted:
+				n++
+			}
+		}
+		return n
+	}
+	for _, d := range delimiters {
+		first := count(lines[0], d)
+		if first == 0 {
+			continue
+		}
+		same := true
+		for _, l := range lines[1:] {
+			if count(l, d) != first {
+				same = false
+				break
+			}
+		}
+		if same {
+			return d
+		}
+	}
+	best, most := rune(0), 0
+	for _, d := range delimiters {
+		if c := count(lines[0], d); c > most {
+			best, most = d, c
+		}
+	}
+	return best
+}
+
+// readRecords splits text into records. comma is the delimiter; 0 splits on
+// runs of spaces and tabs (no quoting). Blank lines, lines of delimiters
+// only and lines starting with '#' are skipped. Fields are trimmed.
+func readRecords(text, name string, comma rune) ([]record, error) {
+	var out []record
+	if comma == 0 {
+		for i, l := range strings.Split(text, "\n") {
+			t := strings.TrimSpace(l)
+			if t == "" || strings.HasPrefix(t, "#") {
+				continue
+			}
+			out = append(out, record{line: i + 1, fields: strings.Fields(t)})
+		}
+		return out, nil
+	}
+	cr := csv.NewReader(strings.NewReader(text))
+	cr.Comma = comma
+	cr.Comment = '#'
+	cr.FieldsPerRecord = -1
+	cr.TrimLeadingSpace = true
+	for {
+		rec, err := cr.Read()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			var pe *csv.ParseError
+			if errors.As(err, &pe) {
+				return nil, &ParseError{File: name, Line: pe.Line, Field: "quoting",
+					Msg: csvMessage(pe) + fmt.Sprintf(" (near character %d)", pe.Column), Err: err}
+			}
+			return nil, &ParseError{File: name, Msg: "cannot read: " + err.Error(), Err: err}
+		}
+		line, _ := cr.FieldPos(0)
+		empty := true
+		for i := range rec {
+			rec[i] = strings.TrimSpace(rec[i])
+			if rec[i] != "" {
+				empty = false
+			}
+		}
+		if empty {
+			continue
+		}
+		out = append(out, record{line: line, fields: rec})
+	}
+	return out, nil
+}
+
+func csvMessage(pe *csv.ParseError) string {
+	switch {
+	case errors.Is(pe.Err, csv.ErrBareQuote):
+		return `a double quote inside a field that does not start with one; put the whole field in double quotes and double the inner quote ("Café ""Le Coin""")`
+	case errors.Is(pe.Err, csv.ErrQuote):
+		return fmt.Sprintf("a quoted field that starts on line %d is not closed, or a quote is followed by text; end the field with a double quote", pe.StartLine)
+	}
+	return pe.Err.Error()
+}
+
+// parseDecimal reads a plain decimal number exactly: an optional sign,
+// digits, and an optional fraction after '.' (or after ',' when
+// commaDecimal, as in files delimited by semicolons or tabs from a
+// spreadsheet set to a language that writes 12,5). Exponents, thousands
+// separators, "NaN" and "Inf" are refused.
+func parseDecimal(s string, commaDecimal bool) (*big.Rat, bool) {
+	if commaDecimal && strings.Count(s, ",") == 1 && !strings.Contains(s, ".") {
+		s = strings.Replace(s, ",", ".", 1)
+	}
+	if len(s) == 0 || len(s) > 40 {
+		return nil, false
+	}
+	t := s
+	if t[0] == '-' || t[0] == '+' {
+		t = t[1:]
+	}
+	ip, frac, dot := strings.Cut(t, ".")
+	if ip == "" && frac == "" || dot && frac == "" && ip == "" {
+		return nil, false
+	}
+	for _, c := range ip + frac {
+		if c < '0' || c > '9' {
+			return nil, false
+		}
+	}
+	r, ok := new(big.Rat).SetString(s)
+	return r, ok
+}
+
+// ratUnits converts r input units to internal units (per internal units in
+// one input unit), rounding half away from zero. ok is false when the value
+// does not fit below solver.Horizon.
+func ratUnits(r *big.Rat, per int64) (int64, bool) {
+	v := new(big.Rat).Mul(r, new(big.Rat).SetInt64(per))
+	num, den := new(big.Int).Set(v.Num()), v.Denom()
+	neg := num.Sign() < 0
+	num.Abs(num)
+	// round(num/den) = floor((2*num + den) / (2*den))
+	num.Mul(num, big.NewInt(2)).Add(num, den)
+	q := new(big.Int).Quo(num, new(big.Int).Mul(den, big.NewInt(2)))
+	if !q.IsInt64() || q.Int64() >= horizon {
+		return 0, false
+	}
+	if neg {
+		return -q.Int64(), true
+	}
+	return q.Int64(), true
+}
