@@ -55,14 +55,18 @@ bin/gen/n1000-tight.txt: build
 WASM_SCALE_BUDGET ?= 30s
 bench-wasm: build wasm-cli bin/gen/n300-tight.txt bin/gen/n1000-tight.txt
 	./bin/visitline wasm-speed --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --iterations 200 --repeats 3 --json wasm-speed.json --readme README.md $(SPEED_FILES)
-	./bin/visitline scale --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --budget $(WASM_SCALE_BUDGET) --sizes 100,300,1000 --json scale-wasm.json --readme README.md --section scale-wasm
+	./bin/visitline scale --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --cpu-budget --budget $(WASM_SCALE_BUDGET) --sizes 100,300,1000 --json scale-wasm.json --readme README.md --section scale-wasm
 
-# Time to the best-known value with two workers against one, several seeds,
-# on instances that take one worker over a second.
-WORKER_FILES ?= $(BENCH_DIR)/OhlmannThomas/n150w120.001.txt $(BENCH_DIR)/OhlmannThomas/n200w120.002.txt
+# Time to the best-known value with two workers against one, five seeds,
+# on instances that take one worker over a second of CPU time to reach it
+# (found with bench --stop-at-best --cpu-budget). Budgets in CPU time: 20 s
+# for one worker, 40 s (20 s each) for two.
+WORKER_FILES ?= $(BENCH_DIR)/GendreauDumasExtended/n100w120.004.txt $(BENCH_DIR)/GendreauDumasExtended/n100w120.005.txt \
+	$(BENCH_DIR)/OhlmannThomas/n200w120.005.txt
+WORKER_FLAGS = --seeds 5 --cpu-budget --stop-at-best --quiet --bounds $(BENCH_DIR)/best-known.csv
 bench-workers: build
-	./bin/visitline bench --workers 1 --seeds 5 --budget 60s --stop-at-best --quiet --bounds $(BENCH_DIR)/best-known.csv --json workers-1.json $(WORKER_FILES)
-	./bin/visitline bench --workers 2 --seeds 5 --budget 60s --stop-at-best --quiet --bounds $(BENCH_DIR)/best-known.csv --json workers-2.json $(WORKER_FILES)
+	./bin/visitline bench --workers 1 --budget 20s $(WORKER_FLAGS) --json workers-1.json $(WORKER_FILES)
+	./bin/visitline bench --workers 2 --budget 40s $(WORKER_FLAGS) --json workers-2.json $(WORKER_FILES)
 	./bin/visitline bench --from workers-2.json --baseline workers-1.json --readme README.md
 
 demo: build
