@@ -11,6 +11,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"runtime/pprof"
 	"sort"
 	"strconv"
 	"strings"
@@ -90,6 +91,7 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 	cpuBudget := fs.Bool("cpu-budget", false, "count the budgets in CPU time of this process instead of wall-clock time (fairer on a shared machine; needs a system that reports CPU time)")
 	stopAtBest := fs.Bool("stop-at-best", false, "end a run as soon as it reaches the best-known value (for time-to-target measurements)")
 	baseline := fs.String("baseline", "", "with --from: compare the time to best-known per instance against this earlier JSON (e.g. one worker)")
+	cpuProfile := fs.String("cpuprofile", "", "write a CPU profile of the runs to this file (for go tool pprof, or as default.pgo for profile-guided builds)")
 	famBudget := budgetFor{}
 	fs.Var(famBudget, "budget-for", "time budget for one family, FAMILY=DURATION (repeatable), e.g. OhlmannThomas=30s")
 	if err := fs.Parse(args); err != nil {
@@ -126,6 +128,17 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 	}
 	if len(files) == 0 {
 		return errors.New("no instance files found in the given paths")
+	}
+	if *cpuProfile != "" {
+		fh, err := os.Create(*cpuProfile)
+		if err != nil {
+			return err
+		}
+		defer fh.Close()
+		if err := pprof.StartCPUProfile(fh); err != nil {
+			return fmt.Errorf("--cpuprofile: %w", err)
+		}
+		defer pprof.StopCPUProfile()
 	}
 	var rows []benchRow
 	if !*quiet {
