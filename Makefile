@@ -40,7 +40,7 @@ wasm-cli:
 # idle machine.
 SCALE_BUDGET ?= 30s
 bench-scale: build
-	./bin/visitline scale --cpu-budget --budget $(SCALE_BUDGET) --json scale-results.json --readme README.md
+	./bin/visitline scale --cpu-budget --budget $(SCALE_BUDGET) --json scale-results.json --readme README.md --chart docs/scale-chart.svg
 
 # WebAssembly against native: the same seed and iteration budgets on both
 # sides, then scale rows run in Node.js.

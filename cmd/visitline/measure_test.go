@@ -238,3 +238,28 @@ func TestBenchReportJSONRoundTrip(t *testing.T) {
 	require.NoError(t, json.Unmarshal(data, &back))
 	assert.Equal(t, rep.Runs[0].Trace, back.Runs[0].Trace)
 }
+
+func TestScaleChartDrawsOneLinePerTightness(t *testing.T) {
+	rows := []scaleRow{
+		{N: 100, Tightness: "tight", SecondsPerIteration: 0.001},
+		{N: 1000, Tightness: "tight", SecondsPerIteration: 0.01},
+		{N: 100, Tightness: "none", SecondsPerIteration: 0.002},
+		{N: 1000, Tightness: "none", SecondsPerIteration: 0},
+	}
+	svg := drawScaleChart(rows)
+	dec := xml.NewDecoder(strings.NewReader(svg))
+	lines := 0
+	for {
+		tok, err := dec.Token()
+		if err != nil {
+			assert.Equal(t, "EOF", err.Error(), "the SVG parses as XML to its end")
+			break
+		}
+		if se, ok := tok.(xml.StartElement); ok && se.Name.Local == "polyline" {
+			lines++
+		}
+	}
+	assert.Equal(t, 2, lines)
+	assert.Contains(t, svg, "tight (slope 1.00)")
+	assert.Contains(t, drawScaleChart(nil), "no rows with a time per iteration")
+}

@@ -90,6 +90,7 @@ func runScale(args []string, stdout, stderr io.Writer) error {
 	appendJSON := fs.Bool("append", false, "add to the rows already in the --json file instead of replacing them")
 	from := fs.String("from", "", "render the rows of an earlier --json file instead of running")
 	readme := fs.String("readme", "", "rewrite this README between its scale markers")
+	chart := fs.String("chart", "", "draw the time per iteration against n as SVG into this file")
 	section := fs.String("section", "scale", "README markers: <!-- SECTION:start --> and <!-- SECTION:end -->")
 	cpuBudget := fs.Bool("cpu-budget", false, "count the budget in CPU time of the process instead of wall-clock time (fairer on a shared machine)")
 	wasm := fs.String("wasm", "", "run each case in this program built for js/wasm, under --runner, in a fresh process")
@@ -130,7 +131,7 @@ func runScale(args []string, stdout, stderr io.Writer) error {
 		if err := json.Unmarshal(data, &rep); err != nil {
 			return fmt.Errorf("%s: not a scale result file: %w", *from, err)
 		}
-		return publishScale(rep, *readme, *section, stdout)
+		return publishScale(rep, *readme, *section, *chart, stdout)
 	}
 	ns, err := parseSizes(*sizes)
 	if err != nil {
@@ -200,7 +201,7 @@ func runScale(args []string, stdout, stderr io.Writer) error {
 			}
 		}
 	}
-	if err := publishScale(rep, *readme, *section, stdout); err != nil {
+	if err := publishScale(rep, *readme, *section, *chart, stdout); err != nil {
 		return err
 	}
 	for _, r := range rep.Rows {
@@ -523,7 +524,12 @@ func tightRank(s string) int {
 	return int(l)
 }
 
-func publishScale(rep scaleReport, readme, section string, stdout io.Writer) error {
+func publishScale(rep scaleReport, readme, section, chart string, stdout io.Writer) error {
+	if chart != "" {
+		if err := os.WriteFile(chart, []byte(drawScaleChart(rep.Rows)), 0o644); err != nil {
+			return err
+		}
+	}
 	table := scaleTable(rep)
 	fmt.Fprint(stdout, "\n"+table)
 	if readme != "" {
