@@ -8,6 +8,7 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"runtime"
 	"strings"
 	"time"
 
@@ -28,6 +29,7 @@ type solveFlags struct {
 	date       string
 	quiet      bool
 	bound      bool
+	workers    int
 	load       loadFlags
 }
 
@@ -83,6 +85,7 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	fs.StringVar(&f.date, "date", "", "day of the plan for --format ics when the sites file has no dates, YYYY-MM-DD (default: today)")
 	fs.BoolVar(&f.quiet, "quiet", false, "no progress on stderr")
 	fs.BoolVar(&f.bound, "bound", true, "compute a lower bound beside the search and prove the plan optimal where the exact search can")
+	fs.IntVar(&f.workers, "workers", 0, fmt.Sprintf("searches side by side, sharing the best plan (default: the number of cores, %d; but 1 with --iterations, so that a seed reproduces the run)", runtime.NumCPU()))
 	f.load.register(fs)
 	fs.Usage = func() {
 		fmt.Fprintln(stderr, "usage: visitline solve [flags] SITES.csv|BENCHMARK.txt")
@@ -113,6 +116,15 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	if f.budget <= 0 && f.iterations <= 0 {
 		return usageError{"set a --budget above 0 or an --iterations count, or the search never stops"}
 	}
+	if f.workers < 0 || f.workers == 0 && isSet(fs, "workers") {
+		return usageError{fmt.Sprintf("--workers %d: want 1 or more", f.workers)}
+	}
+	if f.workers == 0 {
+		f.workers = runtime.NumCPU()
+		if f.iterations > 0 {
+			f.workers = 1
+		}
+	}
 	obj, err := solver.ParseObjective(f.objective)
 	if err != nil {
 		return usageError{err.Error()}
@@ -135,7 +147,7 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	in := d.Instance
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
-	s := solver.Settings{Budget: f.budget, Iterations: f.iterations, Seed: f.seed, Mix: mix, FixedMix: f.fixedMix, FewestLate: f.fewestLate, Objective: obj}
+	s := solver.Settings{Budget: f.budget, Iterations: f.iterations, Seed: f.seed, Mix: mix, FixedMix: f.fixedMix, FewestLate: f.fewestLate, Objective: obj, Workers: f.workers}
 	if !f.quiet {
 		s.OnImprove = func(p solver.Plan) {
 			state := "feasible"
@@ -250,4 +262,15 @@ func unwrapPath(err error) error {
 		return pe.Err
 	}
 	return err
+}
+
+// isSet says whether the flag name was given on the command line.
+func isSet(fs *flag.FlagSet, name string) bool {
+	set := false
+	fs.Visit(func(f *flag.Flag) {
+		if f.Name == name {
+			set = true
+		}
+	})
+	return set
 }
