@@ -1,11 +1,13 @@
-# Visitline build. `make demo` solves the bakery example; `make test` runs every test.
+# Visitline build. `make demo` builds the page and serves it with the example
+# ready; `make test` runs every test (the browser tests need chromium).
 GO ?= go
 BENCH_DIR ?= ../shared/benchmarks/tsptw
 # Per-family budgets of issue 3's targets: 10 s, 30 s for OhlmannThomas.
 BENCH_BUDGETS ?= --budget 10s --budget-for OhlmannThomas=30s
 BENCH_FLAGS = --workers 1 --bounds $(BENCH_DIR)/best-known.csv
 
-.PHONY: all build wasm-cli test bench bench-kernels bench-quick bench-scale bench-wasm bench-workers pgo bound-report demo vet fmt site clean
+.PHONY: all build wasm-cli test bench bench-kernels bench-quick bench-scale bench-wasm bench-workers pgo bound-report demo demo-cli vet fmt site clean
+PORT ?= 8080
 
 all: build
 
@@ -81,7 +83,19 @@ pgo: build bin/gen/n300-tight.txt
 bound-report:
 	VISITLINE_BOUND_REPORT=Dumas,GendreauDumasExtended VISITLINE_BOUND_BUDGET=10s GOMAXPROCS=1 $(GO) test -count=1 -timeout 0 -run TestBoundReport -v ./solver/bound
 
-demo: build
+# The static site: dist/index.html, engine.wasm, wasm_exec.js, scripts,
+# styles, examples, and dist/visitline.html (one self-contained file).
+site: build
+	mkdir -p dist
+	GOOS=js GOARCH=wasm $(GO) build -trimpath -ldflags='-s -w' -o dist/engine.wasm ./wasm
+	./bin/visitline site --engine dist/engine.wasm dist
+
+# Serve the page on 127.0.0.1 with the bakery example loaded.
+demo: site
+	./bin/visitline serve --site dist --port $(PORT) --open-example bakery
+
+# The command-line demo: solve the example and print the plan.
+demo-cli: build
 	./bin/visitline solve --budget 3s --matrix examples/bakery/travel.csv examples/bakery/sites.csv
 
 vet:
@@ -91,4 +105,4 @@ fmt:
 	gofmt -w $$(git ls-files '*.go')
 
 clean:
-	rm -rf bin dist
+	rm -rf bin dist web/testout

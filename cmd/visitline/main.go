@@ -21,6 +21,7 @@ usage:
   visitline gen [flags] > FILE         write an invented, feasible instance of any size
   visitline scale [flags]              measure the engine on generated instances of growing size
   visitline wasm-speed [flags] FILES   compare the WebAssembly build's iteration rate with this one's
+  visitline site [--engine F] DIR      write the static page into DIR
 `
 
 func main() {
@@ -50,6 +51,8 @@ func run(args []string, stdout, stderr io.Writer) int {
 		err = runSpeed(args[1:], stdout, stderr)
 	case "serve":
 		err = runServe(args[1:], stdout, stderr)
+	case "site":
+		err = runSite(args[1:], stdout, stderr)
 	case "-h", "--help", "help":
 		fmt.Fprint(stdout, usage)
 		return 0

@@ -1,0 +1,296 @@
+package main
+
+import (
+	"encoding/json"
+	"os"
+	"sync"
+	"testing"
+	"time"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+
+	"visitline/solver"
+)
+
+// recorder collects the engine's messages.
+type recorder struct {
+	mu   sync.Mutex
+	msgs []map[string]any
+	cond *sync.Cond
+}
+
+func newRecorder() *recorder {
+	r := &recorder{}
+	r.cond = sync.NewCond(&r.mu)
+	return r
+}
+
+func (r *recorder) post(b []byte) {
+	var m map[string]any
+	if err := json.Unmarshal(b, &m); err != nil {
+		panic("engine posted invalid JSON: " + string(b))
+	}
+	r.mu.Lock()
+	r.msgs = append(r.msgs, m)
+	r.cond.Broadcast()
+	r.mu.Unlock()
+}
+
+// wait returns the first message of type typ, waiting up to 10 s.
+func (r *recorder) wait(t *testing.T, typ string) map[string]any {
+	t.Helper()
+	deadline := time.Now().Add(10 * time.Second)
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	for {
+		for _, m := range r.msgs {
+			if m["type"] == typ {
+				return m
+			}
+		}
+		if time.Now().After(deadline) {
+			t.Fatalf("no %q message; got %v", typ, r.msgs)
+		}
+		r.mu.Unlock()
+		time.Sleep(5 * time.Millisecond)
+		r.mu.Lock()
+	}
+}
+
+func (r *recorder) count(typ string) int {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	n := 0
+	for _, m := range r.msgs {
+		if m["type"] == typ {
+			n++
+		}
+	}
+	return n
+}
+
+func msg(t *testing.T, v map[string]any) string {
+	b, err := json.Marshal(v)
+	require.NoError(t, err)
+	return string(b)
+}
+
+func example(t *testing.T) string {
+	b, err := os.ReadFile("../examples/warehouse/picks.txt")
+	require.NoError(t, err)
+	return string(b)
+}
+
+func TestEngineLoadSummary(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "picks.txt", "text": example(t)}))
+	m := r.wait(t, "loaded")
+	s := m["summary"].(map[string]any)
+	assert.EqualValues(t, 15, s["sites"])
+	assert.EqualValues(t, 16, s["nodes"])
+	assert.Equal(t, "closed", s["shape"])
+	assert.Equal(t, "0", s["start"])
+	assert.Greater(t, s["asymmetry"].(float64), 0.0)
+	assert.Greater(t, s["tightness"].(float64), 0.0)
+	assert.Less(t, s["tightness"].(float64), 1.0)
+}
+
+func TestEngineBadPasteNamesLineAndColumn(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "text": "2\n0 x\n1 0\n0 10\n0 10\n"}))
+	m := r.wait(t, "errors")
+	list := m["errors"].([]any)
+	require.Len(t, list, 1)
+	first := list[0].(map[string]any)
+	assert.EqualValues(t, 2, first["line"])
+	assert.EqualValues(t, 2, first["column"])
+	assert.Contains(t, first["text"], `"x" is not a number`)
+	// Starting without data is refused with a message, not a crash.
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 1}))
+	assert.Contains(t, r.wait(t, "failed")["message"], "no data is loaded")
+}
+
+func TestEngineEmptyPaste(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "text": "  \n"}))
+	list := r.wait(t, "errors")["errors"].([]any)
+	assert.Contains(t, list[0].(map[string]any)["message"], "there is no data")
+}
+
+func TestEngineRunSendsPlanAndFinished(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "picks.txt", "text": example(t)}))
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0.3, "seed": 1}))
+	fin := r.wait(t, "finished")
+	assert.NotEqual(t, "error", fin["why"])
+	p := r.wait(t, "plan")
+	plan := p["plan"].(map[string]any)
+	assert.Len(t, plan["route"], 16)
+	assert.Contains(t, p["csv"], "order,site,name,arrival")
+	e.Handle(msg(t, map[string]any{"type": "export", "format": "ics", "route": plan["route"]}))
+	assert.Contains(t, r.wait(t, "export")["error"], "clock times", "a benchmark file says nothing of clock times")
+	assert.Contains(t, p["json"], `"route"`)
+}
+
+func TestEngineRejectsBadStart(t *testing.T) {
+	cases := []struct {
+		name string
+		msg  map[string]any
+		want string
+	}{
+		{"zero budget", map[string]any{"type": "start", "budget": 0}, "budget 0 s"},
+		{"huge budget", map[string]any{"type": "start", "budget": 7200}, "at most 3600"},
+		{"unknown operator", map[string]any{"type": "start", "budget": 1, "mix": map[string]any{"nosuch": 1}}, "unknown operator"},
+		{"all zero", map[string]any{"type": "start", "budget": 1, "mix": map[string]any{"random": 0}}, "at least one weight"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			r := newRecorder()
+			e := NewEngine(r.post, func() {})
+			e.Handle(msg(t, map[string]any{"type": "load", "text": example(t)}))
+			e.Handle(msg(t, c.msg))
+			assert.Contains(t, r.wait(t, "failed")["message"], c.want)
+			assert.Zero(t, r.count("started"))
+		})
+	}
+}
+
+func TestEngineMixChangeMidRun(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "text": example(t)}))
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 30, "seed": 3, "fixed": true}))
+	r.wait(t, "progress")
+	e.Handle(msg(t, map[string]any{"type": "mix", "mix": map[string]any{"random": 3, "slice": 1, "related": 0, "worst": 0}}))
+	ack := r.wait(t, "mix")
+	assert.Equal(t, true, ack["running"])
+	assert.EqualValues(t, 3, ack["mix"].(map[string]any)["random"])
+	// The search takes the new weights: a later progress report shows them.
+	deadline := time.Now().Add(5 * time.Second)
+	for {
+		r.mu.Lock()
+		last := r.msgs[len(r.msgs)-1]
+		r.mu.Unlock()
+		if last["type"] == "progress" {
+			w := last["weights"].(map[string]any)
+			if w["random"].(float64) == 0.75 {
+				break
+			}
+		}
+		require.True(t, time.Now().Before(deadline), "no progress with the new weights")
+		time.Sleep(10 * time.Millisecond)
+	}
+	e.Handle(msg(t, map[string]any{"type": "stop"}))
+	assert.Equal(t, "stopped", r.wait(t, "finished")["why"])
+}
+
+func TestEngineStopIsPrompt(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "text": example(t)}))
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 60, "seed": 1}))
+	r.wait(t, "progress")
+	t0 := time.Now()
+	e.Handle(msg(t, map[string]any{"type": "stop"}))
+	fin := r.wait(t, "finished")
+	// Loose bound for a shared machine; the browser test holds the page to 1 s.
+	assert.Less(t, time.Since(t0), 2*time.Second)
+	assert.Equal(t, "stopped", fin["why"])
+	assert.GreaterOrEqual(t, r.count("plan"), 1)
+	// A mix sent after the stop is answered as not running.
+	e.Handle(msg(t, map[string]any{"type": "mix", "mix": map[string]any{"random": 1}}))
+	assert.Equal(t, false, r.wait(t, "mix")["running"])
+}
+
+// TestSummariseHandWorked checks the summary on a 3-node instance worked out
+// by hand: day [0,100]; windows of node 1 [10,30] (20% of the day) and
+// node 2 [0,60] (60%): tightness 0.4. Pairs: (0,1) 10/10 symmetric,
+// (0,2) 20 vs 10 → 0.5, (1,2) 5 vs 0 → 1: asymmetry (0+0.5+1)/3 = 0.5.
+func TestSummariseHandWorked(t *testing.T) {
+	in := &solver.Instance{N: 3, Scale: 1, Shape: solver.Closed,
+		Travel:  []int64{0, 10, 20, 10, 0, 5, 10, 0, 0},
+		Service: []int64{0, 1, 1}, Early: []int64{0, 10, 0}, Late: []int64{100, 30, 60}}
+	s := Summarise(in)
+	assert.Equal(t, 2, s.Sites)
+	assert.InDelta(t, 0.4, s.Tightness, 1e-9)
+	assert.InDelta(t, 0.5, s.Asymmetry, 1e-9)
+	assert.Equal(t, 2, s.AsymmetricPairs)
+	assert.Equal(t, 3, s.Pairs)
+	assert.Equal(t, 20.0, s.NarrowestWindow)
+	assert.Equal(t, 60.0, s.WidestWindow)
+}
+
+func readExample(t *testing.T, path string) string {
+	b, err := os.ReadFile("../examples/" + path)
+	require.NoError(t, err)
+	return string(b)
+}
+
+func TestEngineSitesAndMatrix(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "sites.csv", "text": readExample(t, "bakery/sites.csv"),
+		"matrix_name": "travel.csv", "matrix": readExample(t, "bakery/travel.csv")}))
+	s := r.wait(t, "loaded")["summary"].(map[string]any)
+	assert.Equal(t, "min", s["unit"])
+	assert.Equal(t, "clock", s["times"])
+	assert.Equal(t, "04:35", s["day_start_text"])
+	assert.Equal(t, "matrix", s["travel"])
+	assert.Equal(t, "BAK", s["start"])
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0.3, "seed": 1}))
+	r.wait(t, "finished")
+	p := r.wait(t, "plan")
+	plan := p["plan"].(map[string]any)
+	e.Handle(msg(t, map[string]any{"type": "export", "format": "ics", "route": plan["route"], "date": "2026-12-01"}))
+	x := r.wait(t, "export")
+	assert.Equal(t, "", x["error"])
+	assert.Contains(t, x["text"], "BEGIN:VCALENDAR")
+	assert.Contains(t, x["text"], "DTSTART:20261201T")
+	first := plan["schedule"].([]any)[0].(map[string]any)
+	assert.Equal(t, "Crumb & Crust Bakery", first["name"])
+	assert.Equal(t, "04:35", first["start_clock"])
+	// A route that does not fit is refused, not written.
+	e.Handle(msg(t, map[string]any{"type": "export", "format": "ics", "route": []int{0, 1}, "date": "2026-12-01"}))
+	r.mu.Lock()
+	r.msgs = nil
+	r.mu.Unlock()
+	e.Handle(msg(t, map[string]any{"type": "export", "format": "ics", "route": []int{0, 1}, "date": "2026-12-01"}))
+	assert.Contains(t, r.wait(t, "export")["error"], "does not fit")
+}
+
+func TestEngineRouteOptions(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "sites.csv", "text": readExample(t, "art/sites.csv"),
+		"matrix_name": "travel.tsv", "matrix": readExample(t, "art/travel.tsv"), "options": map[string]any{"end": "SOUTH"}}))
+	s := r.wait(t, "loaded")["summary"].(map[string]any)
+	assert.Equal(t, "open-fixed-end", s["shape"])
+	assert.Equal(t, "SOUTH", s["end"])
+	assert.Equal(t, "dated", s["times"])
+}
+
+func TestEngineBadOptionIsAnError(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "sites.csv", "text": readExample(t, "bakery/sites.csv"),
+		"matrix": readExample(t, "bakery/travel.csv"), "options": map[string]any{"end": "NOWHERE"}}))
+	list := r.wait(t, "errors")["errors"].([]any)
+	assert.Contains(t, list[0].(map[string]any)["text"], "NOWHERE")
+}
+
+func TestEngineReplansAfterDoneVisits(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "sites.csv", "text": readExample(t, "bakery/sites.csv"),
+		"matrix": readExample(t, "bakery/travel.csv"), "options": map[string]any{"done": []string{"C07"}, "now": "05:20"}}))
+	s := r.wait(t, "loaded")["summary"].(map[string]any)
+	assert.Equal(t, "C07", s["at"])
+	assert.Equal(t, []any{"C07"}, s["done"])
+	assert.EqualValues(t, 11, s["sites"], "twelve cafés less the one done")
+	assert.Equal(t, "05:20", s["day_start_text"])
+}

@@ -1,0 +1,317 @@
+// Command wasm is the Visitline engine as a web worker: built with
+// GOOS=js GOARCH=wasm, it runs inside a dedicated worker (web/assets/worker.js
+// starts it) and speaks a small message protocol with the page. It is the
+// only package besides the browser tests that touches syscall/js, and it
+// does so in main_js.go alone: everything else here is plain Go, tested
+// natively.
+//
+// # Message protocol
+//
+// Every message is a JSON object with a "type" field. The page posts
+// objects to the worker; worker.js hands them to the engine as JSON text and
+// posts the engine's JSON replies back to the page as objects.
+//
+// Page to worker:
+//
+//	{"type":"load", "name":"sites.csv", "text":"id,name,open,...", "matrix_name":"travel.csv", "matrix":"...",
+//	 "options":{"start":"", "end":"start|free|ID", "shift_start":"", "matrix_unit":"minutes|seconds",
+//	            "speed":0, "road_factor":0, "done":["C01"], "now":"09:10"}}
+//	    Read a sites file or a benchmark matrix file (told apart by content)
+//	    with an optional travel matrix, through format.Load, the same path
+//	    as the command line; options mean what the flags of the same names
+//	    of `visitline solve` mean (zero values: the defaults). Stops a
+//	    running search first. Replies "loaded" or "errors".
+//	{"type":"start", "budget":10, "seed":1, "mix":{"random":1,...}, "fixed":false, "objective":"travel", "fewest_late":false}
+//	    Search the loaded instance for budget seconds (0 < budget <= 3600)
+//	    with that seed and starting mix (omitted: even mix); fixed keeps the
+//	    weights as given instead of adapting them (--fixed-mix); objective is
+//	    travel or completion; fewest_late ranks a day that cannot be met by
+//	    its number of late visits (--fewest-late). Stops a running search
+//	    first. Replies "started", then "plan" and "progress" while it
+//	    runs, and "finished" at the end.
+//	{"type":"mix", "mix":{"random":2,"slice":0,...}}
+//	    Replace the operator weights of the running search. Replies "mix".
+//	{"type":"stop"}
+//	    Cancel the running search. Replies "finished" with why "stopped".
+//	{"type":"export", "format":"ics", "route":[0,3,1,...], "date":"2026-12-01", "objective":"travel"}
+//	    Write a plan of the loaded data (its route, 0-based nodes as in a
+//	    plan's "route") as an iCalendar file; date is the day for files
+//	    whose times carry no date. Replies "export".
+//
+// Worker to page:
+//
+//	{"type":"ready", "operators":["random",...]}
+//	    The engine is up; operators are the names of the --mix weights.
+//	{"type":"loaded", "summary":{...}}
+//	    See Summary; its warnings are suspicious but legal input.
+//	{"type":"errors", "errors":[{"file","line","column","field","message","text"}]}
+//	    The input could not be read; line and column are 1-based (0: unknown).
+//	{"type":"started", "run":1, "budget":10, "seed":1, "mix":{...}}
+//	{"type":"plan", "run":1, "plan":{...}, "csv":"...", "json":"..."}
+//	    A new best plan: plan is the object of `visitline solve --format
+//	    json`; csv and json are the exports, written by the same code as
+//	    the command line. Plans found in a burst are coalesced so that at most
+//	    one is sent every 50 ms; the best one is always sent before
+//	    "finished".
+//	{"type":"progress", "run":1, "iterations":1234, "elapsed":1.5, "best_cost":812, "feasible":true, "weights":{...}}
+//	    About every 50 ms while searching; elapsed in seconds.
+//	{"type":"mix", "run":1, "mix":{...}, "running":true, "elapsed":2.1}
+//	    Acknowledges a mix change: running says whether a search was
+//	    running to take it (if not, the page keeps it for the next start).
+//	{"type":"finished", "run":1, "why":"budget", "iterations":..., "elapsed":..., "improvements":..., "message":""}
+//	    The search ended; why is one of budget, iterations, stopped,
+//	    complete or error (then message says what went wrong).
+//	{"type":"export", "format":"ics", "text":"BEGIN:VCALENDAR...", "error":""}
+//	    The file asked for, or in error why it cannot be written.
+//	{"type":"failed", "message":"..."}
+//	    A message the engine could not act on (no data loaded, bad budget).
+//
+// The engine runs solver.Solve on its own goroutine. Go's wasm runs on one
+// thread, so the search hands the event loop a turn through Settings.Pause
+// at every progress tick (about every 50 ms); a mix change or a stop is
+// taken at the next turn.
+package main
+
+import (
+	"errors"
+	"math"
+	"sort"
+	"strings"
+
+	"visitline/solver"
+	"visitline/solver/format"
+)
+
+// inbound is any message from the page; fields unused by a type stay zero.
+type inbound struct {
+	Type      string             `json:"type"`
+	Name      string             `json:"name"`
+	Text      string             `json:"text"`
+	Budget    float64            `json:"budget"`
+	Seed      int64              `json:"seed"`
+	Mix       map[string]float64 `json:"mix"`
+	Objective string             `json:"objective"`
+	Fixed     bool               `json:"fixed"`
+	// FewestLate ranks days that cannot be met by the number of late
+	// visits rather than the total lateness (--fewest-late).
+	FewestLate bool `json:"fewest_late"`
+	// load: an optional travel matrix for a sites file, and the route and
+	// travel options.
+	Matrix     string      `json:"matrix"`
+	MatrixName string      `json:"matrix_name"`
+	Options    loadOptions `json:"options"`
+	// export: the format (ics), the plan's route, and the day of the plan,
+	// YYYY-MM-DD, for sites files whose times carry no date.
+	Format string `json:"format"`
+	Route  []int  `json:"route"`
+	Date   string `json:"date"`
+}
+
+// InputError is one problem with the input, placed for the page.
+type InputError struct {
+	File    string `json:"file"`
+	Line    int    `json:"line"`
+	Column  int    `json:"column"`
+	Field   string `json:"field"`
+	Message string `json:"message"`
+	// Text is the whole error as the command line prints it.
+	Text string `json:"text"`
+}
+
+// Summary describes a loaded instance at a glance.
+type Summary struct {
+	Name string `json:"name"`
+	// Sites counts the visits to plan: nodes other than the start (and the
+	// fixed end of an open path).
+	Sites int    `json:"sites"`
+	Nodes int    `json:"nodes"`
+	Start string `json:"start"`
+	End   string `json:"end,omitempty"`
+	// Shape is closed, open or open-fixed-end (solver.Shape's names).
+	Shape string `json:"shape"`
+	// DayStart and DayEnd are the span the windows live in (input units):
+	// the start's earliest time to the latest finite window end.
+	DayStart float64 `json:"day_start"`
+	DayEnd   float64 `json:"day_end"`
+	// Tightness is the mean share of the day a visit's window leaves open
+	// (window width / day length, over visits with a finite window): near
+	// 0 the windows are tight, near 1 they hardly bind.
+	Tightness float64 `json:"tightness"`
+	// NarrowestWindow and WidestWindow are window widths in input units.
+	NarrowestWindow float64 `json:"narrowest_window"`
+	WidestWindow    float64 `json:"widest_window"`
+	// OpenWindows counts visits whose window has no upper end.
+	OpenWindows int `json:"open_windows"`
+	// Asymmetry is the mean of |t(i,j) - t(j,i)| / max(t(i,j), t(j,i)) over
+	// the pairs with any travel: 0 for a symmetric matrix.
+	Asymmetry float64 `json:"asymmetry"`
+	// AsymmetricPairs counts pairs with t(i,j) != t(j,i), out of Pairs.
+	AsymmetricPairs int `json:"asymmetric_pairs"`
+	Pairs           int `json:"pairs"`
+	// Scale is the number of internal units per input unit.
+	Scale int64 `json:"scale"`
+	// For sites files: Unit is "min"; Times is minutes, clock or dated;
+	// DayStartText and DayEndText are written as the file writes times;
+	// Travel says where the travel times came from.
+	Unit         string       `json:"unit,omitempty"`
+	Times        string       `json:"times,omitempty"`
+	TimeOrigin   string       `json:"time_origin,omitempty"`
+	DayStartText string       `json:"day_start_text"`
+	DayEndText   string       `json:"day_end_text"`
+	Travel       string       `json:"travel,omitempty"`
+	Warnings     []InputError `json:"warnings"`
+	// Done and At say which visits were already made and where the
+	// re-planned route leaves from.
+	Done []string `json:"done,omitempty"`
+	At   string   `json:"at,omitempty"`
+}
+
+// SummariseDataset adds what a sites file tells to Summarise.
+func SummariseDataset(d *format.Dataset) Summary {
+	in := d.Instance
+	s := Summarise(in)
+	s.Warnings = []InputError{}
+	dayStart, dayEnd := in.Round(s.DayStart), in.Round(s.DayEnd)
+	s.DayStartText, s.DayEndText = d.FormatTime(dayStart), d.FormatTime(dayEnd)
+	s.Travel = d.Travel
+	for _, w := range d.Warnings {
+		s.Warnings = append(s.Warnings, InputError{File: w.File, Line: w.Line, Column: w.Column, Field: w.Field, Message: w.Msg, Text: w.String()})
+	}
+	if d.Unit != "" {
+		s.Unit, s.Times = d.Unit, d.Time.Mode.String()
+		switch d.Time.Mode {
+		case format.Clock:
+			s.TimeOrigin = "00:00"
+		case format.Dated:
+			s.TimeOrigin = d.Time.Origin.Format("2006-01-02") + " 00:00"
+		}
+	}
+	if d.At != "" {
+		s.Done, s.At = append([]string{}, d.Done...), d.At
+	}
+	return s
+}
+
+// openLate says whether a window end is "no limit" for display.
+func openLate(v int64) bool { return v >= solver.Horizon/2 }
+
+// Summarise works out the Summary of an instance.
+func Summarise(in *solver.Instance) Summary {
+	s := Summary{Name: in.Name, Nodes: in.N, Start: in.ID(in.Start), Shape: in.Shape.String(), Scale: in.Scale}
+	if in.Shape == solver.OpenFixed {
+		s.End = in.ID(in.End)
+	}
+	isVisit := func(i int) bool {
+		return i != in.Start && !(in.Shape == solver.OpenFixed && i == in.End)
+	}
+	dayStart := in.Early[in.Start]
+	dayEnd := dayStart
+	for i := 0; i < in.N; i++ {
+		if !openLate(in.Late[i]) && in.Late[i] > dayEnd {
+			dayEnd = in.Late[i]
+		}
+	}
+	s.DayStart, s.DayEnd = in.Float(dayStart), in.Float(dayEnd)
+	day := float64(dayEnd - dayStart)
+	var sumShare float64
+	finite := 0
+	s.NarrowestWindow = math.Inf(1)
+	for i := 0; i < in.N; i++ {
+		if !isVisit(i) {
+			continue
+		}
+		s.Sites++
+		if openLate(in.Late[i]) {
+			s.OpenWindows++
+			continue
+		}
+		w := in.Late[i] - in.Early[i]
+		finite++
+		if day > 0 {
+			sumShare += math.Min(1, float64(w)/day)
+		}
+		s.NarrowestWindow = math.Min(s.NarrowestWindow, in.Float(w))
+		s.WidestWindow = math.Max(s.WidestWindow, in.Float(w))
+	}
+	if finite > 0 {
+		s.Tightness = sumShare / float64(finite)
+		if day <= 0 {
+			s.Tightness = 0
+		}
+	} else {
+		s.NarrowestWindow = 0
+		s.Tightness = 1
+	}
+	var sumAsym float64
+	for i := 0; i < in.N; i++ {
+		for j := i + 1; j < in.N; j++ {
+			a, b := in.T(i, j), in.T(j, i)
+			m := max(a, b)
+			if m == 0 {
+				continue
+			}
+			s.Pairs++
+			if a != b {
+				s.AsymmetricPairs++
+				d := a - b
+				if d < 0 {
+					d = -d
+				}
+				sumAsym += float64(d) / float64(m)
+			}
+		}
+	}
+	if s.Pairs > 0 {
+		s.Asymmetry = sumAsym / float64(s.Pairs)
+	}
+	return s
+}
+
+// inputErrors turns a reader's error into the page's error list.
+func inputErrors(err error, name string) []InputError {
+	var list []InputError
+	for _, e := range flatten(err) {
+		var pe *format.ParseError
+		if errors.As(e, &pe) {
+			list = append(list, InputError{File: pe.File, Line: pe.Line, Column: pe.Column, Field: pe.Field, Message: pe.Msg, Text: pe.Error()})
+			continue
+		}
+		list = append(list, InputError{File: name, Message: e.Error(), Text: e.Error()})
+	}
+	return list
+}
+
+// flatten splits an errors.Join result into its parts, so that a reader
+// that reports several problems at once shows each one.
+func flatten(err error) []error {
+	if j, ok := err.(interface{ Unwrap() []error }); ok {
+		var out []error
+		for _, e := range j.Unwrap() {
+			out = append(out, flatten(e)...)
+		}
+		return out
+	}
+	return []error{err}
+}
+
+// checkMix validates a mix sent by the page, as strictly as --mix.
+func checkMix(m map[string]float64) (solver.Mix, error) {
+	if len(m) == 0 {
+		return nil, nil
+	}
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	var b strings.Builder
+	for i, k := range keys {
+		if i > 0 {
+			b.WriteByte(',')
+		}
+		b.WriteString(k)
+		b.WriteByte('=')
+		b.WriteString(formatFloat(m[k]))
+	}
+	return solver.ParseMix(b.String())
+}

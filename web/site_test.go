@@ -1,0 +1,95 @@
+package web
+
+import (
+	"crypto/sha256"
+	"encoding/base64"
+	"html"
+	"regexp"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+
+	"visitline/solver"
+)
+
+func testFiles(t *testing.T) map[string][]byte {
+	files, err := Files(Options{Engine: []byte("\x00asm\x01\x00\x00\x00"), WasmExec: []byte("// wasm_exec.js\n")})
+	require.NoError(t, err)
+	return files
+}
+
+func TestFilesHoldTheSite(t *testing.T) {
+	files := testFiles(t)
+	for _, name := range []string{"index.html", "app.js", "worker.js", "style.css", "engine.wasm", "wasm_exec.js", "visitline.html", "examples/warehouse/picks.txt"} {
+		assert.Contains(t, files, name)
+	}
+}
+
+func TestPageCarriesTestIDs(t *testing.T) {
+	page := string(testFiles(t)["index.html"])
+	ids := []string{"file-input", "paste-input", "paste-load", "example-load", "budget", "seed", "start", "stop", "status",
+		"best-cost", "progress", "timeline", "plan-table", "export-csv", "export-json", "errors"}
+	for _, op := range solver.Operators {
+		ids = append(ids, "mix-"+op)
+	}
+	for _, id := range ids {
+		assert.Contains(t, page, `data-testid="`+id+`"`)
+	}
+}
+
+func TestPageShowsCautions(t *testing.T) {
+	page := string(testFiles(t)["index.html"])
+	assert.Contains(t, page, "Travel times are estimates")
+	assert.Contains(t, page, "working-time and rest rules")
+	assert.Contains(t, page, "professional judgement prevail")
+}
+
+// TestSingleFilePolicyHashesItsInlineParts recomputes the hashes of the
+// inline script and style and finds them in the page's policy: a browser
+// runs only what they match (CSP Level 3, hash-source).
+func TestSingleFilePolicyHashesItsInlineParts(t *testing.T) {
+	page := string(testFiles(t)["visitline.html"])
+	m := regexp.MustCompile(`http-equiv="Content-Security-Policy" content="([^"]+)"`).FindStringSubmatch(page)
+	require.Len(t, m, 2)
+	csp := html.UnescapeString(m[1])
+	assert.Contains(t, csp, "connect-src 'none'")
+	assert.Contains(t, csp, "worker-src blob:")
+	assert.NotContains(t, csp, "unsafe-inline")
+	hash := func(s string) string {
+		sum := sha256.Sum256([]byte(s))
+		return base64.StdEncoding.EncodeToString(sum[:])
+	}
+	script := regexp.MustCompile(`(?s)<script>(.*?)</script>`).FindStringSubmatch(page)
+	require.Len(t, script, 2)
+	assert.Contains(t, csp, "'sha256-"+hash(script[1])+"'")
+	style := regexp.MustCompile(`(?s)<style>(.*?)</style>`).FindStringSubmatch(page)
+	require.Len(t, style, 2)
+	assert.Contains(t, csp, "'sha256-"+hash(style[1])+"'")
+	// Nothing in the file points elsewhere.
+	assert.NotRegexp(t, `(src|href)="https?:`, page)
+	assert.True(t, strings.Contains(page, `id="engine-base64"`))
+}
+
+func TestExamplesListed(t *testing.T) {
+	ex, err := ListExamples(nil)
+	require.NoError(t, err)
+	byKey := map[string]Example{}
+	for _, e := range ex {
+		byKey[e.Key] = e
+		assert.NotContains(t, e.About, "`")
+		assert.NotEmpty(t, e.Text, e.Key)
+	}
+	require.Contains(t, byKey, "warehouse/picks.txt")
+	assert.Equal(t, "Warehouse picks", byKey["warehouse/picks.txt"].Title)
+	// From the README's command lines: the matrix and the route options.
+	art := byKey["art/sites.csv"]
+	assert.Equal(t, "travel.tsv", art.MatrixName)
+	assert.NotEmpty(t, art.Matrix)
+	assert.Equal(t, map[string]string{"end": "SOUTH"}, art.Options)
+	assert.Equal(t, "travel.csv", byKey["bakery/sites.csv"].MatrixName)
+	assert.Contains(t, byKey, "boiler/sites-overbooked.csv")
+	assert.Equal(t, "", byKey["boiler/sites.csv"].MatrixName)
+	assert.Len(t, ex, 5)
+}
