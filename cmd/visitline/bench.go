@@ -3,7 +3,6 @@ package main
 import (
 	"context"
 	"encoding/csv"
-	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
@@ -12,6 +11,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"runtime/pprof"
 	"sort"
 	"strconv"
 	"strings"
@@ -35,20 +35,42 @@ type benchRow struct {
 	SecondsToBest float64 `json:"seconds_to_best"`
 	Seconds       float64 `json:"seconds"`
 	Iterations    int     `json:"iterations"`
+	// Budget is the time budget of this run in seconds (per family).
+	Budget float64 `json:"budget_seconds"`
+	// SecondsToBestKnown is when the run first reached the best-known value
+	// (-1: never, or no best-known value).
+	SecondsToBestKnown float64 `json:"seconds_to_best_known"`
+	// CPUSeconds is the CPU time the process used during the run (-1:
+	// unknown); below Seconds when the machine was shared.
+	CPUSeconds float64 `json:"cpu_seconds"`
+	// CPUToBestKnown is the process CPU time until the best-known value
+	// was first reached (-1: never, or unknown).
+	CPUToBestKnown float64 `json:"cpu_to_best_known"`
+	// Workers is the number of searches side by side.
+	Workers int `json:"workers"`
 	// Trace is (seconds, cost) of every improvement, for the chart.
 	Trace [][2]float64 `json:"trace,omitempty"`
 }
 
 type familySummary struct {
-	Family        string  `json:"family"`
-	Runs          int     `json:"runs"`
-	Feasible      int     `json:"feasible"`
-	AtBest        int     `json:"at_best_known"`
-	MeanGapPct    float64 `json:"mean_gap_pct"`
-	MaxGapPct     float64 `json:"max_gap_pct"`
-	MedianToBest  float64 `json:"median_seconds_to_best"`
-	MeanIterRate  float64 `json:"iterations_per_second"`
-	WithBestKnown int     `json:"with_best_known"`
+	Family       string  `json:"family"`
+	Runs         int     `json:"runs"`
+	Feasible     int     `json:"feasible"`
+	AtBest       int     `json:"at_best_known"`
+	MeanGapPct   float64 `json:"mean_gap_pct"`
+	MaxGapPct    float64 `json:"max_gap_pct"`
+	MedianToBest float64 `json:"median_seconds_to_best"`
+	// MedianToBestKnown is the median over the runs at best-known of the
+	// time they first reached it.
+	MedianToBestKnown float64 `json:"median_seconds_to_best_known"`
+	// MedianCPUToBestKnown is the same in CPU seconds of the process.
+	MedianCPUToBestKnown float64 `json:"median_cpu_to_best_known"`
+	Budget               string  `json:"budget"`
+	MeanIterRate         float64 `json:"iterations_per_second"`
+	WithBestKnown        int     `json:"with_best_known"`
+	// CPUShare is the CPU time over the wall-clock time of the runs: 1 when
+	// the run had a whole core to itself (one worker).
+	CPUShare float64 `json:"cpu_share"`
 }
 
 type bestKnown struct{ value float64 }
@@ -63,14 +85,32 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 	jsonOut := fs.String("json", "", "write every run as JSON to this file")
 	readme := fs.String("readme", "", "rewrite the results table of this README between its bench markers")
 	quiet := fs.Bool("quiet", false, "print only the family summary")
+	workers := fs.Int("workers", 1, "searches side by side per run (1: one thread, reproducible at an iteration budget)")
+	chart := fs.String("chart", "", "draw the share of instances at best-known against time as SVG into this file")
+	from := fs.String("from", "", "re-render the summary, README table and chart from the JSON of an earlier run instead of solving")
+	cpuBudget := fs.Bool("cpu-budget", false, "count the budgets in CPU time of this process instead of wall-clock time (fairer on a shared machine; needs a system that reports CPU time)")
+	stopAtBest := fs.Bool("stop-at-best", false, "end a run as soon as it reaches the best-known value (for time-to-target measurements)")
+	baseline := fs.String("baseline", "", "with --from: compare the time to best-known per instance against this earlier JSON (e.g. one worker)")
+	cpuProfile := fs.String("cpuprofile", "", "write a CPU profile of the runs to this file (for go tool pprof, or as default.pgo for profile-guided builds)")
+	famBudget := budgetFor{}
+	fs.Var(famBudget, "budget-for", "time budget for one family, FAMILY=DURATION (repeatable), e.g. OhlmannThomas=30s")
 	if err := fs.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
 			return nil
 		}
 		return usageError{err.Error()}
 	}
+	if *from != "" {
+		if *baseline != "" {
+			return speedupFromJSON(*baseline, *from, *readme, stdout)
+		}
+		return benchFromJSON(*from, *readme, *chart, stdout)
+	}
 	if fs.NArg() == 0 {
 		return usageError{"want instance files or folders (see visitline bench -h)"}
+	}
+	if *workers < 1 {
+		return usageError{fmt.Sprintf("--workers %d: want 1 or more", *workers)}
 	}
 	if *budget <= 0 && *iterations <= 0 {
 		return usageError{"set a --budget above 0 or an --iterations count"}
@@ -89,6 +129,17 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 	if len(files) == 0 {
 		return errors.New("no instance files found in the given paths")
 	}
+	if *cpuProfile != "" {
+		fh, err := os.Create(*cpuProfile)
+		if err != nil {
+			return err
+		}
+		defer fh.Close()
+		if err := pprof.StartCPUProfile(fh); err != nil {
+			return fmt.Errorf("--cpuprofile: %w", err)
+		}
+		defer pprof.StopCPUProfile()
+	}
 	var rows []benchRow
 	if !*quiet {
 		fmt.Fprintf(stdout, "%-22s %-18s %5s %4s %10s %10s %8s %8s %s\n", "family", "instance", "nodes", "seed", "best-known", "found", "gap %", "to best", "check")
@@ -100,18 +151,51 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 		}
 		fam := filepath.Base(filepath.Dir(file))
 		name := filepath.Base(file)
+		runBudget := famBudget.of(fam, *budget)
 		for seed := 1; seed <= *seeds; seed++ {
-			row := benchRow{Family: fam, Instance: name, Nodes: in.N, Seed: int64(seed)}
+			row := benchRow{Family: fam, Instance: name, Nodes: in.N, Seed: int64(seed), Budget: runBudget.Seconds(), SecondsToBestKnown: -1, Workers: *workers}
 			var trace [][2]float64
-			s := solver.Settings{Budget: *budget, Iterations: *iterations, Seed: int64(seed),
-				OnImprove: func(p solver.Plan) {
-					if p.Feasible {
-						trace = append(trace, [2]float64{p.Elapsed.Seconds(), in.Float(p.Cost)})
+			s := solver.Settings{Budget: runBudget, Iterations: *iterations, Seed: int64(seed), Workers: *workers}
+			bk, hasBK := known[fam+"/"+name]
+			ctx, cancel := context.WithCancel(context.Background())
+			cpu0 := processCPU()
+			var called time.Time
+			row.CPUToBestKnown = -1
+			s.OnImprove = func(p solver.Plan) {
+				if !p.Feasible {
+					return
+				}
+				// Seconds from the call, preprocessing included
+				// (Plan.Elapsed starts after it).
+				trace = append(trace, [2]float64{time.Since(called).Seconds(), in.Float(p.Cost)})
+				if hasBK && row.CPUToBestKnown < 0 && atBestKnown(in.Float(p.Cost), bk.value, in.Scale) {
+					if cpu0 >= 0 {
+						row.CPUToBestKnown = processCPU() - cpu0
 					}
-				}}
-			res, err := solver.Solve(context.Background(), in, s)
+					if *stopAtBest {
+						cancel()
+					}
+				}
+			}
+			if *cpuBudget && runBudget > 0 {
+				if cpu0 < 0 {
+					cancel()
+					return errors.New("--cpu-budget: this system does not report CPU time")
+				}
+				// The wall-clock budget stays as a backstop.
+				s.Budget = 20 * runBudget
+				cpuLimit(ctx, cancel, &s, cpu0+runBudget.Seconds())
+			}
+			called = time.Now()
+			res, err := solver.Solve(ctx, in, s)
+			wall := time.Since(called)
+			cancel()
 			if err != nil {
 				return fmt.Errorf("%s: %w", file, err)
+			}
+			row.CPUSeconds = -1
+			if cpu0 >= 0 {
+				row.CPUSeconds = processCPU() - cpu0
 			}
 			// The independent evaluator decides, not the engine's own numbers.
 			chk := solver.Evaluate(in, res.Best.Route)
@@ -119,16 +203,19 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 			row.Feasible = chk.Feasible && row.Checked
 			row.Found = in.Float(chk.Travel)
 			row.SecondsToBest = res.Best.Elapsed.Seconds()
-			row.Seconds = res.Elapsed.Seconds()
+			row.Seconds = wall.Seconds()
 			row.Iterations = res.Iterations
 			row.Trace = trace
-			if bk, ok := known[fam+"/"+name]; ok {
+			if hasBK {
 				row.HasBest, row.BestKnown = true, bk.value
 				if row.Feasible {
 					row.GapPct = 100 * (row.Found - bk.value) / bk.value
 					// Published values of the real-valued families are rounded
 					// to two decimals (shared/benchmarks/tsptw/README.md).
-					row.AtBest = row.Found <= bk.value+0.01+1e-9 || row.GapPct <= 0.05 && in.Scale > 1
+					row.AtBest = atBestKnown(row.Found, bk.value, in.Scale)
+				}
+				if row.AtBest {
+					row.SecondsToBestKnown = timeToValue(trace, bk.value, in.Scale)
 				}
 			}
 			rows = append(rows, row)
@@ -147,25 +234,22 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 				fmt.Fprintf(stdout, "%-22s %-18s %5d %4d %10s %10s %8s %8.2f %s\n", fam, name, in.N, seed, bk, strconv.FormatFloat(row.Found, 'f', 2, 64), gap, row.SecondsToBest, state)
 			}
 		}
+		// Written after every instance, so that a long run that is stopped
+		// keeps what it measured.
+		if *jsonOut != "" {
+			rep := benchReport{CPUBudget: *cpuBudget, Budget: budget.String(), PerFamily: famBudget.String(), Iterations: *iterations, Workers: *workers,
+				Machine: machine(), Command: benchCommand(args), Families: summarise(rows), Runs: rows}
+			if err := rep.write(*jsonOut); err != nil {
+				return err
+			}
+		}
 	}
-	sums := summarise(rows)
-	table := summaryTable(sums, *budget, *iterations)
+	rep := benchReport{CPUBudget: *cpuBudget, Budget: budget.String(), PerFamily: famBudget.String(), Iterations: *iterations, Workers: *workers,
+		Machine: machine(), Command: benchCommand(args), Families: summarise(rows), Runs: rows}
+	table := rep.table()
 	fmt.Fprint(stdout, "\n"+table)
-	if *jsonOut != "" {
-		data, _ := json.MarshalIndent(struct {
-			Budget   string          `json:"budget"`
-			Machine  string          `json:"machine"`
-			Families []familySummary `json:"families"`
-			Runs     []benchRow      `json:"runs"`
-		}{budget.String(), machine(), sums, rows}, "", " ")
-		if err := os.WriteFile(*jsonOut, data, 0o644); err != nil {
-			return err
-		}
-	}
-	if *readme != "" {
-		if err := replaceBetween(*readme, "<!-- bench:start -->", "<!-- bench:end -->", table); err != nil {
-			return err
-		}
+	if err := rep.publish(*readme, *chart); err != nil {
+		return err
 	}
 	for _, r := range rows {
 		if !r.Checked {
@@ -187,8 +271,9 @@ func summarise(rows []benchRow) []familySummary {
 	var out []familySummary
 	for _, fam := range order {
 		rs := by[fam]
-		s := familySummary{Family: fam, Runs: len(rs)}
-		var times []float64
+		s := familySummary{Family: fam, Runs: len(rs), Budget: (time.Duration(rs[0].Budget * float64(time.Second))).String()}
+		var times, toKnown, cpuToKnown []float64
+		var cpu, wall float64
 		var rate float64
 		gapN := 0
 		for _, r := range rs {
@@ -208,6 +293,16 @@ func summarise(rows []benchRow) []familySummary {
 				gapN++
 			}
 			times = append(times, r.SecondsToBest)
+			if r.CPUSeconds >= 0 {
+				cpu += r.CPUSeconds
+				wall += r.Seconds
+			}
+			if r.AtBest && r.SecondsToBestKnown >= 0 {
+				toKnown = append(toKnown, r.SecondsToBestKnown)
+				if r.CPUToBestKnown >= 0 {
+					cpuToKnown = append(cpuToKnown, r.CPUToBestKnown)
+				}
+			}
 			if r.Seconds > 0 {
 				rate += float64(r.Iterations) / r.Seconds
 			}
@@ -219,26 +314,15 @@ func summarise(rows []benchRow) []familySummary {
 		if len(times) > 0 {
 			s.MedianToBest = times[len(times)/2]
 		}
+		s.MedianToBestKnown = median(toKnown)
+		s.MedianCPUToBestKnown = median(cpuToKnown)
+		if wall > 0 {
+			s.CPUShare = cpu / wall
+		}
 		s.MeanIterRate = rate / float64(len(rs))
 		out = append(out, s)
 	}
 	return out
-}
-
-func summaryTable(sums []familySummary, budget time.Duration, iters int) string {
-	var b strings.Builder
-	lim := budget.String()
-	if iters > 0 {
-		lim += fmt.Sprintf(", %d iterations", iters)
-	}
-	fmt.Fprintf(&b, "Budget %s per run, one thread; %s.\n\n", lim, machine())
-	b.WriteString("| family | runs | feasible | at best-known | mean gap % | max gap % | median s to best | iterations/s |\n")
-	b.WriteString("|---|---|---|---|---|---|---|---|\n")
-	for _, s := range sums {
-		fmt.Fprintf(&b, "| %s | %d | %d | %d (%.0f%%) | %.3f | %.3f | %.2f | %.0f |\n", s.Family, s.Runs, s.Feasible, s.AtBest,
-			100*float64(s.AtBest)/math.Max(1, float64(s.WithBestKnown)), s.MeanGapPct, s.MaxGapPct, s.MedianToBest, s.MeanIterRate)
-	}
-	return b.String()
 }
 
 func machine() string {
@@ -255,6 +339,9 @@ func machine() string {
 	}
 	if cpu != "" {
 		host += ", " + cpu
+	}
+	if runtime.GOOS == "js" {
+		return fmt.Sprintf("%s (one thread), %s", host, runtime.Version())
 	}
 	return fmt.Sprintf("%s, %d cores, %s", host, runtime.NumCPU(), runtime.Version())
 }

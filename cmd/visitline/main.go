@@ -18,6 +18,9 @@ usage:
   visitline bench [flags] FILES_OR_DIRS...
                                        run the engine on benchmark instances
   visitline serve [flags]              serve the planner page on 127.0.0.1
+  visitline gen [flags] > FILE         write an invented, feasible instance of any size
+  visitline scale [flags]              measure the engine on generated instances of growing size
+  visitline wasm-speed [flags] FILES   compare the WebAssembly build's iteration rate with this one's
   visitline site [--engine F] DIR      write the static page into DIR
 `
 
@@ -40,6 +43,12 @@ func run(args []string, stdout, stderr io.Writer) int {
 		err = runCheck(args[1:], stdout, stderr)
 	case "bench":
 		err = runBench(args[1:], stdout, stderr)
+	case "gen":
+		err = runGen(args[1:], stdout, stderr)
+	case "scale":
+		err = runScale(args[1:], stdout, stderr)
+	case "wasm-speed":
+		err = runSpeed(args[1:], stdout, stderr)
 	case "serve":
 		err = runServe(args[1:], stdout, stderr)
 	case "site":

@@ -8,10 +8,12 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"runtime"
 	"strings"
 	"time"
 
 	"visitline/solver"
+	"visitline/solver/bound"
 	"visitline/solver/format"
 )
 
@@ -26,6 +28,8 @@ type solveFlags struct {
 	format     string
 	date       string
 	quiet      bool
+	bound      bool
+	workers    int
 	load       loadFlags
 }
 
@@ -80,6 +84,8 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	fs.StringVar(&f.format, "format", "table", "output: table, json, csv or ics (iCalendar)")
 	fs.StringVar(&f.date, "date", "", "day of the plan for --format ics when the sites file has no dates, YYYY-MM-DD (default: today)")
 	fs.BoolVar(&f.quiet, "quiet", false, "no progress on stderr")
+	fs.BoolVar(&f.bound, "bound", true, "compute a lower bound beside the search and prove the plan optimal where the exact search can")
+	fs.IntVar(&f.workers, "workers", 0, fmt.Sprintf("searches side by side, sharing the best plan (default: the number of cores, %d; but 1 with --iterations, so that a seed reproduces the run)", runtime.NumCPU()))
 	f.load.register(fs)
 	fs.Usage = func() {
 		fmt.Fprintln(stderr, "usage: visitline solve [flags] SITES.csv|BENCHMARK.txt")
@@ -110,6 +116,15 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	if f.budget <= 0 && f.iterations <= 0 {
 		return usageError{"set a --budget above 0 or an --iterations count, or the search never stops"}
 	}
+	if f.workers < 0 || f.workers == 0 && isSet(fs, "workers") {
+		return usageError{fmt.Sprintf("--workers %d: want 1 or more", f.workers)}
+	}
+	if f.workers == 0 {
+		f.workers = runtime.NumCPU()
+		if f.iterations > 0 {
+			f.workers = 1
+		}
+	}
 	obj, err := solver.ParseObjective(f.objective)
 	if err != nil {
 		return usageError{err.Error()}
@@ -132,7 +147,7 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	in := d.Instance
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
-	s := solver.Settings{Budget: f.budget, Iterations: f.iterations, Seed: f.seed, Mix: mix, FixedMix: f.fixedMix, FewestLate: f.fewestLate, Objective: obj}
+	s := solver.Settings{Budget: f.budget, Iterations: f.iterations, Seed: f.seed, Mix: mix, FixedMix: f.fixedMix, FewestLate: f.fewestLate, Objective: obj, Workers: f.workers}
 	if !f.quiet {
 		s.OnImprove = func(p solver.Plan) {
 			state := "feasible"
@@ -142,11 +157,23 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 			fmt.Fprintf(stderr, "%8.3fs  iter %-8d cost %-12s %s (%s)\n", p.Elapsed.Seconds(), p.Iteration, d.FormatDuration(p.Cost), state, p.Operator)
 		}
 	}
-	res, err := solver.Solve(ctx, in, s)
+	var res solver.Result
+	var b bound.Bound
+	if f.bound {
+		res, b, err = bound.Solve(ctx, in, s)
+	} else {
+		res, err = solver.Solve(ctx, in, s)
+	}
 	if err != nil {
 		return err
 	}
 	j := d.PlanJSON(obj, res.Best, &res)
+	if f.bound {
+		fillBound(&j, in, b, res.Best)
+		if !res.Best.Feasible {
+			explain(ctx, &j, d, f.budget)
+		}
+	}
 	switch f.format {
 	case "ics":
 		return format.WriteICS(stdout, d, res.Best, format.ICSOptions{Date: day, Stamp: time.Now()})
@@ -156,6 +183,41 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 		return format.WriteCSV(stdout, in, j)
 	}
 	return format.WriteTable(stdout, j)
+}
+
+// fillBound adds the bound side's verdict to the plan's JSON.
+func fillBound(j *format.PlanJSON, in *solver.Instance, b bound.Bound, best solver.Plan) {
+	r := bound.ReportFor(b, best)
+	if r.HasBound {
+		lb := in.Float(r.LowerBound)
+		j.LowerBound = &lb
+	}
+	if r.HasGap {
+		g := r.GapPct
+		j.GapBoundPct = &g
+	}
+	j.ProvenOptimal = r.ProvenOptimal
+}
+
+// explain says why a day with no feasible plan is infeasible, in the
+// file's own times, within a share of the budget (at least a few seconds).
+func explain(ctx context.Context, j *format.PlanJSON, d *format.Dataset, budget time.Duration) {
+	limit := max(budget/2, 5*time.Second)
+	ctx, cancel := context.WithTimeout(ctx, limit)
+	defer cancel()
+	dur := d.FormatDuration
+	if d.Unit != "" {
+		dur = func(v int64) string { return d.FormatDuration(v) + " " + d.Unit }
+	}
+	ex, err := bound.ExplainWith(ctx, d.Instance, bound.ExplainOptions{FormatTime: d.FormatTime, FormatDuration: dur, Name: d.Name})
+	if err != nil {
+		if errors.Is(err, bound.ErrUndecided) {
+			j.Reason = "no plan meets every window within the search limits, and no short explanation was found in time"
+		}
+		return
+	}
+	j.Conflict = ex.ConflictIDs
+	j.Reason = ex.Reason
 }
 
 // loadInstance reads an instance file with default options (bench).
@@ -200,4 +262,15 @@ func unwrapPath(err error) error {
 		return pe.Err
 	}
 	return err
+}
+
+// isSet says whether the flag name was given on the command line.
+func isSet(fs *flag.FlagSet, name string) bool {
+	set := false
+	fs.Visit(func(f *flag.Flag) {
+		if f.Name == name {
+			set = true
+		}
+	})
+	return set
 }

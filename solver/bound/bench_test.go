@@ -1,0 +1,187 @@
+package bound
+
+import (
+	"context"
+	"encoding/csv"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/stretchr/testify/require"
+
+	"visitline/solver"
+	"visitline/solver/format"
+)
+
+// benchDir is the shared benchmark collection (shared/benchmarks/tsptw).
+const benchDir = "../../../shared/benchmarks/tsptw"
+
+type known struct {
+	family, instance string
+	best, lower      float64
+	source           string
+}
+
+// loadKnown reads best-known.csv, skipping the test when the collection is
+// absent (and failing under CI=true, where it must be there).
+func loadKnown(t testing.TB) []known {
+	t.Helper()
+	path := filepath.Join(benchDir, "best-known.csv")
+	fh, err := os.Open(path)
+	if err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatalf("benchmark collection missing under CI: %v", err)
+		}
+		t.Skipf("benchmark collection not found at %s: %v", benchDir, err)
+	}
+	defer fh.Close()
+	recs, err := csv.NewReader(fh).ReadAll()
+	require.NoError(t, err)
+	var out []known
+	for i, r := range recs {
+		if i == 0 {
+			continue
+		}
+		b, err := strconv.ParseFloat(r[2], 64)
+		require.NoError(t, err)
+		l, err := strconv.ParseFloat(r[3], 64)
+		require.NoError(t, err)
+		out = append(out, known{r[0], r[1], b, l, r[4]})
+	}
+	return out
+}
+
+func loadBench(t testing.TB, k known) *solver.Instance {
+	t.Helper()
+	path := filepath.Join(benchDir, k.family, k.instance)
+	fh, err := os.Open(path)
+	require.NoError(t, err)
+	defer fh.Close()
+	in, err := format.ReadBenchmark(fh, path)
+	require.NoError(t, err)
+	return in
+}
+
+// reportOptions reads VISITLINE_BOUND_RELAX (the share of the time for the
+// penalty ascent) for experiments; the default options otherwise.
+func reportOptions(t *testing.T) Options {
+	var o Options
+	if v := os.Getenv("VISITLINE_BOUND_RELAX"); v != "" {
+		f, err := strconv.ParseFloat(v, 64)
+		require.NoError(t, err)
+		o.RelaxShare = f
+	}
+	return o
+}
+
+// TestBoundReport runs the exact search on whole families with a time limit
+// per instance and prints the proven count and mean bound gap. It is a
+// measurement, not a test: it runs only with VISITLINE_BOUND_REPORT set, to
+// a comma-separated list of families (or "all"), and VISITLINE_BOUND_BUDGET
+// (default 10s). Run it with GOMAXPROCS=1 on a shared machine.
+func TestBoundReport(t *testing.T) {
+	fams := os.Getenv("VISITLINE_BOUND_REPORT")
+	if fams == "" {
+		t.Skip("set VISITLINE_BOUND_REPORT=Dumas,GendreauDumasExtended (or all) to run the bound report")
+	}
+	budget := 10 * time.Second
+	if v := os.Getenv("VISITLINE_BOUND_BUDGET"); v != "" {
+		d, err := time.ParseDuration(v)
+		require.NoError(t, err)
+		budget = d
+	}
+	filter := os.Getenv("VISITLINE_BOUND_FILTER")
+	type sum struct {
+		runs, proven     int
+		gap, gapInc, sec float64
+	}
+	sums := map[string]*sum{}
+	var order []string
+	for _, k := range loadKnown(t) {
+		if fams != "all" && !strings.Contains(","+fams+",", ","+k.family+",") {
+			continue
+		}
+		if filter != "" && !strings.Contains(k.instance, filter) {
+			continue
+		}
+		in := loadBench(t, k)
+		ctx, cancel := context.WithTimeout(context.Background(), budget)
+		start := time.Now()
+		b := Exact(ctx, in, reportOptions(t))
+		cancel()
+		el := time.Since(start).Seconds()
+		lb := in.Float(b.Value)
+		require.LessOrEqual(t, lb, k.best+0.01, "%s/%s: bound above best-known (%s)", k.family, k.instance, b.Method)
+		gap := 100 * (k.best - lb) / math.Max(lb, 1e-9)
+		if gap < 0 {
+			gap = 0
+		}
+		gapInc := math.NaN()
+		if b.Route != nil {
+			gapInc = 100 * (in.Float(b.Cost) - lb) / math.Max(lb, 1e-9)
+		}
+		s := sums[k.family]
+		if s == nil {
+			s = &sum{}
+			sums[k.family] = s
+			order = append(order, k.family)
+		}
+		s.runs++
+		if b.ProvenOptimal {
+			s.proven++
+			require.InDelta(t, k.best, in.Float(b.Cost), 0.011, "%s/%s: proven optimum differs from best-known (%s)", k.family, k.instance, k.source)
+		}
+		s.gap += gap
+		s.sec += el
+		fmt.Printf("%-22s %-18s n=%3d best=%8.2f lb=%8.2f (%-11s) route=%8.2f gap=%6.2f%% proven=%-5v %5.2fs labels=%d %s\n",
+			k.family, k.instance, in.N, k.best, lb, b.Method, in.Float(b.Cost), gap, b.ProvenOptimal, el, b.Labels, strings.Join(b.Notes, "; "))
+		_ = gapInc
+	}
+	for _, f := range order {
+		s := sums[f]
+		fmt.Printf("SUMMARY %-22s runs=%d proven=%d mean-gap-to-best-known=%.3f%% mean-seconds=%.2f budget=%v\n", f, s.runs, s.proven, s.gap/float64(s.runs), s.sec/float64(s.runs), budget)
+	}
+}
+
+// BenchmarkExact proves one mid-sized tight-window instance optimal per
+// iteration (Dumas n60w40.001, optimum 591 per best-known.csv: Dumas et al.
+// (1995)).
+func BenchmarkExact(b *testing.B) {
+	var k known
+	for _, x := range loadKnown(b) {
+		if x.family == "Dumas" && x.instance == "n60w40.001.txt" {
+			k = x
+		}
+	}
+	in := loadBench(b, k)
+	for b.Loop() {
+		r := Exact(context.Background(), in, Options{})
+		if !r.ProvenOptimal || in.Float(r.Cost) != k.best {
+			b.Fatalf("not proven: %+v", r.Notes)
+		}
+	}
+}
+
+// BenchmarkRelaxation builds the state-space relaxation of a wide-window
+// instance once per iteration (GendreauDumasExtended n60w120.001).
+func BenchmarkRelaxation(b *testing.B) {
+	var k known
+	for _, x := range loadKnown(b) {
+		if x.family == "GendreauDumasExtended" && x.instance == "n60w120.001.txt" {
+			k = x
+		}
+	}
+	in := loadBench(b, k)
+	p := newProb(in)
+	lam := make([]int64, in.N)
+	for b.Loop() {
+		if rx := buildRelax(context.Background(), p, solver.TravelTime, lam, 24, 6<<20, &yielder{}); rx == nil {
+			b.Fatal("no table")
+		}
+	}
+}
