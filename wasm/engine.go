@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"strconv"
 	"strings"
@@ -11,6 +12,7 @@ import (
 	"time"
 
 	"visitline/solver"
+	"visitline/solver/bound"
 	"visitline/solver/format"
 )
 
@@ -149,7 +151,7 @@ func (e *Engine) start(m inbound) {
 	e.mu.Unlock()
 	budget := time.Duration(m.Budget * float64(time.Second))
 	e.send(map[string]any{"type": "started", "run": r.id, "budget": m.Budget, "seed": m.Seed, "mix": mixOut(mix), "fixed": m.Fixed, "objective": obj.String()})
-	go e.search(ctx, r, d, solver.Settings{Budget: budget, Seed: m.Seed, Mix: mix, FixedMix: m.Fixed, Objective: obj, FewestLate: m.FewestLate})
+	go e.search(ctx, r, d, solver.Settings{Budget: budget, Seed: m.Seed, Mix: mix, FixedMix: m.Fixed, Objective: obj, FewestLate: m.FewestLate}, !m.NoBound)
 }
 
 // mixOut gives the weights the search starts from, for display.
@@ -165,16 +167,34 @@ func mixOut(m solver.Mix) map[string]float64 {
 	return out
 }
 
-func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, s solver.Settings) {
+func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, s solver.Settings, withBound bool) {
 	in := d.Instance
 	defer close(r.done)
 	defer r.cancel()
+	// With the bound, OnImprove may come from the exact search's goroutine
+	// too (never at the same time as from the engine's): mu keeps the
+	// coalescing state whole natively; in the browser there is one thread.
 	var (
+		mu           sync.Mutex
 		pending      *solver.Plan
 		lastPost     time.Time
 		iterations   int
 		improvements int
 	)
+	post := func(p solver.Plan, res solver.Result, extra func(*format.PlanJSON)) {
+		j := d.PlanJSON(s.Objective, p, &res)
+		if extra != nil {
+			extra(&j)
+		}
+		var csv, js bytes.Buffer
+		if err := format.WriteCSV(&csv, in, j); err != nil {
+			e.fail("cannot write the plan as CSV: %v", err)
+		}
+		if err := format.WriteJSON(&js, j); err != nil {
+			e.fail("cannot write the plan as JSON: %v", err)
+		}
+		e.send(map[string]any{"type": "plan", "run": r.id, "plan": j, "csv": csv.String(), "json": js.String()})
+	}
 	flush := func() {
 		if pending == nil {
 			return
@@ -185,21 +205,14 @@ func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, s solver
 		if p.Iteration > iterations {
 			iterations = p.Iteration
 		}
-		res := solver.Result{Iterations: iterations, Elapsed: time.Since(r.start), Improvements: improvements}
-		j := d.PlanJSON(s.Objective, p, &res)
-		var csv, js bytes.Buffer
-		if err := format.WriteCSV(&csv, in, j); err != nil {
-			e.fail("cannot write the plan as CSV: %v", err)
-		}
-		if err := format.WriteJSON(&js, j); err != nil {
-			e.fail("cannot write the plan as JSON: %v", err)
-		}
-		e.send(map[string]any{"type": "plan", "run": r.id, "plan": j, "csv": csv.String(), "json": js.String()})
+		post(p, solver.Result{Iterations: iterations, Elapsed: time.Since(r.start), Improvements: improvements}, nil)
 	}
 	s.MixUpdates = r.mix
 	s.Pause = e.pause
 	s.ProgressEvery = 50 * time.Millisecond
 	s.OnImprove = func(p solver.Plan) {
+		mu.Lock()
+		defer mu.Unlock()
 		improvements++
 		pending = &p
 		if time.Since(lastPost) >= planEvery {
@@ -207,23 +220,60 @@ func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, s solver
 		}
 	}
 	s.OnProgress = func(p solver.Progress) {
+		mu.Lock()
+		defer mu.Unlock()
 		flush()
 		iterations = p.Iteration
 		e.send(map[string]any{"type": "progress", "run": r.id, "iterations": p.Iteration, "elapsed": p.Elapsed.Seconds(),
 			"best_cost": in.Float(p.BestCost), "feasible": p.Feasible, "weights": p.Weights})
 	}
-	res, err := solve(ctx, in, s)
+	var (
+		res solver.Result
+		b   bound.Bound
+		err error
+	)
+	if withBound {
+		res, b, err = solveBound(ctx, in, s, bound.Options{Yield: e.pause})
+	} else {
+		res, err = solve(ctx, in, s)
+	}
+	mu.Lock()
+	defer mu.Unlock()
 	if err != nil {
 		flush()
 		e.send(map[string]any{"type": "finished", "run": r.id, "why": "error", "message": err.Error(),
 			"iterations": iterations, "elapsed": time.Since(r.start).Seconds(), "improvements": improvements})
 		return
 	}
-	if pending == nil && improvements == 0 && res.Best.Route != nil {
-		// A search that reports nothing through OnImprove still has a best.
-		pending = &res.Best
+	pending = nil
+	if res.Best.Route != nil {
+		// The last word on the best plan, with what the bound says of it
+		// and, for a day that cannot be met, why: as `solve --format json`.
+		var report bound.Report
+		var ex *bound.Explanation
+		if withBound {
+			report = bound.ReportFor(b, res.Best)
+			if !res.Best.Feasible && ctx.Err() == nil {
+				e.send(map[string]any{"type": "progress", "run": r.id, "iterations": res.Iterations, "elapsed": time.Since(r.start).Seconds(),
+					"best_cost": in.Float(res.Best.Cost), "feasible": false, "explaining": true})
+				ex = explainDay(ctx, d, s.Budget)
+			}
+		}
+		post(res.Best, res, func(j *format.PlanJSON) {
+			if report.HasBound {
+				lb := in.Float(report.LowerBound)
+				j.LowerBound = &lb
+			}
+			if report.HasGap {
+				g := report.GapPct
+				j.GapBoundPct = &g
+			}
+			j.ProvenOptimal = report.ProvenOptimal
+			if ex != nil {
+				j.Conflict, j.Reason = ex.ConflictIDs, ex.Reason
+			}
+		})
 	}
-	flush()
 	why := res.Stop
 	if why == "cancelled" || (ctx.Err() != nil && why == "") {
 		why = "stopped"
@@ -232,8 +282,35 @@ func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, s solver
 		why = "budget"
 	}
 	e.send(map[string]any{"type": "finished", "run": r.id, "why": why, "iterations": res.Iterations,
-		"elapsed": res.Elapsed.Seconds(), "improvements": max(res.Improvements, improvements), "best_cost": in.Float(res.Best.Cost),
+		"elapsed": time.Since(r.start).Seconds(), "improvements": max(res.Improvements, improvements), "best_cost": in.Float(res.Best.Cost),
 		"feasible": res.Best.Feasible})
+}
+
+// solveBound is the search with the bound beside it (a variable, as solve).
+var solveBound = bound.SolveWith
+
+// explainLimit caps the time spent explaining a day that cannot be met:
+// the explanation's exact search gives the worker's event loop no turn, so
+// a stop waits for it.
+const explainLimit = 3 * time.Second
+
+// explainDay says why no plan meets every window, in the file's own times,
+// or returns nil when that cannot be decided in time.
+func explainDay(ctx context.Context, d *format.Dataset, budget time.Duration) *bound.Explanation {
+	ctx, cancel := context.WithTimeout(ctx, min(max(budget/2, time.Second), explainLimit))
+	defer cancel()
+	dur := d.FormatDuration
+	if d.Unit != "" {
+		dur = func(v int64) string { return d.FormatDuration(v) + " " + d.Unit }
+	}
+	ex, err := bound.ExplainWith(ctx, d.Instance, bound.ExplainOptions{FormatTime: d.FormatTime, FormatDuration: dur, Name: d.Name})
+	if err != nil {
+		if errors.Is(err, bound.ErrUndecided) {
+			return &bound.Explanation{Reason: "No plan meets every window within the search limits, and no short explanation was found in time."}
+		}
+		return nil
+	}
+	return &ex
 }
 
 func (e *Engine) changeMix(m inbound) {

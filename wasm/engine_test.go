@@ -164,7 +164,8 @@ func TestEngineMixChangeMidRun(t *testing.T) {
 	r := newRecorder()
 	e := NewEngine(r.post, func() {})
 	e.Handle(msg(t, map[string]any{"type": "load", "text": example(t)}))
-	e.Handle(msg(t, map[string]any{"type": "start", "budget": 30, "seed": 3, "fixed": true}))
+	// Without the bound, which proves this small day optimal at once.
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 30, "seed": 3, "fixed": true, "no_bound": true}))
 	r.wait(t, "progress")
 	e.Handle(msg(t, map[string]any{"type": "mix", "mix": map[string]any{"random": 3, "slice": 1, "related": 0, "worst": 0}}))
 	ack := r.wait(t, "mix")
@@ -193,7 +194,7 @@ func TestEngineStopIsPrompt(t *testing.T) {
 	r := newRecorder()
 	e := NewEngine(r.post, func() {})
 	e.Handle(msg(t, map[string]any{"type": "load", "text": example(t)}))
-	e.Handle(msg(t, map[string]any{"type": "start", "budget": 60, "seed": 1}))
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 60, "seed": 1, "no_bound": true}))
 	r.wait(t, "progress")
 	t0 := time.Now()
 	e.Handle(msg(t, map[string]any{"type": "stop"}))
@@ -293,4 +294,41 @@ func TestEngineReplansAfterDoneVisits(t *testing.T) {
 	assert.Equal(t, []any{"C07"}, s["done"])
 	assert.EqualValues(t, 11, s["sites"], "twelve cafés less the one done")
 	assert.Equal(t, "05:20", s["day_start_text"])
+}
+
+// lastPlan is the plan of the last "plan" message.
+func (r *recorder) lastPlan() map[string]any {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	for i := len(r.msgs) - 1; i >= 0; i-- {
+		if r.msgs[i]["type"] == "plan" {
+			return r.msgs[i]["plan"].(map[string]any)
+		}
+	}
+	return nil
+}
+
+func TestEngineBoundProvesSmallDay(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	e.Handle(msg(t, map[string]any{"type": "load", "text": example(t)}))
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 20, "seed": 1}))
+	fin := r.wait(t, "finished")
+	assert.Equal(t, "complete", fin["why"], "the exact search proves the 15 pick faces and ends the run")
+	p := r.lastPlan()
+	assert.Equal(t, true, p["proven_optimal"])
+	assert.Equal(t, p["cost"], p["lower_bound"])
+}
+
+func TestEngineExplainsDayThatCannotBeMet(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post, func() {})
+	// 1 must start by 10 and 2 by 12, 5 from the start and 20 apart.
+	e.Handle(msg(t, map[string]any{"type": "load", "text": "3\n0 5 5\n5 0 20\n5 20 0\n0 100\n0 10\n0 12\n"}))
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 1, "seed": 1}))
+	r.wait(t, "finished")
+	p := r.lastPlan()
+	assert.Equal(t, false, p["feasible"])
+	assert.ElementsMatch(t, []any{"1", "2"}, p["conflict"])
+	assert.NotEmpty(t, p["reason"])
 }

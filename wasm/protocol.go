@@ -21,13 +21,15 @@
 //	    as the command line; options mean what the flags of the same names
 //	    of `visitline solve` mean (zero values: the defaults). Stops a
 //	    running search first. Replies "loaded" or "errors".
-//	{"type":"start", "budget":10, "seed":1, "mix":{"random":1,...}, "fixed":false, "objective":"travel", "fewest_late":false}
+//	{"type":"start", "budget":10, "seed":1, "mix":{"random":1,...}, "fixed":false, "objective":"travel",
+//	 "fewest_late":false, "no_bound":false}
 //	    Search the loaded instance for budget seconds (0 < budget <= 3600)
 //	    with that seed and starting mix (omitted: even mix); fixed keeps the
 //	    weights as given instead of adapting them (--fixed-mix); objective is
 //	    travel or completion; fewest_late ranks a day that cannot be met by
-//	    its number of late visits (--fewest-late). Stops a running search
-//	    first. Replies "started", then "plan" and "progress" while it
+//	    its number of late visits (--fewest-late); no_bound leaves out the
+//	    lower bound and exact search that run beside the engine as with
+//	    `solve` (--bound=false). Stops a running search first. Replies "started", then "plan" and "progress" while it
 //	    runs, and "finished" at the end.
 //	{"type":"mix", "mix":{"random":2,"slice":0,...}}
 //	    Replace the operator weights of the running search. Replies "mix".
@@ -51,10 +53,13 @@
 //	    A new best plan: plan is the object of `visitline solve --format
 //	    json`; csv and json are the exports, written by the same code as
 //	    the command line. Plans found in a burst are coalesced so that at most
-//	    one is sent every 50 ms; the best one is always sent before
-//	    "finished".
+//	    one is sent every 50 ms. The best plan is sent once more just before
+//	    "finished", with lower_bound, gap_bound_pct and proven_optimal from
+//	    the bound, and for a day that cannot be met conflict and reason.
 //	{"type":"progress", "run":1, "iterations":1234, "elapsed":1.5, "best_cost":812, "feasible":true, "weights":{...}}
-//	    About every 50 ms while searching; elapsed in seconds.
+//	    About every 50 ms while searching; elapsed in seconds. One with
+//	    "explaining":true says the search is over and the worker is looking
+//	    for why the windows cannot all be met (a few seconds at most).
 //	{"type":"mix", "run":1, "mix":{...}, "running":true, "elapsed":2.1}
 //	    Acknowledges a mix change: running says whether a search was
 //	    running to take it (if not, the page keeps it for the next start).
@@ -95,6 +100,10 @@ type inbound struct {
 	// FewestLate ranks days that cannot be met by the number of late
 	// visits rather than the total lateness (--fewest-late).
 	FewestLate bool `json:"fewest_late"`
+	// NoBound leaves out the lower bound and the exact search that runs
+	// beside the engine (--bound=false): the engine then has the thread to
+	// itself.
+	NoBound bool `json:"no_bound"`
 	// load: an optional travel matrix for a sites file, and the route and
 	// travel options.
 	Matrix     string      `json:"matrix"`

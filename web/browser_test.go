@@ -434,6 +434,8 @@ func TestPageExampleRunTimelineTableExport(t *testing.T) {
 		assert.Equal(t, fmt.Sprint(k), rows[k][0])
 	}
 	assert.Equal(t, "back", rows[len(rows)-1][0])
+	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=quality]').textContent`), "proven the best possible",
+		"the bound beside the search proves the 15 pick faces")
 	best := eval[string](t, ctx, `document.querySelector('[data-testid=best-cost]').textContent`)
 	assert.True(t, strings.HasPrefix(best, fmt.Sprint(math.Round(p.Cost*100)/100)), best)
 
@@ -850,7 +852,10 @@ func TestPageSitesExamplesWithClockTimesAndCalendar(t *testing.T) {
 	// a day that cannot be met.
 	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 60*time.Second)
 	assert.False(t, eval[bool](t, ctx, `document.querySelector('[data-testid=why]').hidden`))
-	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=why]').textContent`), "late")
+	why := eval[string](t, ctx, `document.querySelector('[data-testid=why]').textContent`)
+	assert.Regexp(t, `W\d+ by [\d.]+ min`, why, "late visits named with their lateness in the file's unit")
+	assert.Contains(t, why, "cannot all be met together", "the reason found by the explanation, as solve --format json gives it")
+	assert.Contains(t, why, "These visits cannot all be on time together:")
 	assert.Positive(t, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .visit.is-late').length`))
 	screenshot(t, ctx, "11-overbooked")
 }

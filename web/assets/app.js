@@ -447,7 +447,7 @@
     state.budget = budget;
     document.body.dataset.run = "starting";
     send({ type: "start", budget: budget, seed: seed, mix: mix, fixed: $("fixed-mix").checked, objective: $("objective").value,
-      fewest_late: $("fewest-late").checked });
+      fewest_late: $("fewest-late").checked, no_bound: !$("with-bound").checked });
   }
 
   function onStarted(m) {
@@ -464,6 +464,7 @@
     $("rate").textContent = "–";
     $("iterations").textContent = "0";
     $("improvements").textContent = "0";
+    $("quality").textContent = "–";
     document.body.dataset.run = "running";
     setStatus("Searching for " + m.budget + " s with seed " + m.seed + "…");
   }
@@ -489,11 +490,20 @@
     ics.disabled = !(state.summary && state.summary.unit);
     ics.title = ics.disabled ? "A calendar needs a sites file with clock times; this data has no times of day." : "";
     showWhy(p);
+    $("quality").textContent = qualityText(p);
     $("print-title").textContent = (state.data ? state.data.name + " · " : "") + "cost " + num(p.cost) +
       (p.feasible ? ", every window met" : ", " + plural(late, "visit", "visits") + " late") + " · planned " + new Date().toLocaleString("en-GB");
     drawTimeline(p);
     drawTable(p);
     drawChart();
+  }
+
+  function qualityText(p) {
+    const unit = p.unit === "min" ? " min" : "";
+    if (p.proven_optimal) return "proven the best possible" + (typeof p.lower_bound === "number" ? " (no plan can cost less than " + num(p.lower_bound) + unit + ")" : "");
+    if (typeof p.gap_bound_pct === "number") return "at most " + (Math.round(p.gap_bound_pct * 100) / 100) + "% above the best possible (no plan can cost less than " + num(p.lower_bound) + unit + ")";
+    if (typeof p.lower_bound === "number") return "no plan can cost less than " + num(p.lower_bound) + unit;
+    return "–";
   }
 
   function showWhy(p) {
@@ -506,13 +516,18 @@
     box.hidden = false;
     const late = p.late || [];
     let t = "No order found meets every window: " + plural(late.length, "visit is", "visits are") + " late (" +
-      late.map((l) => l.id + " by " + num(l.by)).join(", ") + "). The plan keeps the total lateness as small as it could.";
+      late.map((l) => l.id + " by " + num(l.by) + (p.unit === "min" ? " min" : "")).join(", ") + "). The plan keeps " +
+      (p.late && $("fewest-late").checked ? "the number of late visits" : "the total lateness") + " as small as it could.";
     if (p.reason) t += " " + p.reason;
     box.appendChild(el("p", "", t));
     if (p.conflict && p.conflict.length) box.appendChild(el("p", "", "These visits cannot all be on time together: " + p.conflict.join(", ") + "."));
   }
 
   function onProgress(m) {
+    if (m.explaining) {
+      setStatus("The search is over; looking for why the windows cannot all be met (a few seconds)…");
+      return;
+    }
     state.lastProgress = m;
     $("progress").value = Math.min(m.elapsed, state.budget);
     $("iterations").textContent = m.iterations.toLocaleString("en");
@@ -856,7 +871,7 @@
   }
   function settings() {
     return { budget: $("budget").value, seed: $("seed").value, mix: readMix(), fixed: $("fixed-mix").checked, objective: $("objective").value,
-      fewest_late: $("fewest-late").checked };
+      fewest_late: $("fewest-late").checked, with_bound: $("with-bound").checked };
   }
   function applySettings(st) {
     if (!st) return;
@@ -873,6 +888,7 @@
     }
     $("fixed-mix").checked = !!st.fixed;
     $("fewest-late").checked = !!st.fewest_late;
+    if (st.with_bound !== undefined) $("with-bound").checked = !!st.with_bound;
     if (st.objective) $("objective").value = st.objective;
   }
 
@@ -1065,7 +1081,7 @@
     });
     $("forget-session").addEventListener("click", forgetSession);
     $("share-link").addEventListener("click", makeShareLink);
-    for (const id of ["budget", "seed", "objective", "fixed-mix", "fewest-late"]) $(id).addEventListener("change", saveSoon);
+    for (const id of ["budget", "seed", "objective", "fixed-mix", "fewest-late", "with-bound"]) $(id).addEventListener("change", saveSoon);
     for (const el of mixInputs()) el.addEventListener("change", saveSoon);
     const tl = $("timeline");
     tl.addEventListener("focusin", showDetail);
