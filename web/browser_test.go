@@ -658,6 +658,8 @@ func TestMeasure(t *testing.T) {
 		chromedp.SetValue(byTestID("paste-input"), text),
 		chromedp.Click(byTestID("paste-load"))))
 	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
+	// The engine alone, as the native run below: no bound beside it.
+	eval[bool](t, ctx, `document.querySelector('[data-testid=with-bound]').checked = false; true`)
 	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), fmt.Sprint(budget)), chromedp.Click(byTestID("start"))))
 	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 30*time.Second)
 	iters := eval[float64](t, ctx, `Number(document.getElementById('iterations').textContent.replace(/,/g, ''))`)
