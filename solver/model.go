@@ -46,7 +46,7 @@ func (m *model) unit(i int) seg {
 	if i == m.end {
 		return m.endSeg
 	}
-	return seg{d: m.s[i], e: m.e[i], l: m.l[i], f: int32(i), z: int32(i)}
+	return seg{d: m.s[i], e: m.e[i], l: m.l[i]}
 }
 
 // newModel builds the model of in. It reports an error for constraints the
@@ -155,23 +155,22 @@ func newModel(in *Instance, obj Objective) (*model, error) {
 	switch {
 	case len(tail) > 0:
 		first = tail[0]
-		endSeg = seg{d: m.s[first], e: m.e[first], l: m.l[first], f: int32(N), z: int32(N)}
+		endSeg = seg{d: m.s[first], e: m.e[first], l: m.l[first]}
 		for k := 1; k < len(tail); k++ {
 			endSeg = join(endSeg, seg{d: m.s[tail[k]], e: m.e[tail[k]], l: m.l[tail[k]]}, m.t[tail[k-1]*n+tail[k]])
 		}
 		if in.Shape == Closed {
 			endSeg = join(endSeg, seg{e: -Horizon, l: in.Late[in.Start]}, m.t[tail[len(tail)-1]*n+in.Start])
 		}
-		endSeg.f, endSeg.z = int32(N), int32(N)
 		m.e[N], m.l[N] = endSeg.e, endSeg.l
 	case in.Shape == Closed:
 		first = in.Start
 		m.e[N], m.l[N] = -Horizon, in.Late[in.Start]
-		endSeg = seg{e: -Horizon, l: in.Late[in.Start], f: int32(N), z: int32(N)}
+		endSeg = seg{e: -Horizon, l: in.Late[in.Start]}
 	default: // open, free end
 		first = -1
 		m.e[N], m.l[N] = -Horizon, Horizon
-		endSeg = seg{e: -Horizon, l: Horizon, f: int32(N), z: int32(N)}
+		endSeg = seg{e: -Horizon, l: Horizon}
 	}
 	m.endSeg = endSeg
 	for i := 0; i < N; i++ {

@@ -11,28 +11,19 @@ type seg struct {
 	e  int64 // earliest start of service at the first node without waiting inside
 	l  int64 // latest start at the first node without adding time warp
 	c  int64 // travel cost: sum of arcs
-	f  int32 // first node
-	z  int32 // last node
 }
 
-// join concatenates a and b with the arc travel t between a.z and b.f.
+// join concatenates a and b with the arc travel t from a's last node to b's first.
+// It is kept small enough for the compiler to inline: it is the engine's
+// innermost step.
 func join(a, b seg, t int64) seg {
-	delta := a.d - a.tw + t
-	wt := b.e - delta - a.l
-	if wt < 0 {
-		wt = 0
-	}
-	tw := a.e + delta - b.l
-	if tw < 0 {
-		tw = 0
-	}
-	e := b.e - delta
-	if a.e > e {
-		e = a.e
-	}
-	l := b.l - delta
-	if a.l < l {
-		l = a.l
-	}
-	return seg{d: a.d + b.d + t + wt, tw: a.tw + b.tw + tw, e: e - wt, l: l + tw, c: a.c + b.c + t, f: a.f, z: b.z}
+	dl := a.d - a.tw + t
+	wt := max(b.e-dl-a.l, 0)
+	tw := max(a.e+dl-b.l, 0)
+	a.d += b.d + t + wt
+	a.e = max(b.e-dl, a.e) - wt
+	a.l = min(b.l-dl, a.l) + tw
+	a.tw += b.tw + tw
+	a.c += b.c + t
+	return a
 }
