@@ -569,7 +569,7 @@
       budget: "Finished: the time was used up" + took + ".",
       iterations: "Finished: the iteration limit was reached" + took + ".",
       stopped: "Stopped" + took + ". The best plan found is kept below.",
-      complete: "Finished: nothing was left to search" + took + ".",
+      complete: "Finished early: nothing was left to search" + took + (state.plan && state.plan.proven_optimal ? "; the plan is proven the best possible." : "."),
       error: "The search failed: " + (m.message || "unknown error"),
     };
     setStatus(why[m.why] || "Finished (" + m.why + ")" + took + ".", m.why === "error" ? "error" : "done");
