@@ -256,7 +256,7 @@ func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, s solver
 			if !res.Best.Feasible && ctx.Err() == nil {
 				e.send(map[string]any{"type": "progress", "run": r.id, "iterations": res.Iterations, "elapsed": time.Since(r.start).Seconds(),
 					"best_cost": in.Float(res.Best.Cost), "feasible": false, "explaining": true})
-				ex = explainDay(ctx, d, s.Budget)
+				ex = explainDay(ctx, d, s.Budget, e.pause)
 			}
 		}
 		post(res.Best, res, func(j *format.PlanJSON) {
@@ -289,21 +289,20 @@ func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, s solver
 // solveBound is the search with the bound beside it (a variable, as solve).
 var solveBound = bound.SolveWith
 
-// explainLimit caps the time spent explaining a day that cannot be met:
-// the explanation's exact search gives the worker's event loop no turn, so
-// a stop waits for it.
+// explainLimit caps the time spent explaining a day that cannot be met
+// (the search yields to the event loop meanwhile, so a stop still lands).
 const explainLimit = 3 * time.Second
 
 // explainDay says why no plan meets every window, in the file's own times,
 // or returns nil when that cannot be decided in time.
-func explainDay(ctx context.Context, d *format.Dataset, budget time.Duration) *bound.Explanation {
+func explainDay(ctx context.Context, d *format.Dataset, budget time.Duration, yield func()) *bound.Explanation {
 	ctx, cancel := context.WithTimeout(ctx, min(max(budget/2, time.Second), explainLimit))
 	defer cancel()
 	dur := d.FormatDuration
 	if d.Unit != "" {
 		dur = func(v int64) string { return d.FormatDuration(v) + " " + d.Unit }
 	}
-	ex, err := bound.ExplainWith(ctx, d.Instance, bound.ExplainOptions{FormatTime: d.FormatTime, FormatDuration: dur, Name: d.Name})
+	ex, err := bound.ExplainWith(ctx, d.Instance, bound.ExplainOptions{FormatTime: d.FormatTime, FormatDuration: dur, Name: d.Name, Yield: yield})
 	if err != nil {
 		if errors.Is(err, bound.ErrUndecided) {
 			return &bound.Explanation{Reason: "No plan meets every window within the search limits, and no short explanation was found in time."}

@@ -29,7 +29,7 @@ func decide(ctx context.Context, in *solver.Instance, stageCap int) (feasible, p
 	if p.infeasible {
 		return false, true, nil
 	}
-	y := &yielder{}
+	y := &yielder{hook: yieldFrom(ctx)}
 	if in.N == 1 {
 		return true, true, []int{in.Start}
 	}
@@ -119,6 +119,17 @@ type ExplainOptions struct {
 	FormatDuration func(int64) string
 	// Name names a node in the sentence (for example its site name).
 	Name func(int) string
+	// Yield, like Options.Yield, is called about every 20 ms of work, so
+	// that a single-threaded host (the web worker) keeps taking messages.
+	Yield func()
+}
+
+type yieldKey struct{}
+
+// yieldFrom is the hook ExplainWith put into ctx, or nil.
+func yieldFrom(ctx context.Context) func() {
+	h, _ := ctx.Value(yieldKey{}).(func())
+	return h
 }
 
 // ExplainWith is Explain with the Reason written the caller's way.
@@ -126,6 +137,9 @@ func ExplainWith(ctx context.Context, in *solver.Instance, eo ExplainOptions) (E
 	ex := Explanation{Widen: -1, Drop: -1}
 	if err := in.Validate(); err != nil {
 		return ex, err
+	}
+	if eo.Yield != nil {
+		ctx = context.WithValue(ctx, yieldKey{}, eo.Yield)
 	}
 	ok, proven := FeasibleExists(ctx, in)
 	if ok {
