@@ -17,10 +17,10 @@ test:
 	$(GO) test -count=1 ./...
 
 # The full run takes about 80 minutes on one core: it writes
-# bench-results.json after every instance, the README's results table and
+# docs/bench-results.json after every instance, the README's results table and
 # docs/bench-chart.svg at the end.
 bench: build bench-kernels
-	./bin/visitline bench $(BENCH_BUDGETS) $(BENCH_FLAGS) --quiet --json bench-results.json --readme README.md --chart docs/bench-chart.svg $(BENCH_DIR)
+	./bin/visitline bench $(BENCH_BUDGETS) $(BENCH_FLAGS) --quiet --json docs/bench-results.json --readme README.md --chart docs/bench-chart.svg $(BENCH_DIR)
 
 bench-kernels:
 	$(GO) test -run '^$$' -bench . -benchmem -benchtime 3x ./solver/...
