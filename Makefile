@@ -19,10 +19,10 @@ test:
 	$(GO) test -count=1 ./...
 
 # The full run takes about 80 minutes on one core: it writes
-# bench-results.json after every instance, the README's results table and
+# docs/bench-results.json after every instance, the README's results table and
 # docs/bench-chart.svg at the end.
 bench: build bench-kernels
-	./bin/visitline bench $(BENCH_BUDGETS) $(BENCH_FLAGS) --quiet --json bench-results.json --readme README.md --chart docs/bench-chart.svg $(BENCH_DIR)
+	./bin/visitline bench $(BENCH_BUDGETS) $(BENCH_FLAGS) --quiet --json docs/bench-results.json --readme README.md --chart docs/bench-chart.svg $(BENCH_DIR)
 
 bench-kernels:
 	$(GO) test -run '^$$' -bench . -benchmem -benchtime 3x ./solver/...
@@ -63,8 +63,10 @@ bench-wasm: build wasm-cli bin/gen/n300-tight.txt bin/gen/n1000-tight.txt
 # on instances that take one worker over a second of CPU time to reach it
 # (found with bench --stop-at-best --cpu-budget). Budgets in CPU time: 20 s
 # for one worker, 40 s (20 s each) for two.
-WORKER_FILES ?= $(BENCH_DIR)/GendreauDumasExtended/n100w120.004.txt $(BENCH_DIR)/GendreauDumasExtended/n100w120.005.txt \
-	$(BENCH_DIR)/OhlmannThomas/n200w120.005.txt
+OT = $(BENCH_DIR)/OhlmannThomas
+WORKER_FILES ?= $(OT)/n150w120.002.txt $(OT)/n150w120.004.txt $(OT)/n150w120.005.txt $(OT)/n150w140.001.txt \
+	$(OT)/n150w140.005.txt $(OT)/n150w160.003.txt $(OT)/n200w120.005.txt $(OT)/n200w140.005.txt \
+	$(BENCH_DIR)/GendreauDumasExtended/n100w120.004.txt
 WORKER_FLAGS = --seeds 5 --cpu-budget --stop-at-best --quiet --bounds $(BENCH_DIR)/best-known.csv
 bench-workers: build
 	./bin/visitline bench --workers 1 --budget 20s $(WORKER_FLAGS) --json workers-1.json $(WORKER_FILES)

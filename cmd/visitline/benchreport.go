@@ -136,11 +136,11 @@ func (r *benchReport) table() string {
 	for _, s := range r.Families {
 		med := "-"
 		if s.MedianToBestKnown >= 0 {
-			med = fmt.Sprintf("%.2f", s.MedianToBestKnown)
+			med = fmt.Sprintf("%.3f", s.MedianToBestKnown)
 		}
 		cmed := "-"
 		if s.MedianCPUToBestKnown >= 0 {
-			cmed = fmt.Sprintf("%.2f", s.MedianCPUToBestKnown)
+			cmed = fmt.Sprintf("%.3f", s.MedianCPUToBestKnown)
 		}
 		share := "-"
 		if s.CPUShare > 0 {
