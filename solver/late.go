@@ -127,7 +127,7 @@ func (s *search) lateSearch(ctx context.Context, e *engine) {
 	if hi-lo < 1 {
 		return
 	}
-	evals := 40000
+	evals := max(2000, min(40000, 4_000_000/len(cur)))
 	curL, curC := descendLateness(m, cur, m.obj, evals)
 	e.offerExternal(cur, "lateness")
 	x := make([]int, len(cur))
@@ -157,7 +157,7 @@ func (s *search) lateSearch(ctx context.Context, e *engine) {
 // minimiseLateness is the last polish of an infeasible best plan.
 func minimiseLateness(m *model, route []int, obj Objective) Plan {
 	r := append([]int(nil), route...)
-	descendLateness(m, r, obj, 200000)
+	descendLateness(m, r, obj, max(2000, 20_000_000/len(r)))
 	s := Evaluate(m.in, r)
 	return Plan{Route: r, Schedule: s, Cost: s.Cost(obj), Feasible: s.Feasible}
 }

@@ -203,7 +203,8 @@ func (p *polisher) applyOr(i, j, q int, rev bool) {
 		b = append(b, x.r[q+1:]...)
 	}
 	p.buf = b
-	x.set(b)
+	lo, hi := min(i, q+1), max(j, q)
+	x.setSpan(b, lo, hi)
 	p.moves++
 }
 
@@ -232,7 +233,7 @@ func (p *polisher) twoOpt() bool {
 					b[a], b[c] = b[c], b[a]
 				}
 				p.buf = b
-				x.set(b)
+				x.setSpan(b, i, j)
 				p.moves++
 				improvedAny = true
 				feasible = x.total().tw == 0
@@ -281,7 +282,7 @@ func (p *polisher) swap() bool {
 				bf := append(p.buf[:0], x.r...)
 				bf[i], bf[j] = bf[j], bf[i]
 				p.buf = bf
-				x.set(bf)
+				x.setSpan(bf, i, j)
 				p.moves++
 				improvedAny = true
 				break

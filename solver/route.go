@@ -39,6 +39,27 @@ func (x *route) rebuild() {
 	}
 }
 
+// setSpan replaces the order when only positions lo..hi changed: the
+// forward summaries before lo and the backward ones after hi still hold.
+func (x *route) setSpan(r []int32, lo, hi int) {
+	if len(r) != len(x.r) || len(x.fwd) != len(r) {
+		x.set(r)
+		return
+	}
+	copy(x.r, r)
+	m := x.m
+	n := m.n
+	k := len(x.r)
+	lo = max(lo, 1)
+	hi = min(hi, k-2)
+	for i := lo; i < k; i++ {
+		x.fwd[i] = join(x.fwd[i-1], m.unit(int(x.r[i])), m.t[int(x.r[i-1])*n+int(x.r[i])])
+	}
+	for i := hi; i >= 0; i-- {
+		x.bwd[i] = join(m.unit(int(x.r[i])), x.bwd[i+1], m.t[int(x.r[i])*n+int(x.r[i+1])])
+	}
+}
+
 func (x *route) total() seg { return x.fwd[len(x.r)-1] }
 
 // arc is the travel from a to b.

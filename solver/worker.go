@@ -269,6 +269,20 @@ func constructOrder(m *model) []int32 {
 	return append(r, int32(m.end))
 }
 
+// warpPositions lists the route positions where time warp arises.
+func warpPositions(x *route) []int {
+	var out []int
+	for i := 1; i < len(x.r); i++ {
+		if x.fwd[i].tw > x.fwd[i-1].tw {
+			out = append(out, i)
+		}
+	}
+	if len(out) > 0 && out[len(out)-1] == len(x.r)-1 {
+		out[len(out)-1] = len(x.r) - 2 // the end cannot move: move the last visit
+	}
+	return out
+}
+
 // findFeasible perturbs and polishes with a heavy penalty until the time warp
 // is gone, the instance is known infeasible, or the engine stops
 // (da Silva and Urrutia, Discrete Optimization 7(4), 2010, in spirit: a
@@ -285,26 +299,51 @@ func (s *search) findFeasible(ctx context.Context, e *engine) {
 			break
 		}
 		x.set(best.r)
-		// Shake: move `level` random visits to random places.
 		k := len(x.r) - 2
 		if k < 2 {
 			return
 		}
+		// Shake: move `level` visits, half of them where the warp is, to
+		// a place nearby (or anywhere, now and then); then polish only
+		// around what moved.
+		p := &s.pol
+		if len(p.active) < m.n {
+			p.active = make([]bool, m.n)
+		}
+		for i := range p.active {
+			p.active[i] = false
+		}
 		for i := 0; i < level; i++ {
 			a := 1 + s.rng.Intn(k)
-			b := 1 + s.rng.Intn(k)
+			if s.rng.Intn(2) == 0 {
+				if late := warpPositions(x); len(late) > 0 {
+					a = late[s.rng.Intn(len(late))]
+				}
+			}
+			var b int
+			if s.rng.Intn(4) == 0 {
+				b = 1 + s.rng.Intn(k)
+			} else {
+				b = a - 1 - s.rng.Intn(min(30, k))
+				if s.rng.Intn(3) == 0 {
+					b = a + 1 + s.rng.Intn(min(30, k))
+				}
+				b = max(1, min(k, b))
+			}
 			if a == b {
 				continue
 			}
+			p.x = x
+			p.wakeAround(a)
 			v := x.r[a]
 			r := append([]int32(nil), x.r...)
 			r = append(r[:a], r[a+1:]...)
 			r = append(r[:b], append([]int32{v}, r[b:]...)...)
 			x.set(r)
+			p.wakeAround(b)
 		}
 		s.pol.x, s.pol.lam = x, 1e6
 		s.pol.moves = 0
-		s.pol.wakeAll()
 		s.pol.run(1 << 30)
 		if tw := x.total().tw; tw < bestTW {
 			bestTW = tw
