@@ -93,50 +93,23 @@ func (s *search) destroy(x *route, op int, q int) int {
 		at = a
 	case "related":
 		seed := r[1+s.rng.Intn(k)]
-		type cand struct {
-			v int32
-			d float64
-		}
-		cs := make([]cand, 0, k)
+		cs := make([]ranked, 0, k)
 		for _, v := range r[1 : len(r)-1] {
-			if v == seed {
-				continue
+			if v != seed {
+				cs = append(cs, ranked{v, s.relatedness(seed, v)})
 			}
-			cs = append(cs, cand{v, s.relatedness(seed, v)})
 		}
-		sort.Slice(cs, func(a, b int) bool { return cs[a].d < cs[b].d || cs[a].d == cs[b].d && cs[a].v < cs[b].v })
 		s.removed = append(s.removed, seed)
 		// Randomised pick biased to the most related (Ropke and Pisinger 2006, p = 6).
-		taken := make([]bool, len(cs))
-		for len(s.removed) < q {
-			idx := int(math.Pow(s.rng.Float64(), 6) * float64(len(cs)))
-			for taken[idx] {
-				idx = (idx + 1) % len(cs)
-			}
-			taken[idx] = true
-			s.removed = append(s.removed, cs[idx].v)
-		}
+		s.pickBiased(cs, q, 6)
 	case "worst":
-		type cand struct {
-			v    int32
-			gain float64
-		}
-		cs := make([]cand, 0, k)
+		cs := make([]ranked, 0, k)
 		cur := m.value(x.total(), s.lam)
 		for i := 1; i <= k; i++ {
 			sg := join(x.fwd[i-1], x.bwd[i+1], m.arc(r[i-1], r[i+1]))
-			cs = append(cs, cand{r[i], cur - m.value(sg, s.lam)})
+			cs = append(cs, ranked{r[i], m.value(sg, s.lam) - cur}) // most saved first
 		}
-		sort.Slice(cs, func(a, b int) bool { return cs[a].gain > cs[b].gain || cs[a].gain == cs[b].gain && cs[a].v < cs[b].v })
-		taken := make([]bool, len(cs))
-		for len(s.removed) < q {
-			idx := int(math.Pow(s.rng.Float64(), 3) * float64(len(cs)))
-			for taken[idx] {
-				idx = (idx + 1) % len(cs)
-			}
-			taken[idx] = true
-			s.removed = append(s.removed, cs[idx].v)
-		}
+		s.pickBiased(cs, q, 3)
 	}
 	for _, v := range s.removed {
 		s.inRem[v] = true
@@ -153,6 +126,28 @@ func (s *search) destroy(x *route, op int, q int) int {
 	s.keep = keep
 	x.set(keep)
 	return at
+}
+
+// ranked is a visit with a key, smaller first.
+type ranked struct {
+	v   int32
+	key float64
+}
+
+// pickBiased sorts cs by key and adds visits to s.removed until it holds q,
+// drawing rank ⌊u^p·len⌋ for uniform u: strongly biased to the front for a
+// large p, yet random.
+func (s *search) pickBiased(cs []ranked, q int, p float64) {
+	sort.Slice(cs, func(a, b int) bool { return cs[a].key < cs[b].key || cs[a].key == cs[b].key && cs[a].v < cs[b].v })
+	taken := make([]bool, len(cs))
+	for len(s.removed) < q && len(cs) > 0 {
+		idx := int(math.Pow(s.rng.Float64(), p) * float64(len(cs)))
+		for taken[idx] {
+			idx = (idx + 1) % len(cs)
+		}
+		taken[idx] = true
+		s.removed = append(s.removed, cs[idx].v)
+	}
 }
 
 // relatedness is small for visits close in travel and in window (Shaw 1998).
