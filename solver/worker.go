@@ -50,6 +50,10 @@ func (e *engine) work(ctx context.Context, id int, seed int64) {
 
 	// Construction: windows by latest start, then drive time warp to zero.
 	s.cur = newRoute(m, constructOrder(m))
+	if alt := newRoute(m, greedyOrder(m)); alt.total().tw < s.cur.total().tw ||
+		alt.total().tw == s.cur.total().tw && m.cost(alt.total()) < m.cost(s.cur.total()) {
+		s.cur = alt
+	}
 	s.lam = 1000
 	s.pol.x, s.pol.lam = s.cur, s.lam
 	s.pol.moves = 0
@@ -281,6 +285,45 @@ func warpPositions(x *route) []int {
 		out[len(out)-1] = len(x.r) - 2 // the end cannot move: move the last visit
 	}
 	return out
+}
+
+// greedyOrder builds a route forward in time: next comes the visit that can
+// start soonest, unless some visit would miss its latest start by waiting
+// one more step, in which case the most urgent goes first.
+func greedyOrder(m *model) []int32 {
+	n := m.n
+	left := append([]int(nil), m.movable...)
+	r := make([]int32, 0, len(left)+2)
+	r = append(r, int32(m.start))
+	cur, t := m.start, m.startAt+m.s[m.start]
+	for len(left) > 0 {
+		bi, bs := -1, int64(0)
+		ui, us := -1, int64(0)
+		for i, v := range left {
+			arr := t + m.t[cur*n+v]
+			st := max(arr, m.e[v])
+			if bi < 0 || st < bs {
+				bi, bs = i, st
+			}
+			if slack := m.l[v] - arr; ui < 0 || slack < us {
+				ui, us = i, slack
+			}
+		}
+		pick := bi
+		// Going to the soonest first would make the most urgent late.
+		v := left[bi]
+		if ui != bi && bs+m.s[v]+m.t[v*n+left[ui]] > m.l[left[ui]] {
+			pick = ui
+		}
+		v = left[pick]
+		arr := t + m.t[cur*n+v]
+		t = max(arr, m.e[v]) + m.s[v]
+		cur = v
+		r = append(r, int32(v))
+		left[pick] = left[len(left)-1]
+		left = left[:len(left)-1]
+	}
+	return append(r, int32(m.end))
 }
 
 // findFeasible perturbs and polishes with a heavy penalty until the time warp
