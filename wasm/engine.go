@@ -361,7 +361,6 @@ func (e *Engine) stopRun() {
 	<-r.done
 }
 
-func formatFloat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
 // export writes a plan of the loaded data in a format that needs more than
 // the plan message carries: today the calendar, which needs the day.

@@ -80,8 +80,6 @@ package main
 import (
 	"errors"
 	"math"
-	"sort"
-	"strings"
 
 	"visitline/solver"
 	"visitline/solver/format"
@@ -303,24 +301,11 @@ func flatten(err error) []error {
 	return []error{err}
 }
 
-// checkMix validates a mix sent by the page, as strictly as --mix.
+// checkMix validates a mix sent by the page, as strictly as --mix: the
+// same text goes through the same parser.
 func checkMix(m map[string]float64) (solver.Mix, error) {
 	if len(m) == 0 {
 		return nil, nil
 	}
-	keys := make([]string, 0, len(m))
-	for k := range m {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	var b strings.Builder
-	for i, k := range keys {
-		if i > 0 {
-			b.WriteByte(',')
-		}
-		b.WriteString(k)
-		b.WriteByte('=')
-		b.WriteString(formatFloat(m[k]))
-	}
-	return solver.ParseMix(b.String())
+	return solver.ParseMix(solver.Mix(m).String())
 }
