@@ -361,7 +361,6 @@ func (e *Engine) stopRun() {
 	<-r.done
 }
 
-
 // export writes a plan of the loaded data in a format that needs more than
 // the plan message carries: today the calendar, which needs the day.
 func (e *Engine) export(m inbound) {
