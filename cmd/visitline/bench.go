@@ -408,17 +408,30 @@ func collectFiles(paths []string) ([]string, error) {
 	return out, nil
 }
 
+// replaceBetween rewrites the text between two marker lines of a file.
+// A marker counts only alone on its line, so that a README may mention the
+// markers in its prose.
 func replaceBetween(path, startMark, endMark, body string) error {
 	data, err := os.ReadFile(path)
 	if err != nil {
 		return err
 	}
-	s := string(data)
-	i := strings.Index(s, startMark)
-	j := strings.Index(s, endMark)
-	if i < 0 || j < i {
-		return fmt.Errorf("%s: markers %s and %s not found", path, startMark, endMark)
+	lines := strings.SplitAfter(string(data), "\n")
+	from, to := -1, -1
+	for k, l := range lines {
+		t := strings.TrimSpace(l)
+		if t == startMark && from < 0 {
+			from = k
+		} else if t == endMark && from >= 0 && to < 0 {
+			to = k
+		}
 	}
-	s = s[:i+len(startMark)] + "\n" + body + s[j:]
-	return os.WriteFile(path, []byte(s), 0o644)
+	if from < 0 || to < 0 {
+		return fmt.Errorf("%s: no line %s followed by a line %s", path, startMark, endMark)
+	}
+	if body != "" && !strings.HasSuffix(body, "\n") {
+		body += "\n"
+	}
+	out := strings.Join(lines[:from+1], "") + body + strings.Join(lines[to:], "")
+	return os.WriteFile(path, []byte(out), 0o644)
 }

@@ -55,8 +55,8 @@ func chartData(rows []benchRow) []chartSeries {
 func drawChart(rows []benchRow) string {
 	series := chartData(rows)
 	const (
-		w, h                   = 760, 440
-		left, right, top, bot  = 64, 200, 36, 56
+		w, h                   = 820, 440
+		left, right, top, bot  = 64, 260, 36, 56
 		minT                   = 0.001
 		plotW, plotH           = w - left - right, h - top - bot
 		titleText              = "Share of instances at the best-known value against time"
@@ -69,7 +69,6 @@ func drawChart(rows []benchRow) string {
 			maxT = math.Max(maxT, t)
 		}
 	}
-	maxT = math.Pow(10, math.Ceil(math.Log10(maxT)))
 	lo, hi := math.Log10(minT), math.Log10(maxT)
 	x := func(t float64) float64 {
 		if t < minT {
@@ -90,8 +89,15 @@ func drawChart(rows []benchRow) string {
 		fmt.Fprintf(&b, `<line x1="%d" y1="%.1f" x2="%d" y2="%.1f" stroke="#dddddd"/>`+"\n", left, y(share), left+plotW, y(share))
 		fmt.Fprintf(&b, `<text x="%d" y="%.1f" text-anchor="end" dominant-baseline="middle">%d%%</text>`+"\n", left-6, y(share), k*25)
 	}
-	for e := int(lo); e <= int(hi); e++ {
-		t := math.Pow(10, float64(e))
+	ticks := []float64{}
+	for e := int(lo); float64(e) <= hi+1e-9; e++ {
+		ticks = append(ticks, math.Pow(10, float64(e)))
+	}
+	// The axis ends at the longest budget; label it when it is no decade.
+	if last := ticks[len(ticks)-1]; maxT/last > 1.5 {
+		ticks = append(ticks, maxT)
+	}
+	for _, t := range ticks {
 		fmt.Fprintf(&b, `<line x1="%.1f" y1="%d" x2="%.1f" y2="%d" stroke="#dddddd"/>`+"\n", x(t), top, x(t), top+plotH)
 		fmt.Fprintf(&b, `<text x="%.1f" y="%d" text-anchor="middle">%s</text>`+"\n", x(t), top+plotH+16, secondsLabel(t))
 	}

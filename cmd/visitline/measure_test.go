@@ -263,3 +263,15 @@ func TestScaleChartDrawsOneLinePerTightness(t *testing.T) {
 	assert.Contains(t, svg, "tight (slope 1.00)")
 	assert.Contains(t, drawScaleChart(nil), "no rows with a time per iteration")
 }
+
+func TestReplaceBetweenOnlyUsesMarkerLines(t *testing.T) {
+	dir := t.TempDir()
+	p := filepath.Join(dir, "R.md")
+	src := "Use `<!-- bench:start -->` and `<!-- bench:end -->` in prose.\n\n<!-- bench:start -->\nold\n<!-- bench:end -->\nafter\n"
+	require.NoError(t, os.WriteFile(p, []byte(src), 0o644))
+	require.NoError(t, replaceBetween(p, "<!-- bench:start -->", "<!-- bench:end -->", "new table"))
+	data, err := os.ReadFile(p)
+	require.NoError(t, err)
+	assert.Equal(t, "Use `<!-- bench:start -->` and `<!-- bench:end -->` in prose.\n\n<!-- bench:start -->\nnew table\n<!-- bench:end -->\nafter\n", string(data))
+	assert.ErrorContains(t, replaceBetween(p, "<!-- x:start -->", "<!-- x:end -->", "y"), "no line <!-- x:start -->")
+}

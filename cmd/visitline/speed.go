@@ -115,6 +115,12 @@ func runSpeed(args []string, stdout, stderr io.Writer) error {
 				if err != nil {
 					return 0, 0, 0, 0, err
 				}
+				// The difference of N and 2N only measures iterations when
+				// both runs use their whole budget (a search that proves its
+				// plan optimal stops early).
+				if r.Iterations < it {
+					return 0, 0, 0, 0, fmt.Errorf("the run stopped after %d of %d iterations; the comparison needs runs that use their whole budget (pick an instance that is not solved to optimality this quickly)", r.Iterations, it)
+				}
 				cpus[h] = cpu
 				if h == 1 {
 					sec, cost, nodes = r.Seconds, r.Found, r.Nodes
