@@ -56,7 +56,7 @@ bin/gen/n1000-tight.txt: build
 	mkdir -p bin/gen && ./bin/visitline gen --n 1000 --tightness tight --seed 1 > $@
 WASM_SCALE_BUDGET ?= 30s
 bench-wasm: build wasm-cli bin/gen/n300-tight.txt bin/gen/n1000-tight.txt
-	./bin/visitline wasm-speed --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --iterations 200 --repeats 3 --json wasm-speed.json --readme README.md $(SPEED_FILES)
+	./bin/visitline wasm-speed --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --iterations 1000 --repeats 3 --json wasm-speed.json --readme README.md $(SPEED_FILES)
 	./bin/visitline scale --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --cpu-budget --budget $(WASM_SCALE_BUDGET) --sizes 100,300,1000 --json scale-wasm.json --readme README.md --section scale-wasm
 
 # Time to the best-known value with two workers against one, five seeds,
