@@ -23,8 +23,17 @@ type model struct {
 	types   int   // distinct kinds of vehicle (same start, end, shift, limits)
 	typeOf  []int // vehicle -> kind
 	maxArc  int64
+	metric  bool // travel keeps the triangle inequality
+	// near[v] lists the visits nearest v (travel both ways), for the
+	// granular polish (Toth and Vigo 2003).
+	near [][]int
 	totalW  int64
 	penalty float64 // cost weight of one unit of unserved priority in the annealing
+	// vehPenalty is the price of opening a vehicle in insertion and in the
+	// annealing when vehicles are minimised (0 otherwise): more than any
+	// change of cost a few visits can make, less than one unit of
+	// unserved priority.
+	vehPenalty int64
 }
 
 type mveh struct {
@@ -35,7 +44,7 @@ type mveh struct {
 	shiftS, shiftE int64
 }
 
-func newModel(p *Problem, obj solver.Objective) *model {
+func newModel(p *Problem, obj solver.Objective, minVeh bool) *model {
 	n := p.N + 1
 	m := &model{p: p, n: n, t: make([]int64, n*n), unit: make([]solver.Seg, n), dem: make([]int64, n), w: make([]int64, n), obj: obj}
 	for i := 0; i < p.N; i++ {
@@ -70,16 +79,23 @@ func newModel(p *Problem, obj solver.Objective) *model {
 		m.typeOf = append(m.typeOf, k)
 	}
 	m.types = len(kinds)
+	m.near = nearLists(m, nearSize)
+	m.metric = p.N <= maxMetricCheck && metric(p)
 	// One unit of unserved priority outweighs any detour a visit can
 	// cause in the annealing's single number (the exact comparison of
 	// plans is lexicographic, see Value).
-	m.penalty = float64(4*m.maxArc + 1)
+	unit := 4*m.maxArc + 1
 	if obj == solver.CompletionTime {
 		var h int64
 		for _, v := range p.Vehicles {
 			h = max(h, v.ShiftEnd-v.ShiftStart)
 		}
-		m.penalty += float64(min(h, solver.Horizon/4))
+		unit += min(h, solver.Horizon/4)
+	}
+	m.penalty = float64(unit)
+	if minVeh {
+		m.vehPenalty = unit
+		m.penalty = float64(unit) * float64(len(p.Vehicles)+2)
 	}
 	return m
 }
@@ -93,18 +109,23 @@ type state struct {
 	m        *model
 	routes   [][]int
 	fwd, bwd [][]solver.Seg
+	pload    [][]int64 // pload[r][k]: demand of the first k visits
 	load     []int64
 	rcost    []int64
 	where    []int // route of each node, -1 unserved or not a visit
+	pos      []int // place of each served node in its route
 	unserved []int
 	used     int
 	maxVeh   int
+	// dirty marks the routes changed since the last polish; active the
+	// routes the current round of the polish looks at.
+	dirty, active []bool
 }
 
 func newState(m *model) *state {
 	k := len(m.veh)
-	s := &state{m: m, routes: make([][]int, k), fwd: make([][]solver.Seg, k), bwd: make([][]solver.Seg, k),
-		load: make([]int64, k), rcost: make([]int64, k), where: make([]int, m.n), maxVeh: k}
+	s := &state{m: m, routes: make([][]int, k), fwd: make([][]solver.Seg, k), bwd: make([][]solver.Seg, k), pload: make([][]int64, k),
+		load: make([]int64, k), rcost: make([]int64, k), where: make([]int, m.n), pos: make([]int, m.n), maxVeh: k, dirty: make([]bool, k)}
 	for i := range s.where {
 		s.where[i] = -1
 	}
@@ -116,13 +137,14 @@ func newState(m *model) *state {
 }
 
 func (s *state) clone() *state {
-	c := &state{m: s.m, routes: make([][]int, len(s.routes)), fwd: make([][]solver.Seg, len(s.routes)), bwd: make([][]solver.Seg, len(s.routes)),
-		load: append([]int64(nil), s.load...), rcost: append([]int64(nil), s.rcost...), where: append([]int(nil), s.where...),
-		unserved: append([]int(nil), s.unserved...), used: s.used, maxVeh: s.maxVeh}
+	c := &state{m: s.m, routes: make([][]int, len(s.routes)), fwd: make([][]solver.Seg, len(s.routes)), bwd: make([][]solver.Seg, len(s.routes)), pload: make([][]int64, len(s.routes)),
+		load: append([]int64(nil), s.load...), rcost: append([]int64(nil), s.rcost...), where: append([]int(nil), s.where...), pos: append([]int(nil), s.pos...),
+		unserved: append([]int(nil), s.unserved...), used: s.used, maxVeh: s.maxVeh, dirty: append([]bool(nil), s.dirty...)}
 	for r := range s.routes {
 		c.routes[r] = append([]int(nil), s.routes[r]...)
 		c.fwd[r] = append([]solver.Seg(nil), s.fwd[r]...)
 		c.bwd[r] = append([]solver.Seg(nil), s.bwd[r]...)
+		c.pload[r] = append([]int64(nil), s.pload[r]...)
 	}
 	return c
 }
@@ -133,12 +155,17 @@ func (s *state) copyFrom(o *state) {
 		s.routes[r] = append(s.routes[r][:0], o.routes[r]...)
 		s.fwd[r] = append(s.fwd[r][:0], o.fwd[r]...)
 		s.bwd[r] = append(s.bwd[r][:0], o.bwd[r]...)
+		s.pload[r] = append(s.pload[r][:0], o.pload[r]...)
 	}
 	copy(s.load, o.load)
 	copy(s.rcost, o.rcost)
 	copy(s.where, o.where)
+	copy(s.pos, o.pos)
 	s.unserved = append(s.unserved[:0], o.unserved...)
 	s.used, s.maxVeh = o.used, o.maxVeh
+	for r := range s.dirty {
+		s.dirty[r] = false
+	}
 }
 
 func (s *state) prevNode(r, k int) int {
@@ -178,11 +205,14 @@ func (s *state) refresh(r int) {
 	f = append(f, m.veh[r].startSeg)
 	prev := m.veh[r].start
 	var load int64
+	pl := append(s.pload[r][:0], 0)
 	for _, v := range rt {
 		f = append(f, solver.JoinSeg(f[len(f)-1], m.unit[v], m.tt(prev, v)))
 		prev = v
 		load += m.dem[v]
+		pl = append(pl, load)
 	}
+	s.pload[r] = pl
 	b := s.bwd[r][:0]
 	for cap(b) < L+1 {
 		b = append(b[:cap(b)], solver.Seg{})
@@ -196,14 +226,14 @@ func (s *state) refresh(r int) {
 		next = v
 	}
 	s.fwd[r], s.bwd[r], s.load[r] = f, b, load
+	s.dirty[r] = true
 	if L == 0 {
 		s.rcost[r] = 0
 	} else {
 		s.rcost[r] = m.routeCost(solver.JoinSeg(f[L], m.veh[r].endSeg, m.tt(prev, m.veh[r].end)))
 	}
 	for k, v := range rt {
-		_ = k
-		s.where[v] = r
+		s.where[v], s.pos[v] = r, k
 	}
 }
 
@@ -230,7 +260,7 @@ func (s *state) value() Value {
 
 // score is the single number the annealing compares.
 func (s *state) score(v Value) float64 {
-	return float64(v.Unserved)*s.m.penalty + float64(v.Cost)
+	return float64(v.Unserved)*s.m.penalty + float64(v.Vehicles)*float64(s.m.vehPenalty) + float64(v.Cost)
 }
 
 // insertCost judges putting v before position k of route r: the change in
@@ -252,13 +282,38 @@ func (s *state) insertCost(r, k, v int) (int64, bool) {
 	return m.routeCost(y) - s.rcost[r], true
 }
 
-// bestInsert is the cheapest feasible place for v in route r.
+// bestInsert is the cheapest feasible place for v in route r. Where travel
+// keeps the triangle inequality, the earliest arrival at v only grows along
+// the route, so the scan stops at the first place that reaches v too late.
 func (s *state) bestInsert(r, v int) (int64, int, bool) {
+	m := s.m
 	best, pos, found := int64(math.MaxInt64), -1, false
-	for k := 0; k <= len(s.routes[r]); k++ {
-		if c, ok := s.insertCost(r, k, v); ok && c < best {
-			best, pos, found = c, k, true
+	if s.load[r]+m.dem[v] > m.veh[r].cap {
+		return best, pos, false
+	}
+	rt := s.routes[r]
+	fwd, bwd := s.fwd[r], s.bwd[r]
+	pred := m.veh[r].start
+	uv := m.unit[v]
+	for k := 0; k <= len(rt); k++ {
+		succ := m.veh[r].end
+		if k < len(rt) {
+			succ = rt[k]
 		}
+		x := solver.JoinSeg(fwd[k], uv, m.tt(pred, v))
+		if x.TW > 0 {
+			if m.metric {
+				break
+			}
+		} else {
+			y := solver.JoinSeg(x, bwd[k], m.tt(v, succ))
+			if m.ok(r, y) {
+				if c := m.routeCost(y) - s.rcost[r]; c < best {
+					best, pos, found = c, k, true
+				}
+			}
+		}
+		pred = succ
 	}
 	return best, pos, found
 }
@@ -351,6 +406,17 @@ func (s *state) repair(rng *rand.Rand, k int, noise float64) {
 		return
 	}
 	rng.Shuffle(len(pend), func(a, b int) { pend[a], pend[b] = pend[b], pend[a] })
+	// Half the time heavier visits go first (they weigh more in the first
+	// objective); the other half they take their turn, since a light visit
+	// put in early can be what lets every visit in.
+	byWeight := rng.Intn(2) == 0
+	if k == 0 {
+		if byWeight {
+			sort.SliceStable(pend, func(a, b int) bool { return m.w[pend[a]] > m.w[pend[b]] })
+		}
+		s.sequential(pend)
+		return
+	}
 	R := len(s.routes)
 	type ins struct {
 		c   int64
@@ -375,13 +441,16 @@ func (s *state) repair(rng *rand.Rand, k int, noise float64) {
 				pos = -1
 			} else {
 				c = costOf(c)
+				if len(s.routes[r]) == 0 {
+					c += m.vehPenalty
+				}
 			}
 			cache[x*R+r] = ins{c, pos}
 		}
 		valid[r] = true
 	}
 	var cols []int
-	const missing = int64(1) << 40
+	const missing = int64(1) << 58
 	left := len(pend)
 	for left > 0 {
 		cols = s.columns(cols)
@@ -424,7 +493,10 @@ func (s *state) repair(rng *rand.Rand, k int, noise float64) {
 			default:
 				reg = (c2 - c1) + (c3 - c1)
 			}
-			if bestX < 0 || reg > bestReg || reg == bestReg && c1 < bestC {
+			// Heavier visits first (they weigh more in the first
+			// objective), then by regret, then by cost.
+			if bestX < 0 || byWeight && m.w[v] != m.w[pend[bestX]] && m.w[v] > m.w[pend[bestX]] ||
+				(!byWeight || m.w[v] == m.w[pend[bestX]]) && (reg > bestReg || reg == bestReg && c1 < bestC) {
 				bestX, bestR, bestPos, bestReg, bestC = x, r1, p1, reg, c1
 			}
 		}
@@ -451,4 +523,83 @@ func (s *state) repair(rng *rand.Rand, k int, noise float64) {
 			s.unserved = append(s.unserved, v)
 		}
 	}
+}
+
+// sequential inserts the visits one after another in the given order,
+// each at its cheapest feasible place: with a
+// random order it varies which visits get in when not all fit (in the
+// spirit of the random-order insertion of Christiaens and Vanden Berghe
+// 2020).
+func (s *state) sequential(pend []int) {
+	m := s.m
+	var cols []int
+	for _, v := range pend {
+		cols = s.columns(cols)
+		bestC, bestR, bestPos := int64(math.MaxInt64), -1, -1
+		for _, r := range cols {
+			c, pos, ok := s.bestInsert(r, v)
+			if !ok {
+				continue
+			}
+			if len(s.routes[r]) == 0 {
+				c += m.vehPenalty
+			}
+			if c < bestC {
+				bestC, bestR, bestPos = c, r, pos
+			}
+		}
+		if bestR < 0 {
+			s.unserved = append(s.unserved, v)
+			continue
+		}
+		s.insertAt(bestR, bestPos, v)
+	}
+}
+
+// maxMetricCheck bounds the O(n³) triangle check.
+const maxMetricCheck = 600
+
+// metric reports whether t(i,k) ≤ t(i,j) + t(j,k) for every i, j, k.
+func metric(p *Problem) bool {
+	n := p.N
+	for i := 0; i < n; i++ {
+		for j := 0; j < n; j++ {
+			tij := p.Travel[i*n+j]
+			row := p.Travel[j*n : j*n+n]
+			ik := p.Travel[i*n : i*n+n]
+			for k, tjk := range row {
+				if ik[k] > tij+tjk {
+					return false
+				}
+			}
+		}
+	}
+	return true
+}
+
+// nearSize is how many neighbours the granular polish looks at per visit.
+const nearSize = 25
+
+func nearLists(m *model, k int) [][]int {
+	near := make([][]int, m.n)
+	for _, v := range m.visits {
+		var l []int
+		for _, w := range m.visits {
+			if w != v {
+				l = append(l, w)
+			}
+		}
+		sort.Slice(l, func(a, b int) bool {
+			da, db := m.tt(v, l[a])+m.tt(l[a], v), m.tt(v, l[b])+m.tt(l[b], v)
+			if da != db {
+				return da < db
+			}
+			return l[a] < l[b]
+		})
+		if len(l) > k {
+			l = l[:k]
+		}
+		near[v] = l
+	}
+	return near
 }

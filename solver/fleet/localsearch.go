@@ -9,24 +9,34 @@ import "visitline/solver"
 // for a relocation within a route, by one incremental scan) with the
 // routes' segment summaries; only moves that keep every route feasible
 // are made.
+//
+// Only moves that touch a route changed since the last polish (the routes
+// the repair changed, then those the polish changed) are tried.
 func (s *state) polish() {
+	active := make([]bool, len(s.routes))
 	for round := 0; round < 50; round++ {
-		improved := false
+		any := false
 		for r := range s.routes {
+			active[r] = s.dirty[r]
+			s.dirty[r] = false
+			any = any || active[r]
+		}
+		if !any {
+			return
+		}
+		s.active = active
+		for r := range s.routes {
+			if !active[r] {
+				continue
+			}
 			for k := 0; k < len(s.routes[r]); k++ {
-				if s.relocate(r, k) {
-					improved = true
-				}
+				s.relocate(r, k)
 			}
 		}
-		if s.exchange() {
-			improved = true
-		}
-		if s.twoOptStar() {
-			improved = true
-		}
-		if !improved {
-			return
+		s.exchange()
+		s.twoOptStar()
+		if s.m.types > 1 {
+			s.swapVehicles()
 		}
 	}
 }
@@ -52,16 +62,16 @@ func (s *state) relocate(a, k int) bool {
 	}
 	gain := s.rcost[a] - costA // saved by taking v out
 	bestD, bestR, bestPos := int64(0), -1, -1
-	for b := range s.routes {
-		if b == a {
+	// Other routes: before or after one of v's nearest visits.
+	for _, w := range m.near[v] {
+		b := s.where[w]
+		if b < 0 || b == a {
 			continue
 		}
-		if len(s.routes[b]) == 0 {
-			continue // opening a vehicle is the repair's choice
-		}
-		c, pos, ok := s.bestInsert(b, v)
-		if ok && c-gain < bestD {
-			bestD, bestR, bestPos = c-gain, b, pos
+		for _, j := range [2]int{s.pos[w], s.pos[w] + 1} {
+			if c, ok := s.insertCost(b, j, v); ok && c-gain < bestD {
+				bestD, bestR, bestPos = c-gain, b, j
+			}
 		}
 	}
 	// Within the route: the stretch between the old and the new place is
@@ -142,39 +152,40 @@ func (s *state) replaced(a, k, w int) solver.Seg {
 	return solver.JoinSeg(x, s.bwd[a][k+1], m.tt(w, s.nextNode(a, k+1)))
 }
 
-// exchange swaps two visits of different routes where that lowers the
-// cost (first improvement).
+// exchange swaps a visit of a changed route with one of its nearest
+// visits in another route where that lowers the cost (first improvement).
 func (s *state) exchange() bool {
 	m := s.m
 	improved := false
 	for a := range s.routes {
-		for b := a + 1; b < len(s.routes); b++ {
-			if len(s.routes[a]) == 0 || len(s.routes[b]) == 0 {
-				continue
-			}
-		scan:
-			for i := 0; i < len(s.routes[a]); i++ {
-				v := s.routes[a][i]
-				for j := 0; j < len(s.routes[b]); j++ {
-					w := s.routes[b][j]
-					if s.load[a]-m.dem[v]+m.dem[w] > m.veh[a].cap || s.load[b]-m.dem[w]+m.dem[v] > m.veh[b].cap {
-						continue
-					}
-					xa := s.replaced(a, i, w)
-					if !m.ok(a, xa) {
-						continue
-					}
-					xb := s.replaced(b, j, v)
-					if !m.ok(b, xb) {
-						continue
-					}
-					if m.routeCost(xa)+m.routeCost(xb) < s.rcost[a]+s.rcost[b] {
-						s.routes[a][i], s.routes[b][j] = w, v
-						s.refresh(a)
-						s.refresh(b)
-						improved = true
-						continue scan
-					}
+		if !s.active[a] {
+			continue
+		}
+		for i := 0; i < len(s.routes[a]); i++ {
+			v := s.routes[a][i]
+			for _, w := range m.near[v] {
+				b := s.where[w]
+				if b < 0 || b == a {
+					continue
+				}
+				j := s.pos[w]
+				if s.load[a]-m.dem[v]+m.dem[w] > m.veh[a].cap || s.load[b]-m.dem[w]+m.dem[v] > m.veh[b].cap {
+					continue
+				}
+				xa := s.replaced(a, i, w)
+				if !m.ok(a, xa) {
+					continue
+				}
+				xb := s.replaced(b, j, v)
+				if !m.ok(b, xb) {
+					continue
+				}
+				if m.routeCost(xa)+m.routeCost(xb) < s.rcost[a]+s.rcost[b] {
+					s.routes[a][i], s.routes[b][j] = w, v
+					s.refresh(a)
+					s.refresh(b)
+					improved = true
+					break
 				}
 			}
 		}
@@ -183,69 +194,106 @@ func (s *state) exchange() bool {
 }
 
 // twoOptStar exchanges the tails of two routes whose vehicles end at the
-// same place by the same time: route a keeps its first i visits and takes
-// b's visits from j on, and b the other way round.
+// same place by the same time: for a visit v of a changed route and one of
+// its nearest visits w in another, v's route goes on with w and what
+// followed w, and w's route goes on with what followed v.
 func (s *state) twoOptStar() bool {
 	m := s.m
 	improved := false
 	for a := range s.routes {
-		for b := a + 1; b < len(s.routes); b++ {
-			if len(s.routes[a]) == 0 || len(s.routes[b]) == 0 || m.veh[a].endSeg != m.veh[b].endSeg || m.veh[a].end != m.veh[b].end {
-				continue
-			}
-		again:
-			ra, rb := s.routes[a], s.routes[b]
-			var headA int64
-			for i := 0; i <= len(ra); i++ {
-				if i > 0 {
-					headA += m.dem[ra[i-1]]
+		if !s.active[a] {
+			continue
+		}
+		for i := 0; i < len(s.routes[a]); i++ {
+			v := s.routes[a][i]
+			for _, w := range m.near[v] {
+				b := s.where[w]
+				if b < 0 || b == a || m.veh[a].endSeg != m.veh[b].endSeg || m.veh[a].end != m.veh[b].end {
+					continue
 				}
-				if s.fwd[a][i].TW > 0 {
+				j := s.pos[w]
+				ra, rb := s.routes[a], s.routes[b]
+				headA, headB := s.pload[a][i+1], s.pload[b][j]
+				if headA+(s.load[b]-headB) > m.veh[a].cap || headB+(s.load[a]-headA) > m.veh[b].cap {
+					continue
+				}
+				xa := solver.JoinSeg(s.fwd[a][i+1], s.bwd[b][j], m.tt(v, w))
+				if !m.ok(a, xa) {
+					continue
+				}
+				xb := solver.JoinSeg(s.fwd[b][j], s.bwd[a][i+1], m.tt(s.prevNode(b, j), s.nextNode(a, i+1)))
+				if !m.ok(b, xb) {
+					continue
+				}
+				ca, cb := m.routeCost(xa), m.routeCost(xb)
+				if j+len(ra)-(i+1) == 0 {
+					cb = 0 // b is left with nothing
+				}
+				if ca+cb < s.rcost[a]+s.rcost[b] {
+					na := append(append([]int{}, ra[:i+1]...), rb[j:]...)
+					nb := append(append([]int{}, rb[:j]...), ra[i+1:]...)
+					s.routes[a], s.routes[b] = na, nb
+					s.refresh(a)
+					s.refresh(b)
+					s.countUsed()
+					improved = true
 					break
 				}
-				var headB int64
-				for j := 0; j <= len(rb); j++ {
-					if j > 0 {
-						headB += m.dem[rb[j-1]]
-					}
-					if i == len(ra) && j == len(rb) || i == 0 && j == 0 {
-						continue
-					}
-					if headA+(s.load[b]-headB) > m.veh[a].cap || headB+(s.load[a]-headA) > m.veh[b].cap {
-						continue
-					}
-					xa := solver.JoinSeg(s.fwd[a][i], s.bwd[b][j], m.tt(s.prevNode(a, i), s.nextNode(b, j)))
-					if !m.ok(a, xa) {
-						continue
-					}
-					xb := solver.JoinSeg(s.fwd[b][j], s.bwd[a][i], m.tt(s.prevNode(b, j), s.nextNode(a, i)))
-					if !m.ok(b, xb) {
-						continue
-					}
-					ca, cb := m.routeCost(xa), m.routeCost(xb)
-					if i == 0 && j == len(rb) {
-						ca = 0
-					}
-					if j == 0 && i == len(ra) {
-						cb = 0
-					}
-					if i+len(rb)-j == 0 {
-						ca = 0
-					}
-					if j+len(ra)-i == 0 {
-						cb = 0
-					}
-					if ca+cb < s.rcost[a]+s.rcost[b] {
-						na := append(append([]int{}, ra[:i]...), rb[j:]...)
-						nb := append(append([]int{}, rb[:j]...), ra[i:]...)
-						s.routes[a], s.routes[b] = na, nb
-						s.refresh(a)
-						s.refresh(b)
-						s.countUsed()
-						improved = true
-						goto again
-					}
+			}
+		}
+	}
+	return improved
+}
+
+// seqSeg is the summary of visits driven by vehicle r, and whether r can
+// drive them (windows, longest day, capacity).
+func (s *state) seqSeg(r int, visits []int) (solver.Seg, bool) {
+	m := s.m
+	x := m.veh[r].startSeg
+	prev := m.veh[r].start
+	var load int64
+	for _, v := range visits {
+		x = solver.JoinSeg(x, m.unit[v], m.tt(prev, v))
+		if x.TW > 0 {
+			return x, false
+		}
+		prev = v
+		load += m.dem[v]
+	}
+	x = solver.JoinSeg(x, m.veh[r].endSeg, m.tt(prev, m.veh[r].end))
+	return x, m.ok(r, x) && load <= m.veh[r].cap
+}
+
+// swapVehicles hands whole routes between vehicles of different kinds
+// (one of them may be idle) where that lowers the cost.
+func (s *state) swapVehicles() bool {
+	m := s.m
+	improved := false
+	for a := range s.routes {
+		if len(s.routes[a]) == 0 {
+			continue
+		}
+		for b := range s.routes {
+			if b == a || m.typeOf[a] == m.typeOf[b] || len(s.routes[b]) > 0 && b < a {
+				continue
+			}
+			xa, okA := s.seqSeg(b, s.routes[a])
+			if !okA {
+				continue
+			}
+			cb := int64(0)
+			if len(s.routes[b]) > 0 {
+				xb, okB := s.seqSeg(a, s.routes[b])
+				if !okB {
+					continue
 				}
+				cb = m.routeCost(xb)
+			}
+			if m.routeCost(xa)+cb < s.rcost[a]+s.rcost[b] {
+				s.routes[a], s.routes[b] = s.routes[b], s.routes[a]
+				s.refresh(a)
+				s.refresh(b)
+				improved = true
 			}
 		}
 	}

@@ -16,7 +16,8 @@ type scratch struct {
 
 // repair operators
 const (
-	repGreedy = iota
+	repRandomOrder = iota
+	repGreedy
 	repRegret2
 	repRegret3
 	numReps
@@ -94,7 +95,7 @@ func Solve(ctx context.Context, p *Problem, set Settings) (Result, error) {
 	if share <= 0 || share >= 1 {
 		share = 0.6
 	}
-	m := newModel(p, set.Objective)
+	m := newModel(p, set.Objective, set.MinimizeVehicles)
 	rng := rand.New(rand.NewSource(set.Seed))
 	sc := &scratch{start: make([]int64, m.n)}
 	var res Result
@@ -135,24 +136,35 @@ func Solve(ctx context.Context, p *Problem, set Settings) (Result, error) {
 	}
 	var t0Temp float64
 	setTemp := func() {
-		t0Temp = 0.05 * max(float64(curV.Cost), 1) / math.Ln2 / float64(max(1, len(m.visits)))
+		t0Temp = tempFactor * max(float64(curV.Cost), 1) / math.Ln2
 	}
 	setTemp()
 	phaseStart, phaseEnd := 0.0, share
 	if phase == "cost" {
 		phaseEnd = 1
 	}
-	startCost := func() {
+	startCost := func(f float64) {
 		phase = "cost"
 		cur.copyFrom(best)
-		if set.MinimizeVehicles {
-			cur.maxVeh = best.used
-		} else {
-			cur.maxVeh = len(m.veh)
-		}
 		curV = cur.value()
 		setTemp()
-		phaseStart, phaseEnd = frac(0), 1
+		cur.maxVeh = len(m.veh)
+		if set.MinimizeVehicles {
+			if bestV.Unserved == 0 {
+				// Everything is served: the vehicles of the best plan are
+				// the cap, and fewer are welcome.
+				cur.maxVeh = best.used
+				m.vehPenalty = 0
+			} else {
+				// Serving comes before vehicles, so there is no cap, and
+				// no price on a vehicle in the search either: it may pass
+				// through plans with more vehicles (the best plan is still
+				// chosen with vehicles before cost).
+				m.vehPenalty = 0
+			}
+			curV = cur.value()
+		}
+		phaseStart, phaseEnd = f, 1
 	}
 	sinceBest := 0
 	it := 0
@@ -171,9 +183,7 @@ func Solve(ctx context.Context, p *Problem, set Settings) (Result, error) {
 			if f >= phaseEnd || bestV.Unserved == 0 && best.used <= lbVeh {
 				// The cost phase starts from the best plan with its
 				// vehicles as the cap.
-				phaseStart = f
-				startCost()
-				_ = phaseStart
+				startCost(f)
 			} else if curV.Unserved <= bestV.Unserved && cur.used > 1 && cur.used >= best.used {
 				// Start an attempt with one vehicle fewer: free a short
 				// route.
@@ -193,15 +203,18 @@ func Solve(ctx context.Context, p *Problem, set Settings) (Result, error) {
 		op := dest.pick(rng)
 		rp := reps.pick(rng)
 		n := len(m.visits)
-		qmax := max(2, min(40, int(0.35*float64(n))))
-		qmin := min(4, qmax)
+		qmax := min(n, max(10, min(40, int(0.35*float64(n)))))
+		qmin := min(qmax, max(1, min(4, n/4)))
 		q := qmin + rng.Intn(qmax-qmin+1)
 		cand.destroy(rng, op, q, sc)
 		noise := 0.0
-		if rng.Intn(2) == 0 {
+		switch x := rng.Intn(10); {
+		case x >= 8:
+			noise = 0.15
+		case x >= 5:
 			noise = 0.025
 		}
-		cand.repair(rng, rp+1, noise)
+		cand.repair(rng, rp, noise)
 		candV := cand.value()
 		if candV.Unserved <= bestV.Unserved && cand.score(candV) < cand.score(bestV)+float64(bestV.Cost)*0.02 {
 			cand.polish()
@@ -294,3 +307,7 @@ func vehicleBound(m *model) int {
 	}
 	return max(k, min(1, len(m.visits)))
 }
+
+// tempFactor sets the starting temperature: a plan this share worse than
+// the first is accepted with probability one half.
+var tempFactor = 0.05
