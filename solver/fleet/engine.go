@@ -12,21 +12,21 @@ import (
 // one extra node (index N, reached from everywhere at no cost) that stands
 // for the free end of a route, and the summaries of every start and end.
 type model struct {
-	p       *Problem
-	n       int // nodes of the working matrix: p.N + 1
-	t       []int64
-	unit    []solver.Seg
-	dem, w  []int64
-	visits  []int
-	obj     solver.Objective
-	veh     []mveh
-	types   int   // distinct kinds of vehicle (same start, end, shift, limits)
-	typeOf  []int // vehicle -> kind
-	maxArc  int64
-	metric  bool // travel keeps the triangle inequality
+	p      *Problem
+	n      int // nodes of the working matrix: p.N + 1
+	t      []int64
+	unit   []solver.Seg
+	dem, w []int64
+	visits []int
+	obj    solver.Objective
+	veh    []mveh
+	types  int   // distinct kinds of vehicle (same start, end, shift, limits)
+	typeOf []int // vehicle -> kind
+	maxArc int64
+	metric bool // travel keeps the triangle inequality
 	// near[v] lists the visits nearest v (travel both ways), for the
 	// granular polish (Toth and Vigo 2003).
-	near [][]int
+	near    [][]int
 	totalW  int64
 	penalty float64 // cost weight of one unit of unserved priority in the annealing
 	// vehPenalty is the price of opening a vehicle in insertion and in the
