@@ -5,6 +5,7 @@ import (
 	"io"
 	"math"
 	"math/big"
+	"math/bits"
 	"strconv"
 	"strings"
 
@@ -205,6 +206,15 @@ var scaleSq = new(big.Rat).SetInt64(SolomonScale * SolomonScale)
 // (x2,y2)), exactly: the ceiling of the integer square root of the scaled
 // squared distance, worked in rationals so that no rounding enters.
 func euclidUp(x1, y1, x2, y2 *big.Rat) int64 {
+	if x1.IsInt() && y1.IsInt() && x2.IsInt() && y2.IsInt() {
+		a, b := new(big.Int).Sub(x1.Num(), x2.Num()), new(big.Int).Sub(y1.Num(), y2.Num())
+		if a.IsInt64() && b.IsInt64() {
+			dx, dy := a.Int64(), b.Int64()
+			if dx < 1<<20 && dx > -(1<<20) && dy < 1<<20 && dy > -(1<<20) {
+				return sqrtUp(uint64(dx*dx+dy*dy), SolomonScale*SolomonScale)
+			}
+		}
+	}
 	dx := new(big.Rat).Sub(x1, x2)
 	dy := new(big.Rat).Sub(y1, y2)
 	sq := new(big.Rat).Add(new(big.Rat).Mul(dx, dx), new(big.Rat).Mul(dy, dy))
@@ -221,4 +231,23 @@ func euclidUp(x1, y1, x2, y2 *big.Rat) int64 {
 		r.Add(r, big.NewInt(1))
 	}
 	return r.Int64()
+}
+
+// sqrtUp is ceil(sqrt(sq × mul)) exactly, in 128-bit integer arithmetic
+// (sq below 2^41, mul = 10^12): the floating-point root is only the first
+// guess.
+func sqrtUp(sq, mul uint64) int64 {
+	hi, lo := bits.Mul64(sq, mul)
+	less := func(r uint64) bool { // r² < sq × mul
+		h, l := bits.Mul64(r, r)
+		return h < hi || h == hi && l < lo
+	}
+	r := uint64(math.Sqrt(float64(sq)) * math.Sqrt(float64(mul)))
+	for r > 0 && !less(r-1) {
+		r--
+	}
+	for less(r) {
+		r++
+	}
+	return int64(r)
 }
