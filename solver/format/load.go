@@ -75,6 +75,9 @@ type Dataset struct {
 	// "benchmark".
 	Travel   string
 	Warnings []Warning
+	// RouteStart and RouteEnd are the start and end asked for (RouteEnd:
+	// start, free or a site id), before any re-planning after done visits.
+	RouteStart, RouteEnd string
 }
 
 // Name of a node: its site name, else its id.
@@ -422,6 +425,7 @@ func (d *Dataset) applyRoute(opt Options) error {
 		}
 		in.Early[in.Start] = v
 	}
+	d.RouteStart, d.RouteEnd = in.ID(in.Start), routeEnd(in)
 	pins, err := d.readPins()
 	if err != nil {
 		return err

@@ -48,12 +48,19 @@ type Late struct {
 // PlanJSON is the JSON form of a plan: the contract of `solve --format json`
 // and the input of `check`.
 type PlanJSON struct {
-	Instance      string      `json:"instance,omitempty"`
-	Objective     string      `json:"objective"`
-	Cost          float64     `json:"cost"`
-	Feasible      bool        `json:"feasible"`
-	Route         []int       `json:"route"`
-	RouteIDs      []string    `json:"route_ids"`
+	Instance  string   `json:"instance,omitempty"`
+	Objective string   `json:"objective"`
+	Cost      float64  `json:"cost"`
+	Feasible  bool     `json:"feasible"`
+	Route     []int    `json:"route"`
+	RouteIDs  []string `json:"route_ids"`
+	// Shape is the route's shape (closed, open, open-fixed-end);
+	// RouteStart and RouteEnd are the --start and --end it was solved
+	// with (RouteEnd: start, free or a site id), so that check can take
+	// them from the plan.
+	Shape         string      `json:"shape,omitempty"`
+	RouteStart    string      `json:"route_start,omitempty"`
+	RouteEnd      string      `json:"route_end,omitempty"`
 	Schedule      []PlanVisit `json:"schedule"`
 	Return        *PlanVisit  `json:"return,omitempty"`
 	Travel        float64     `json:"travel"`
@@ -98,6 +105,7 @@ func NewPlanJSON(in *solver.Instance, obj solver.Objective, p solver.Plan, res *
 	for _, v := range p.Route {
 		j.RouteIDs = append(j.RouteIDs, in.ID(v))
 	}
+	j.Shape, j.RouteStart, j.RouteEnd = in.Shape.String(), in.ID(in.Start), routeEnd(in)
 	conv := func(v solver.Visit) PlanVisit {
 		pv := PlanVisit{Node: v.Node, ID: in.ID(v.Node), Arrival: f(v.Arrival), Start: f(v.Start), Wait: f(v.Wait),
 			Departure: f(v.Departure), Earliest: f(in.Early[v.Node]), Lateness: f(v.Lateness)}
@@ -133,6 +141,9 @@ func (d *Dataset) PlanJSON(obj solver.Objective, p solver.Plan, res *solver.Resu
 	j := NewPlanJSON(in, obj, p, res)
 	for _, w := range d.Warnings {
 		j.Warnings = append(j.Warnings, w.String())
+	}
+	if d.RouteStart != "" {
+		j.RouteStart, j.RouteEnd = d.RouteStart, d.RouteEnd
 	}
 	if d.Unit == "" {
 		return j
@@ -189,15 +200,7 @@ func ReadPlanRoute(r io.Reader, name string) ([]int, error) {
 	}
 	dec := json.NewDecoder(r)
 	if err := dec.Decode(&j); err != nil {
-		var se *json.SyntaxError
-		var te *json.UnmarshalTypeError
-		switch {
-		case asErr(err, &se):
-			return nil, &ParseError{File: name, Field: "plan JSON", Msg: fmt.Sprintf("not valid JSON at byte %d: %v", se.Offset, err), Err: err}
-		case asErr(err, &te):
-			return nil, &ParseError{File: name, Field: te.Field, Msg: "want a list of node numbers (0-based)", Err: err}
-		}
-		return nil, &ParseError{File: name, Field: "plan JSON", Msg: err.Error(), Err: err}
+		return nil, &ParseError{File: name, Field: "plan JSON", Msg: JSONError(err), Err: err}
 	}
 	if j.Route == nil {
 		return nil, &ParseError{File: name, Field: "route", Msg: `missing; want "route": [0, ...] with 0-based node numbers`}

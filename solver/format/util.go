@@ -1,12 +1,9 @@
 package format
 
 import (
-	"errors"
 	"strconv"
 	"strings"
 )
-
-func asErr[T error](err error, target *T) bool { return errors.As(err, target) }
 
 // maxEcho is the most characters of the user's text a message repeats.
 const maxEcho = 80
