@@ -109,37 +109,39 @@ func readBenchmark(r io.Reader, name string) (*solver.Instance, error) {
 			t := token{f, line, col}
 			last = t
 			count++
-			var field string
-			switch {
-			case k < n*n:
-				field = fmt.Sprintf("travel time row %d column %d", k/n+1, k%n+1)
-			case w < 2*n && w%2 == 0:
-				field = fmt.Sprintf("earliest of node %d", w/2)
-			case w < 2*n:
-				field = fmt.Sprintf("latest of node %d", w/2)
-			default:
+			if k == n*n && w == 2*n {
 				return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: "end of data",
 					Msg: fmt.Sprintf("unexpected %s after the %d windows; want nothing more", clipQ(t.text), n)}
 			}
+			// field names the value in an error; made only then.
+			field := func() string {
+				switch {
+				case k < n*n:
+					return fmt.Sprintf("travel time row %d column %d", k/n+1, k%n+1)
+				case w%2 == 0:
+					return fmt.Sprintf("earliest of node %d", w/2)
+				}
+				return fmt.Sprintf("latest of node %d", w/2)
+			}
 			v, d, err := parseScaled(t.text)
 			if err != nil {
-				return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field, Msg: fmt.Sprintf("%s %s", clipQ(t.text), err.Error())}
+				return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field(), Msg: fmt.Sprintf("%s %s", clipQ(t.text), err.Error())}
 			}
 			if d > dec {
-				if err := rescaleAll(in, k, w, &pendV, &dec, &scale, d, t, field, name); err != nil {
+				if err := rescaleAll(in, k, w, &pendV, &dec, &scale, d, t, field(), name); err != nil {
 					return nil, err
 				}
 			}
 			for i := d; i < dec; i++ {
 				if v > math.MaxInt64/10 || v < math.MinInt64/10 {
-					return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field, Msg: fmt.Sprintf("%s is too large", clipQ(t.text))}
+					return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field(), Msg: fmt.Sprintf("%s is too large", clipQ(t.text))}
 				}
 				v *= 10
 			}
 			switch {
 			case k < n*n:
 				if v < 0 {
-					return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field,
+					return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field(),
 						Msg: fmt.Sprintf("%s is negative; travel times must be 0 or more", clipQ(t.text))}
 				}
 				in.Travel[k] = v
@@ -154,7 +156,7 @@ func readBenchmark(r io.Reader, name string) (*solver.Instance, error) {
 						Msg: "want two numbers, earliest and latest, on one line"}
 				}
 				if v < pendV {
-					return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field,
+					return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field(),
 						Msg: fmt.Sprintf("%s is before the earliest %s; want latest ≥ earliest", clip(t.text), clip(pend.text))}
 				}
 				in.Early[i], in.Late[i] = pendV, v

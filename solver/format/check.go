@@ -70,6 +70,10 @@ func (d *Dataset) RouteProblems(route []int) []string {
 		places[v] = append(places[v], k)
 	}
 	for i, p := range places {
+		if len(out) == maxErrors {
+			out = append(out, "and more: the route is not an order of this data's sites (made from other data?)")
+			break
+		}
 		switch {
 		case len(p) == 0:
 			out = append(out, fmt.Sprintf("%s is missing from the route", Printable(clip(d.label(i)))))

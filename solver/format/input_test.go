@@ -423,3 +423,25 @@ func TestTableEscapesControlCharacters(t *testing.T) {
 }
 
 func fptr(v float64) *float64 { return &v }
+
+// The quick reader of plain decimals agrees with the exact one.
+func TestFastUnitsAgreesWithExact(t *testing.T) {
+	cases := []string{"0", "7", "12.5", "0.0005", "0.00025", "1.0000001", "99999999999", "123456789012345", "5.", ".5", "3,25", "1e3", "-4", "", "1.2.3", "1234567890123456"}
+	for _, s := range cases {
+		for _, per := range []int64{SitesScale, perSecond} {
+			for _, cd := range []bool{false, true} {
+				v, ok := fastUnits(s, per, cd)
+				if !ok {
+					continue
+				}
+				r, rok := parseDecimal(s, cd)
+				require.True(t, rok, s)
+				want, wok := ratUnits(r, per)
+				require.True(t, wok, s)
+				assert.Equal(t, want, v, "%q per %d", s, per)
+			}
+		}
+	}
+	_, ok := fastUnits("-4", SitesScale, false)
+	assert.False(t, ok, "signs go to the exact reader")
+}

@@ -219,33 +219,50 @@ func sniffComma(text string) rune {
 // only and lines starting with '#' are skipped. Fields are trimmed.
 func readRecords(text, name string, comma rune) ([]record, error) {
 	var out []record
+	err := eachRecord(text, name, comma, func(line int, fields []string) error {
+		out = append(out, record{line: line, fields: append([]string(nil), fields...)})
+		return nil
+	})
+	return out, err
+}
+
+// eachRecord calls fn with each record of text, as readRecords splits them.
+// The fields slice is reused between calls: fn copies what it keeps.
+func eachRecord(text, name string, comma rune, fn func(line int, fields []string) error) error {
 	if comma == 0 {
-		for i, l := range strings.Split(text, "\n") {
+		line := 0
+		for rest := text; rest != ""; {
+			l, r, _ := strings.Cut(rest, "\n")
+			rest = r
+			line++
 			t := strings.TrimSpace(l)
 			if t == "" || strings.HasPrefix(t, "#") {
 				continue
 			}
-			out = append(out, record{line: i + 1, fields: strings.Fields(t)})
+			if err := fn(line, strings.Fields(t)); err != nil {
+				return err
+			}
 		}
-		return out, nil
+		return nil
 	}
 	cr := csv.NewReader(strings.NewReader(text))
 	cr.Comma = comma
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
 	cr.TrimLeadingSpace = true
+	cr.ReuseRecord = true
 	for {
 		rec, err := cr.Read()
 		if err == io.EOF {
-			break
+			return nil
 		}
 		if err != nil {
 			var pe *csv.ParseError
 			if errors.As(err, &pe) {
-				return nil, &ParseError{File: name, Line: pe.Line, Field: "quoting",
+				return &ParseError{File: name, Line: pe.Line, Field: "quoting",
 					Msg: csvMessage(pe) + fmt.Sprintf(" (near character %d)", pe.Column), Err: err}
 			}
-			return nil, &ParseError{File: name, Msg: "cannot read: " + err.Error(), Err: err}
+			return &ParseError{File: name, Msg: "cannot read: " + err.Error(), Err: err}
 		}
 		line, _ := cr.FieldPos(0)
 		empty := true
@@ -258,9 +275,10 @@ func readRecords(text, name string, comma rune) ([]record, error) {
 		if empty {
 			continue
 		}
-		out = append(out, record{line: line, fields: rec})
+		if err := fn(line, rec); err != nil {
+			return err
+		}
 	}
-	return out, nil
 }
 
 func csvMessage(pe *csv.ParseError) string {
@@ -320,4 +338,48 @@ func ratUnits(r *big.Rat, per int64) (int64, bool) {
 		return -q.Int64(), true
 	}
 	return q.Int64(), true
+}
+
+// fastUnits converts a plain non-negative decimal (digits, at most one
+// '.' or, when commaDecimal, ','; at most 15 digits) to internal units
+// with per units per input unit, rounding half up, as ratUnits does. It
+// reports false for anything else, which the exact reader then handles:
+// travel matrices hold millions of such cells, and big.Rat for each is
+// slow.
+func fastUnits(s string, per int64, commaDecimal bool) (int64, bool) {
+	if len(s) == 0 || len(s) > 16 {
+		return 0, false
+	}
+	var m int64
+	dec, dot, digits := 0, false, 0
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		switch {
+		case c >= '0' && c <= '9':
+			m = m*10 + int64(c-'0')
+			digits++
+			if dot {
+				dec++
+			}
+		case (c == '.' || c == ',' && commaDecimal) && !dot:
+			dot = true
+		default:
+			return 0, false
+		}
+	}
+	if digits == 0 || digits > 15 {
+		return 0, false
+	}
+	p := int64(1)
+	for i := 0; i < dec; i++ {
+		p *= 10
+	}
+	if m > (1<<62)/per {
+		return 0, false
+	}
+	v := (2*m*per + p) / (2 * p)
+	if v >= horizon {
+		return 0, false
+	}
+	return v, true
 }

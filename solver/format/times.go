@@ -143,6 +143,9 @@ func parseDuration(s string, commaDecimal bool) (int64, string) {
 		}
 		return (h*3600 + m*60 + sec) * perSecond, ""
 	}
+	if v, ok := fastUnits(s, SitesScale, commaDecimal); ok {
+		return v, ""
+	}
 	r, ok := parseDecimal(s, commaDecimal)
 	if !ok {
 		return 0, fmt.Sprintf("%q is not a duration; want minutes (15 or 7.5) or hours and minutes H:MM (1:30)", s)
@@ -159,6 +162,9 @@ func parseDuration(s string, commaDecimal bool) (int64, string) {
 
 // parseMinutesTime reads a time in Minutes mode: minutes from the reference.
 func parseMinutesTime(s string, commaDecimal bool) (int64, string) {
+	if v, ok := fastUnits(s, SitesScale, commaDecimal); ok {
+		return v, ""
+	}
 	r, ok := parseDecimal(s, commaDecimal)
 	if !ok {
 		if len(s) >= 10 && s[4] == '-' && s[7] == '-' {
