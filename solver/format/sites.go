@@ -149,8 +149,12 @@ func readableNames(syn []string) []string {
 }
 
 func isQuiet(h string) bool {
+	if len(h) > maxHeaderCell {
+		return false
+	}
+	n := normHeader(h)
 	for _, q := range quietColumns {
-		if normHeader(h) == q {
+		if n == q {
 			return true
 		}
 	}
@@ -275,7 +279,20 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 			comma = ','
 		}
 	}
-	recs, err := readRecords(text, name, comma)
+	if line, cols := firstLineColumns(text, comma); cols > maxColumns {
+		// Refused before the CSV reader splits a huge line into cells.
+		return nil, &ParseError{File: name, Line: line, Field: "header",
+			Msg: fmt.Sprintf("the first row has %d columns; a sites file has a dozen or so (at most %d). Is this a sites file, and does it have line ends?", cols, maxColumns)}
+	}
+	var recs []record
+	err := eachRecord(text, name, comma, func(line int, f []string) error {
+		if len(recs) == 0 && len(f) > maxColumns {
+			return &ParseError{File: name, Line: line, Field: "header",
+				Msg: fmt.Sprintf("the first row has %d columns; a sites file has a dozen or so (at most %d). Is this a sites file, and does it have line ends?", len(f), maxColumns)}
+		}
+		recs = append(recs, record{line: line, fields: append([]string(nil), f...)})
+		return nil
+	})
 	if err != nil {
 		return nil, err
 	}
@@ -651,4 +668,34 @@ func parsePin(t string) (Pin, string) {
 		return Pin{}, fmt.Sprintf("%q is larger than any route can be", t)
 	}
 	return Pin{Kind: "number", N: n}, ""
+}
+
+// firstLineColumns counts the fields of the first line that is not blank
+// or a comment, skipping quoted stretches (a quoted field may hold line
+// ends: the count then runs on, which only makes it larger).
+func firstLineColumns(text string, comma rune) (line, cols int) {
+	line = 1
+	for text != "" {
+		l, rest, _ := strings.Cut(text, "\n")
+		t := strings.TrimSpace(l)
+		if t == "" || strings.HasPrefix(t, "#") {
+			text = rest
+			line++
+			continue
+		}
+		cols = 1
+		quoted := false
+		for _, c := range text {
+			switch {
+			case c == '"':
+				quoted = !quoted
+			case c == '\n' && !quoted:
+				return line, cols
+			case c == comma && !quoted:
+				cols++
+			}
+		}
+		return line, cols
+	}
+	return line, 0
 }
