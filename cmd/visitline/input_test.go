@@ -60,6 +60,8 @@ func TestCheckRecomputesEverything(t *testing.T) {
 		}, code: 1, want: []string{"start", "the plan says 380", "recomputed 480"}},
 		{name: "claimed feasible when late", edit: func(j map[string]any) { j["feasible"] = false },
 			code: 1, want: []string{"feasible", "the plan says false", "recomputed true"}},
+		{name: "claimed late visit on a day that is met", edit: func(j map[string]any) { j["late"] = []any{map[string]any{"id": "A", "node": 1, "by": 5}} },
+			code: 1, want: []string{"late visits", "the plan says 1", "recomputed 0"}},
 		{name: "open path checked as a closed tour", solve: []string{"--end", "free"}, check: []string{"--end", "start"},
 			edit: func(map[string]any) {}, code: 1, want: []string{"open", "closed"}},
 		{name: "open path checked with the plan's own options", solve: []string{"--end", "free"},

@@ -29,6 +29,7 @@ type Claims struct {
 	RouteStart    string       `json:"route_start"`
 	RouteEnd      string       `json:"route_end"`
 	Done          []string     `json:"done"`
+	Late          []Late       `json:"late"`
 }
 
 // ClaimVisit is one stop as a plan states it.
@@ -148,6 +149,9 @@ func (d *Dataset) CompareClaims(c *Claims, s solver.Schedule) []Mismatch {
 	cmp("total lateness", c.TotalLateness, s.TotalLateness)
 	if c.Feasible != nil && *c.Feasible != s.Feasible {
 		out = append(out, Mismatch{"feasible", strconv.FormatBool(*c.Feasible), strconv.FormatBool(s.Feasible)})
+	}
+	if c.Late != nil && len(c.Late) != s.LateVisits {
+		out = append(out, Mismatch{"late visits", strconv.Itoa(len(c.Late)), strconv.Itoa(s.LateVisits)})
 	}
 	visit := func(what string, cv ClaimVisit, v solver.Visit) {
 		if cv.Node != nil && *cv.Node != v.Node {
