@@ -22,7 +22,7 @@ test:
 # docs/bench-results.json after every instance, the README's results table and
 # docs/bench-chart.svg at the end.
 bench: build bench-kernels
-	./bin/visitline bench $(BENCH_BUDGETS) $(BENCH_FLAGS) --quiet --json docs/bench-results.json --readme README.md --chart docs/bench-chart.svg $(BENCH_DIR)
+	./bin/visitline bench $(BENCH_BUDGETS) $(BENCH_FLAGS) --quiet --json docs/bench-results.json --readme docs/results.md --chart docs/bench-chart.svg $(BENCH_DIR)
 
 bench-kernels:
 	$(GO) test -run '^$$' -bench . -benchmem -benchtime 3x ./solver/...
@@ -42,7 +42,7 @@ wasm-cli:
 # idle machine.
 SCALE_BUDGET ?= 30s
 bench-scale: build
-	./bin/visitline scale --cpu-budget --budget $(SCALE_BUDGET) --json scale-results.json --readme README.md --chart docs/scale-chart.svg
+	./bin/visitline scale --cpu-budget --budget $(SCALE_BUDGET) --json scale-results.json --readme docs/results.md --chart docs/scale-chart.svg
 
 # WebAssembly against native: the same seed and iteration budgets on both
 # sides, then scale rows run in Node.js.
@@ -56,8 +56,8 @@ bin/gen/n1000-tight.txt: build
 	mkdir -p bin/gen && ./bin/visitline gen --n 1000 --tightness tight --seed 1 > $@
 WASM_SCALE_BUDGET ?= 30s
 bench-wasm: build wasm-cli bin/gen/n300-tight.txt bin/gen/n1000-tight.txt
-	./bin/visitline wasm-speed --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --iterations 1000 --repeats 3 --json wasm-speed.json --readme README.md $(SPEED_FILES)
-	./bin/visitline scale --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --cpu-budget --budget $(WASM_SCALE_BUDGET) --sizes 100,300,1000 --json scale-wasm.json --readme README.md --section scale-wasm
+	./bin/visitline wasm-speed --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --iterations 1000 --repeats 3 --json wasm-speed.json --readme docs/results.md $(SPEED_FILES)
+	./bin/visitline scale --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --cpu-budget --budget $(WASM_SCALE_BUDGET) --sizes 100,300,1000 --json scale-wasm.json --readme docs/results.md --section scale-wasm
 
 # Time to the best-known value with two workers against one, five seeds,
 # on instances that take one worker over a second of CPU time to reach it
@@ -71,7 +71,7 @@ WORKER_FLAGS = --seeds 5 --cpu-budget --stop-at-best --quiet --bounds $(BENCH_DI
 bench-workers: build
 	./bin/visitline bench --workers 1 --budget 20s $(WORKER_FLAGS) --json workers-1.json $(WORKER_FILES)
 	./bin/visitline bench --workers 2 --budget 40s $(WORKER_FLAGS) --json workers-2.json $(WORKER_FILES)
-	./bin/visitline bench --from workers-2.json --baseline workers-1.json --readme README.md
+	./bin/visitline bench --from workers-2.json --baseline workers-1.json --readme docs/results.md
 
 # A CPU profile of fixed-iteration runs on a few instances of each kind,
 # for a profile-guided build (go build uses cmd/visitline/default.pgo when
