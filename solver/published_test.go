@@ -2,18 +2,17 @@ package solver_test
 
 import (
 	"context"
-	"encoding/csv"
 	"fmt"
 	"math"
 	"os"
 	"path/filepath"
-	"strconv"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
 	"visitline/solver"
+	"visitline/solver/benchdata"
 	"visitline/solver/format"
 )
 
@@ -37,18 +36,12 @@ type known struct {
 }
 
 func bestKnown(t testing.TB, dir string) map[string]known {
-	fh, err := os.Open(filepath.Join(dir, "best-known.csv"))
-	require.NoError(t, err)
-	defer fh.Close()
-	recs, err := csv.NewReader(fh).ReadAll()
+	ks, err := benchdata.Load(filepath.Join(dir, "best-known.csv"))
 	require.NoError(t, err)
 	out := map[string]known{}
-	for _, r := range recs[1:] {
-		b, err := strconv.ParseFloat(r[2], 64)
-		require.NoError(t, err)
-		lb, err := strconv.ParseFloat(r[3], 64)
-		require.NoError(t, err)
-		out[r[0]+"/"+r[1]] = known{b, lb, r[4]}
+	for _, k := range ks {
+		require.True(t, k.HasLower, "%s: no lower bound", k.Key())
+		out[k.Key()] = known{k.Best, k.Lower, k.Source}
 	}
 	return out
 }

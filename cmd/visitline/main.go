@@ -1,6 +1,8 @@
-// Command visitline sequences one vehicle's visits to sites with time
-// windows: solve an instance, check a plan, benchmark the engine, serve the
-// page. It parses flags and prints; the work is done in solver/... .
+// Command visitline orders one vehicle's visits to sites with time
+// windows: solve a day, check a plan against it, serve the planner page,
+// write the static page, or write an invented day of any size. It parses
+// flags and prints; the work is done in solver/... and web. (The
+// measurement lab is a command of its own, visitline-lab.)
 package main
 
 import (
@@ -15,12 +17,8 @@ const usage = `visitline: order one vehicle's visits to sites with time windows
 usage:
   visitline solve [flags] FILE         find a plan (visitline solve -h for flags)
   visitline check FILE PLAN.json       validate a plan against an instance
-  visitline bench [flags] FILES_OR_DIRS...
-                                       run the engine on benchmark instances
   visitline serve [flags]              serve the planner page on 127.0.0.1
   visitline gen [flags] > FILE         write an invented, feasible instance of any size
-  visitline scale [flags]              measure the engine on generated instances of growing size
-  visitline wasm-speed [flags] FILES   compare the WebAssembly build's iteration rate with this one's
   visitline site [--engine F] DIR      write the static page into DIR
 `
 
@@ -41,14 +39,8 @@ func run(args []string, stdout, stderr io.Writer) int {
 		err = runSolve(args[1:], stdout, stderr)
 	case "check":
 		err = runCheck(args[1:], stdout, stderr)
-	case "bench":
-		err = runBench(args[1:], stdout, stderr)
 	case "gen":
 		err = runGen(args[1:], stdout, stderr)
-	case "scale":
-		err = runScale(args[1:], stdout, stderr)
-	case "wasm-speed":
-		err = runSpeed(args[1:], stdout, stderr)
 	case "serve":
 		err = runServe(args[1:], stdout, stderr)
 	case "site":

@@ -10,6 +10,9 @@ import (
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"visitline/solver"
+	"visitline/solver/format"
 )
 
 func ex(parts ...string) string {
@@ -135,4 +138,27 @@ func TestSolvePrintsWarnings(t *testing.T) {
 	code, _, errOut := runCmd(solveArgs(sites)...)
 	assert.Equal(t, 0, code)
 	assert.Contains(t, errOut, "warning: "+sites+":3: A: cannot be reached in time even as the first visit")
+}
+
+func TestGenCommandWritesReadableInstance(t *testing.T) {
+	var out, errb bytes.Buffer
+	code := run([]string{"gen", "--n", "25", "--tightness", "tight", "--seed", "4"}, &out, &errb)
+	require.Equal(t, 0, code, errb.String())
+	in, err := format.ReadBenchmark(bytes.NewReader(out.Bytes()), "gen.txt")
+	require.NoError(t, err)
+	assert.Equal(t, 25, in.N)
+	res, err := solver.Solve(t.Context(), in, solver.Settings{Iterations: 100, Seed: 1})
+	require.NoError(t, err)
+	assert.True(t, solver.Evaluate(in, res.Best.Route).Feasible)
+
+	var again bytes.Buffer
+	require.Equal(t, 0, run([]string{"gen", "--n", "25", "--tightness", "tight", "--seed", "4"}, &again, &errb))
+	assert.Equal(t, out.String(), again.String(), "a seed gives the same file")
+
+	errb.Reset()
+	assert.Equal(t, 2, run([]string{"gen", "--tightness", "snug"}, &out, &errb))
+	assert.Contains(t, errb.String(), "want none, wide, medium or tight")
+	errb.Reset()
+	assert.Equal(t, 2, run([]string{"gen", "--n", "1"}, &out, &errb))
+	assert.Contains(t, errb.String(), "--n 1: want 2 to")
 }

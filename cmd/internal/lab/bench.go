@@ -1,8 +1,7 @@
-package main
+package lab
 
 import (
 	"context"
-	"encoding/csv"
 	"errors"
 	"flag"
 	"fmt"
@@ -18,6 +17,7 @@ import (
 	"time"
 
 	"visitline/solver"
+	"visitline/solver/benchdata"
 )
 
 type benchRow struct {
@@ -107,7 +107,7 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 		return benchFromJSON(*from, *readme, *chart, stdout)
 	}
 	if fs.NArg() == 0 {
-		return usageError{"want instance files or folders (see visitline bench -h)"}
+		return usageError{"want instance files or folders (see visitline-lab bench -h)"}
 	}
 	if *workers < 1 {
 		return usageError{fmt.Sprintf("--workers %d: want 1 or more", *workers)}
@@ -347,30 +347,13 @@ func machine() string {
 }
 
 func readBestKnown(path string) (map[string]bestKnown, error) {
-	fh, err := os.Open(path)
+	ks, err := benchdata.Load(path)
 	if err != nil {
 		return nil, fmt.Errorf("%s: cannot open: %w", path, unwrapPath(err))
 	}
-	defer fh.Close()
-	r := csv.NewReader(fh)
-	r.FieldsPerRecord = -1
-	recs, err := r.ReadAll()
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
 	out := map[string]bestKnown{}
-	for i, rec := range recs {
-		if i == 0 && len(rec) > 0 && rec[0] == "family" {
-			continue
-		}
-		if len(rec) < 3 {
-			return nil, fmt.Errorf("%s:%d: want family,instance,best_known", path, i+1)
-		}
-		v, err := strconv.ParseFloat(rec[2], 64)
-		if err != nil {
-			return nil, fmt.Errorf("%s:%d:3: best_known %q is not a number", path, i+1, rec[2])
-		}
-		out[rec[0]+"/"+rec[1]] = bestKnown{v}
+	for _, k := range ks {
+		out[k.Key()] = bestKnown{k.Best}
 	}
 	return out, nil
 }

@@ -1,4 +1,4 @@
-package main
+package lab
 
 import (
 	"encoding/json"
@@ -87,7 +87,7 @@ func median(xs []float64) float64 {
 }
 
 func benchCommand(args []string) string {
-	return "visitline bench " + strings.Join(args, " ")
+	return "visitline-lab bench " + strings.Join(args, " ")
 }
 
 // benchReport is what bench writes as JSON and renders into the README.

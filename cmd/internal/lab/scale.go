@@ -1,4 +1,4 @@
-package main
+package lab
 
 import (
 	"bufio"
@@ -122,7 +122,7 @@ func runScale(args []string, stdout, stderr io.Writer) error {
 		fmt.Fprintln(stdout, string(data))
 		return nil
 	}
-	rep := scaleReport{Command: "visitline scale " + strings.Join(args, " "), Machine: machine()}
+	rep := scaleReport{Command: "visitline-lab scale " + strings.Join(args, " "), Machine: machine()}
 	if *from != "" {
 		data, err := os.ReadFile(*from)
 		if err != nil {
