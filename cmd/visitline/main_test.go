@@ -162,3 +162,42 @@ func TestGenCommandWritesReadableInstance(t *testing.T) {
 	assert.Equal(t, 2, run([]string{"gen", "--n", "1"}, &out, &errb))
 	assert.Contains(t, errb.String(), "--n 1: want 2 to")
 }
+
+func fixture(parts ...string) string {
+	return filepath.Join(append([]string{"..", "..", "testdata"}, parts...)...)
+}
+
+// TestCheckHandMadePlans checks the plans of testdata/plans against the
+// piano tuner's day (testdata/README.md), with every figure worked by hand
+// from the sites file and the matrix (minutes; leave D at 08:00).
+func TestCheckHandMadePlans(t *testing.T) {
+	day := []string{"--matrix", fixture("matrix", "ids-shuffled.csv"), fixture("sites", "comma-clock.csv")}
+	cases := []struct {
+		plan string
+		code int
+		want []string
+	}{
+		// D 08:00 -20-> A 08:20, wait to 08:30, +30 = 09:00 -10-> B 09:10,
+		// +45 = 09:55 -9-> C 10:04, +7.5 = 10:11:30 -21-> E 10:32:30, +20 =
+		// 10:52:30 -16-> D 11:08:30. Travel 20+10+9+21+16 = 76.
+		{"feasible.json", 0, []string{"feasible; travel 76, completion 11:08:30"}},
+		// D 08:00 -25-> B 08:25, wait to 09:00, +45 = 09:45 -11-> A 09:56:
+		// A's latest is 09:00, late by 56. A +30 = 10:26 -18-> C 10:44 (by
+		// 11:00), +7.5 -21-> E 11:12:30, +20 -16-> D 11:48:30 (by 13:00).
+		// Travel 25+11+18+21+16 = 91.
+		{"late.json", 1, []string{"infeasible: 1 late, total lateness 56; travel 91", "visit 2 (A) starts at 09:56, after its latest 09:00, late by 56"}},
+	}
+	for _, c := range cases {
+		t.Run(c.plan, func(t *testing.T) {
+			code, out, errOut := runCmd(append(append([]string{"check"}, day...), fixture("plans", c.plan))...)
+			assert.Equal(t, c.code, code, errOut)
+			for _, w := range c.want {
+				assert.Contains(t, out, w)
+			}
+		})
+	}
+	// A plan whose ids do not match the data is refused, naming the place.
+	code, _, errOut := runCmd(append(append([]string{"check"}, day...), fixture("plans", "other-data.json"))...)
+	assert.Equal(t, 1, code)
+	assert.Contains(t, errOut, `route_ids: place 3 is node 3, which is "C" here, but the plan says "E"`)
+}

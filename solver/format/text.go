@@ -179,7 +179,9 @@ func readRecords(text, name string, comma rune) ([]record, error) {
 	cr.Comma = comma
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
-	cr.TrimLeadingSpace = true
+	// A tab is white space to encoding/csv: trimming leading space there
+	// would swallow an empty cell between two tabs and shift the columns.
+	cr.TrimLeadingSpace = comma != '\t'
 	for {
 		rec, err := cr.Read()
 		if err == io.EOF {
