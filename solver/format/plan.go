@@ -8,7 +8,6 @@ import (
 	"math"
 	"strconv"
 	"strings"
-	"time"
 
 	"visitline/solver"
 )
@@ -383,6 +382,3 @@ func fnum(v float64) string {
 	}
 	return strconv.FormatFloat(v, 'f', -1, 64)
 }
-
-// Seconds is a helper for durations in JSON.
-func Seconds(d time.Duration) float64 { return d.Seconds() }
