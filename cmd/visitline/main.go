@@ -48,6 +48,9 @@ func run(args []string, stdout, stderr io.Writer) int {
 	case "-h", "--help", "help":
 		fmt.Fprint(stdout, usage)
 		return 0
+	case "bench", "scale", "wasm-speed":
+		fmt.Fprintf(stderr, "visitline: %s is a command of the measurement lab: visitline-lab %s (make lab builds bin/visitline-lab)\n", args[0], args[0])
+		return 2
 	default:
 		fmt.Fprintf(stderr, "visitline: unknown command %q\n%s", args[0], usage)
 		return 2

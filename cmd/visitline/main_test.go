@@ -226,3 +226,21 @@ func TestCheckHandMadePlans(t *testing.T) {
 	assert.Equal(t, 1, code)
 	assert.Contains(t, errOut, `route_ids: place 3 is node 3, which is "C" here, but the plan says "E"`)
 }
+
+// TestHelpShowsTheProductAlone: the help names the users' commands and
+// none of the lab's, which point to visitline-lab when asked for.
+func TestHelpShowsTheProductAlone(t *testing.T) {
+	code, out, _ := runCmd("--help")
+	require.Equal(t, 0, code)
+	for _, c := range []string{"solve", "check", "serve", "gen", "site"} {
+		assert.Contains(t, out, "visitline "+c+" ")
+	}
+	for _, c := range []string{"bench", "scale", "wasm-speed", "case"} {
+		assert.NotContains(t, out, c)
+		code, _, errOut := runCmd(c)
+		assert.Equal(t, 2, code, c)
+		if c != "case" {
+			assert.Contains(t, errOut, "visitline-lab "+c, c)
+		}
+	}
+}
