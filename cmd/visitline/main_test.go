@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -67,10 +68,31 @@ func TestSolveBoilerICS(t *testing.T) {
 
 func TestSolveOverbookedShowsLate(t *testing.T) {
 	// The lateness search of a day that cannot be met is costly per
-	// iteration: a small budget keeps the test quick.
-	code, out, errOut := runCmd("solve", "--budget", "0", "--iterations", "5", "--quiet", ex("boiler", "sites-overbooked.csv"))
+	// iteration: a small budget keeps the test quick. The table's LATE rows,
+	// its headline and check (which re-evaluates the saved plan) must agree.
+	args := []string{"solve", "--budget", "0", "--iterations", "5", "--seed", "1", "--quiet", ex("boiler", "sites-overbooked.csv")}
+	code, out, errOut := runCmd(args...)
 	require.Equal(t, 0, code, errOut)
-	assert.Contains(t, out, "LATE by")
+	late := 0
+	for _, line := range strings.Split(out, "\n") {
+		if strings.Contains(line, "LATE by") {
+			late++
+			f := strings.Fields(line)
+			require.GreaterOrEqual(t, len(f), 9, line)
+			assert.True(t, strings.HasPrefix(f[8], "-"), "a late visit has negative slack: %s", line)
+		}
+	}
+	require.Positive(t, late, out)
+	assert.Contains(t, out, fmt.Sprintf("(%d late, total lateness ", late))
+	assert.Contains(t, out, "why: ")
+
+	plan := filepath.Join(t.TempDir(), "plan.json")
+	code, js, errOut := runCmd(append(args[:len(args)-1:len(args)-1], "--format", "json", ex("boiler", "sites-overbooked.csv"))...)
+	require.Equal(t, 0, code, errOut)
+	require.NoError(t, os.WriteFile(plan, []byte(js), 0o644))
+	code, chk, _ := runCmd("check", ex("boiler", "sites-overbooked.csv"), plan)
+	assert.Equal(t, 1, code)
+	assert.Contains(t, chk, fmt.Sprintf("infeasible: %d late", late))
 }
 
 func TestSolveReplan(t *testing.T) {
