@@ -53,7 +53,7 @@ func runSpeed(args []string, stdout, stderr io.Writer) error {
 	iters := fs.Int("iterations", 1000, "N: each side runs N and 2N iterations")
 	repeats := fs.Int("repeats", 3, "runs of each side per instance (alternating; the median counts)")
 	jsonOut := fs.String("json", "", "write the rows as JSON to this file")
-	readme := fs.String("readme", "", "rewrite this README between its wasm-speed markers")
+	readme := fs.String("readme", "", "rewrite this Markdown file (docs/results.md) between its wasm-speed markers")
 	from := fs.String("from", "", "render the rows of an earlier --json file instead of running")
 	if err := fs.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
