@@ -6,10 +6,13 @@
 package main
 
 import (
+	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"os"
+	"strconv"
+	"strings"
 )
 
 const usage = `visitline: order one vehicle's visits to sites with time windows
@@ -80,11 +83,23 @@ var errSilent = fmt.Errorf("failed")
 // ("solve sites.csv --matrix t.csv" as well as "solve --matrix t.csv
 // sites.csv") and returns the positional arguments. After "--" every
 // argument is positional.
+//
+// A bad flag value is returned as a usageError naming the flag, the value
+// and what is wanted, without the whole usage text; -h prints the usage.
 func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 	var pos []string
+	out, usage := fs.Output(), fs.Usage
+	fs.SetOutput(io.Discard)
+	fs.Usage = func() {}
+	defer func() { fs.SetOutput(out); fs.Usage = usage }()
 	for {
 		if err := fs.Parse(args); err != nil {
-			return nil, err
+			if errors.Is(err, flag.ErrHelp) {
+				fs.SetOutput(out)
+				usage()
+				return nil, err
+			}
+			return nil, flagError(fs, err)
 		}
 		rest := fs.Args()
 		if len(rest) == 0 {
@@ -96,4 +111,44 @@ func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 		pos = append(pos, rest[0])
 		args = rest[1:]
 	}
+}
+
+// flagError rewrites the flag package's error for a bad value ("invalid
+// value "-1" for flag -budget: parse error") as "--budget -1: want ...".
+func flagError(fs *flag.FlagSet, err error) error {
+	msg := err.Error()
+	const pre = "invalid value "
+	if !strings.HasPrefix(msg, pre) {
+		return usageError{msg + " (see visitline " + fs.Name() + " -h)"}
+	}
+	rest := msg[len(pre):]
+	value, err2 := strconv.QuotedPrefix(rest)
+	if err2 != nil {
+		return usageError{msg}
+	}
+	rest = strings.TrimPrefix(rest[len(value):], " for flag -")
+	name, cause, _ := strings.Cut(rest, ": ")
+	value, _ = strconv.Unquote(value)
+	if cause == "parse error" || cause == "value out of range" {
+		cause = "want " + kindOf(fs.Lookup(name))
+	}
+	return usageError{fmt.Sprintf("--%s %s: %s", name, value, cause)}
+}
+
+// kindOf says what a flag takes, from its default value.
+func kindOf(f *flag.Flag) string {
+	if f == nil {
+		return "a valid value"
+	}
+	switch fmt.Sprintf("%T", f.Value) {
+	case "*flag.intValue", "*flag.int64Value", "*flag.uintValue", "*flag.uint64Value":
+		return "a whole number"
+	case "*flag.float64Value":
+		return "a number such as 50 or 1.3"
+	case "*flag.boolValue":
+		return "true or false"
+	case "*flag.durationValue":
+		return "a time such as 10s or 2m"
+	}
+	return "a valid value"
 }

@@ -77,6 +77,14 @@ func ReadMatrix(r io.Reader, name string, unit Unit, ids []string) (*Matrix, err
 
 // Read reads the matrix and matches it to ids (the sites in file order).
 func (mr *MatrixReader) Read(ids []string) (*Matrix, error) {
+	m, err := mr.read(ids)
+	if err != nil {
+		return nil, tidy(err)
+	}
+	return m, nil
+}
+
+func (mr *MatrixReader) read(ids []string) (*Matrix, error) {
 	text, err := readText(mr.r, mr.Name)
 	if err != nil {
 		return nil, err
@@ -168,13 +176,47 @@ func parseMatrix(recs []record, name string, comma rune, unit Unit, ids []string
 	}
 	width := len(data[0].fields)
 	hasLabels := width == n+1 || !isNum(data[0].fields[0]) && width > 1
+	times := func(rec record) int {
+		if hasLabels {
+			return len(rec.fields) - 1
+		}
+		return len(rec.fields)
+	}
+	if hasHeader && hasLabels && len(header.fields) == width && width == n {
+		// The header names one site column too few, and the rows agree.
+		named := map[string]bool{}
+		for _, h := range header.fields[1:] {
+			named[h] = true
+		}
+		var lost []string
+		for _, id := range ids {
+			if !named[id] {
+				lost = append(lost, id)
+			}
+		}
+		miss := ""
+		if len(lost) > 0 && len(lost) <= 5 {
+			miss = fmt.Sprintf("; no column for %s", clip(strings.Join(lost, ", ")))
+		}
+		return nil, &ParseError{File: name, Line: header.line, Field: "travel matrix",
+			Msg: fmt.Sprintf("the header names %d site columns and each row has %d travel times, but the sites file has %d sites: want %d, one column per site%s", n-1, n-1, n, n, miss)}
+	}
 	if hasLabels && width != n+1 || !hasLabels && width != n {
-		return nil, shapeErr(data[0].line, fmt.Sprintf("row 1 of the times has %d values", width))
+		what := fmt.Sprintf("%d travel times", times(data[0]))
+		if hasLabels {
+			what = fmt.Sprintf("a site id and %d travel times", times(data[0]))
+		}
+		return nil, &ParseError{File: name, Line: data[0].line, Field: "travel matrix",
+			Msg: fmt.Sprintf("the first row of times has %s; the sites file has %d sites, so want %d, one per site", what, n, n)}
 	}
 	for r, rec := range data {
 		if len(rec.fields) != width {
+			row := fmt.Sprintf("row %d of the times", r+1)
+			if hasLabels {
+				row = "row " + clip(rec.fields[0])
+			}
 			return nil, &ParseError{File: name, Line: rec.line, Field: "travel matrix",
-				Msg: fmt.Sprintf("row %d has %d values but row 1 has %d; the matrix must be square (%d×%d)", r+1, len(rec.fields), width, n, n)}
+				Msg: fmt.Sprintf("%s has %d travel times; want %d, one per site (the matrix must be square, %d×%d)", row, times(rec), n, n, n)}
 		}
 	}
 	off := 0
