@@ -1,6 +1,8 @@
-// Command visitline sequences one vehicle's visits to sites with time
-// windows: solve an instance, check a plan, benchmark the engine, serve the
-// page. It parses flags and prints; the work is done in solver/... .
+// Command visitline orders one vehicle's visits to sites with time
+// windows: solve a day, check a plan against it, serve the planner page,
+// write the static page, or write an invented day of any size. It parses
+// flags and prints; the work is done in solver/... and web. (The
+// measurement lab is a command of its own, visitline-lab.)
 package main
 
 import (
@@ -18,12 +20,8 @@ const usage = `visitline: order one vehicle's visits to sites with time windows
 usage:
   visitline solve [flags] FILE         find a plan (visitline solve -h for flags)
   visitline check FILE PLAN.json       validate a plan against an instance
-  visitline bench [flags] FILES_OR_DIRS...
-                                       run the engine on benchmark instances
   visitline serve [flags]              serve the planner page on 127.0.0.1
   visitline gen [flags] > FILE         write an invented, feasible instance of any size
-  visitline scale [flags]              measure the engine on generated instances of growing size
-  visitline wasm-speed [flags] FILES   compare the WebAssembly build's iteration rate with this one's
   visitline site [--engine F] DIR      write the static page into DIR
 `
 
@@ -44,14 +42,8 @@ func run(args []string, stdout, stderr io.Writer) int {
 		err = runSolve(args[1:], stdout, stderr)
 	case "check":
 		err = runCheck(args[1:], stdout, stderr)
-	case "bench":
-		err = runBench(args[1:], stdout, stderr)
 	case "gen":
 		err = runGen(args[1:], stdout, stderr)
-	case "scale":
-		err = runScale(args[1:], stdout, stderr)
-	case "wasm-speed":
-		err = runSpeed(args[1:], stdout, stderr)
 	case "serve":
 		err = runServe(args[1:], stdout, stderr)
 	case "site":
@@ -59,6 +51,9 @@ func run(args []string, stdout, stderr io.Writer) int {
 	case "-h", "--help", "help":
 		fmt.Fprint(stdout, usage)
 		return 0
+	case "bench", "scale", "wasm-speed":
+		fmt.Fprintf(stderr, "visitline: %s is a command of the measurement lab: visitline-lab %s (make lab builds bin/visitline-lab)\n", args[0], args[0])
+		return 2
 	default:
 		fmt.Fprintf(stderr, "visitline: unknown command %q\n%s", args[0], usage)
 		return 2

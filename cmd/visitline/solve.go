@@ -240,15 +240,6 @@ func explain(ctx context.Context, j *format.PlanJSON, d *format.Dataset, budget 
 	j.Reason = ex.Reason
 }
 
-// loadInstance reads an instance file with default options (bench).
-func loadInstance(path string) (*solver.Instance, error) {
-	d, err := loadDataset(path, format.Options{})
-	if err != nil {
-		return nil, err
-	}
-	return d.Instance, nil
-}
-
 // loadDataset opens the instance file (a sites file or a benchmark file)
 // and the matrix named in opt, naming them in every error; format.Load
 // does the rest, as it does for the page.

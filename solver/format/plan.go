@@ -8,7 +8,6 @@ import (
 	"math"
 	"strconv"
 	"strings"
-	"time"
 	"unicode/utf8"
 
 	"visitline/solver"
@@ -433,9 +432,6 @@ func completion(j PlanJSON) string {
 func fnum(v float64) string {
 	return strconv.FormatFloat(v, 'f', -1, 64)
 }
-
-// Seconds is a helper for durations in JSON.
-func Seconds(d time.Duration) float64 { return d.Seconds() }
 
 // Printable writes s for a terminal: control characters (C0 such as ESC,
 // BEL, CR and LF; DEL; C1 such as CSI U+009B) are shown escaped as Go

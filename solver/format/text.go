@@ -249,7 +249,9 @@ func eachRecord(text, name string, comma rune, fn func(line int, fields []string
 	cr.Comma = comma
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
-	cr.TrimLeadingSpace = true
+	// A tab is white space to encoding/csv: trimming leading space there
+	// would swallow an empty cell between two tabs and shift the columns.
+	cr.TrimLeadingSpace = comma != '\t'
 	cr.ReuseRecord = true
 	for {
 		rec, err := cr.Read()
