@@ -33,6 +33,7 @@ type solveFlags struct {
 	bound      bool
 	workers    int
 	load       loadFlags
+	fleet      fleetFlags
 }
 
 // loadFlags are the flags that say how to read an instance; solve and
@@ -101,6 +102,7 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	fs.BoolVar(&f.bound, "bound", true, "compute a lower bound beside the search and prove the plan optimal where the exact search can")
 	fs.IntVar(&f.workers, "workers", 0, fmt.Sprintf("searches side by side, sharing the best plan (default: the number of cores, %d; but 1 with --iterations, so that a seed reproduces the run)", runtime.NumCPU()))
 	f.load.register(fs)
+	f.fleet.register(fs)
 	fs.Usage = func() {
 		fmt.Fprintln(stderr, "usage: visitline solve [flags] SITES.csv|BENCHMARK.txt")
 		fs.PrintDefaults()
@@ -152,6 +154,9 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	mix, err := solver.ParseMix(f.mix)
 	if err != nil {
 		return usageError{"--mix: " + err.Error()}
+	}
+	if f.fleet.wanted(pos[0]) {
+		return solveFleet(pos[0], &f, stdout, stderr)
 	}
 	opt, err := f.load.options()
 	if err != nil {

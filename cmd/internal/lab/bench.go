@@ -115,6 +115,10 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 	if *budget <= 0 && *iterations <= 0 {
 		return usageError{"set a --budget above 0 or an --iterations count"}
 	}
+	if files, err := collectFiles(fs.Args()); err == nil && isFleetBench(files) {
+		return benchFleet(files, fleetBenchOptions{budget: *budget, iterations: *iterations, seeds: *seeds, bounds: *bounds, jsonOut: *jsonOut,
+			quiet: *quiet, cpuBudget: *cpuBudget, command: benchCommand(args)}, stdout)
+	}
 	known := map[string]bestKnown{}
 	if *bounds != "" {
 		var err error
