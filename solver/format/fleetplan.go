@@ -135,7 +135,11 @@ func (d *FleetDataset) PlanJSON(obj solver.Objective, minVeh bool, res *fleet.Re
 		}
 		for _, s := range rr.Stops {
 			pv := PlanVisit{Node: s.Node, ID: p.ID(s.Node), Arrival: f(s.Arrival), Start: f(s.Start), Wait: f(s.Wait), Departure: f(s.Departure),
-				Earliest: f(p.Early[s.Node]), Latest: f(p.Late[s.Node]), Slack: f(s.Slack), Lateness: f(s.Lateness), Name: d.Names[s.Node]}
+				Earliest: f(p.Early[s.Node]), Lateness: f(s.Lateness), Name: d.Names[s.Node]}
+			if !OpenBound(p.Late[s.Node]) {
+				l, sl := f(p.Late[s.Node]), f(s.Slack)
+				pv.Latest, pv.Slack = &l, &sl
+			}
 			if clock {
 				pv.ArrivalClock, pv.StartClock, pv.DepartureClock = d.Time.Format(s.Arrival), d.Time.Format(s.Start), d.Time.Format(s.Departure)
 				pv.EarliestClock, pv.LatestClock = d.Time.Format(p.Early[s.Node]), d.Time.Format(p.Late[s.Node])
@@ -216,7 +220,7 @@ func WriteFleetTable(w io.Writer, j FleetPlanJSON) error {
 		fmt.Fprintln(tw, "  #\tsite\tname\tarrival\tstart\twait\tdeparture\twindow\tslack")
 		for k, v := range r.Schedule {
 			fmt.Fprintf(tw, "  %d\t%s\t%s\t%s\t%s\t%s\t%s\t%s-%s\t%s\n", k+1, v.ID, v.Name, tm(v.Arrival, v.ArrivalClock), tm(v.Start, v.StartClock), fnum(round2(v.Wait)),
-				tm(v.Departure, v.DepartureClock), tm(v.Earliest, v.EarliestClock), tm(v.Latest, v.LatestClock), fnum(round2(v.Slack)))
+				tm(v.Departure, v.DepartureClock), tm(v.Earliest, v.EarliestClock), latestText(v, tm), slackText(v))
 		}
 		if err := tw.Flush(); err != nil {
 			return err
@@ -246,4 +250,20 @@ func sign(v float64) float64 {
 		return -1
 	}
 	return 1
+}
+
+// latestText and slackText write a bound that may be absent as "open",
+// as the one-vehicle table does.
+func latestText(v PlanVisit, tm func(float64, string) string) string {
+	if v.Latest == nil {
+		return "open"
+	}
+	return tm(*v.Latest, v.LatestClock)
+}
+
+func slackText(v PlanVisit) string {
+	if v.Slack == nil {
+		return "open"
+	}
+	return fnum(round2(*v.Slack))
 }
