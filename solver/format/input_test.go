@@ -84,6 +84,15 @@ func TestEveryDataErrorListed(t *testing.T) {
 	assert.Len(t, list, 4)
 }
 
+func TestEveryMissingCoordinateListed(t *testing.T) {
+	_, err := loadText(t, "id,x,y\nD,0,0\nA,,\nB,1,1\nC,,\n", Options{})
+	var list ErrorList
+	require.True(t, errors.As(err, &list), "%v", err)
+	require.Len(t, list, 2)
+	assert.Equal(t, 3, list[0].Line)
+	assert.Equal(t, 5, list[1].Line)
+}
+
 func TestErrorListIsBounded(t *testing.T) {
 	var b strings.Builder
 	b.WriteString("id,service\nD,0\n")
