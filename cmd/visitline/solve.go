@@ -89,7 +89,7 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	fs.SetOutput(stderr)
 	var f solveFlags
 	f.budget = 10 * time.Second
-	fs.Var((*budgetFlag)(&f.budget), "budget", "time budget, e.g. 10s, 2m or 1m30s (0 for none: then --iterations must be set)")
+	fs.Var((*budgetFlag)(&f.budget), "budget", "time budget as a `duration`, e.g. 10s, 2m or 1m30s (0 for none: then --iterations must be set)")
 	fs.IntVar(&f.iterations, "iterations", 0, "iteration budget (0: none)")
 	fs.Int64Var(&f.seed, "seed", 1, "random seed; a seed with an iteration budget reproduces a run")
 	fs.StringVar(&f.mix, "mix", "", "starting weights of the destroy operators, e.g. random=1,slice=1,related=1,worst=1")

@@ -293,12 +293,23 @@ func fromSites(s *Sites, matrix io.Reader, opt Options) (*Dataset, error) {
 	if latlon {
 		a, b = "lat", "lon"
 	}
+	var missing ErrorList
 	for k, st := range s.Sites {
 		if latlon && !st.HasLatLon || !latlon && !st.HasXY {
 			line, col := s.pos(k, a)
-			return nil, &ParseError{File: s.Name, Line: line, Column: col, Field: s.colLabel(a),
-				Msg: fmt.Sprintf("missing; travel times come from %s,%s, so every site needs them (or give a travel matrix)", a, b)}
+			missing = append(missing, &ParseError{File: s.Name, Line: line, Column: col, Field: s.colLabel(a),
+				Msg: fmt.Sprintf("missing; travel times come from %s,%s, so every site needs them (or give a travel matrix)", a, b)})
+			if len(missing) == maxErrors {
+				break
+			}
 		}
+	}
+	switch len(missing) {
+	case 0:
+	case 1:
+		return nil, missing[0]
+	default:
+		return nil, missing
 	}
 	speed := opt.Speed
 	if speed == 0 {
