@@ -154,7 +154,17 @@ func Load(sites io.Reader, matrix io.Reader, opt Options) (*Dataset, error) {
 		return nil, err
 	}
 	var d *Dataset
-	if IsBenchmark(text) {
+	if IsTSPLIB(text) {
+		if matrix != nil {
+			return nil, &ParseError{File: opt.MatrixName, Field: "travel matrix",
+				Msg: fmt.Sprintf("%s is a TSPLIB file, which holds its own travel; give no separate matrix", nameOr(opt.SitesName))}
+		}
+		in, err := ReadTSPLIB(strings.NewReader(text), opt.SitesName)
+		if err != nil {
+			return nil, err
+		}
+		d = &Dataset{Instance: in, Names: make([]string, in.N), Lines: make([]int, in.N), Travel: "TSPLIB"}
+	} else if IsBenchmark(text) {
 		if matrix != nil {
 			return nil, &ParseError{File: opt.MatrixName, Field: "travel matrix",
 				Msg: fmt.Sprintf("%s is in the benchmark matrix format, which holds its own travel times; give no separate matrix", nameOr(opt.SitesName))}
