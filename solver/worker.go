@@ -26,6 +26,11 @@ func (e *engine) work(ctx context.Context, id int, seed int64) {
 	if len(m.movable) > 150 {
 		s.pol.halt = func() bool { return e.interrupted(ctx) }
 	}
+	if m.free {
+		// No window can bind: a travelling salesman day.
+		s.openSearch(ctx, e)
+		return
+	}
 	e.mu.Lock()
 	s.weights = append([]float64(nil), e.weights...)
 	e.mu.Unlock()

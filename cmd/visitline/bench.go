@@ -157,6 +157,9 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 			var trace [][2]float64
 			s := solver.Settings{Budget: runBudget, Iterations: *iterations, Seed: int64(seed), Workers: *workers}
 			bk, hasBK := known[fam+"/"+name]
+			if !hasBK { // TSPLIB's optimal.csv names instances without the extension
+				bk, hasBK = known[fam+"/"+strings.TrimSuffix(name, filepath.Ext(name))]
+			}
 			ctx, cancel := context.WithCancel(context.Background())
 			cpu0 := processCPU()
 			var called time.Time
@@ -359,6 +362,22 @@ func readBestKnown(path string) (map[string]bestKnown, error) {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
 	out := map[string]bestKnown{}
+	if len(recs) > 0 && len(recs[0]) >= 4 && recs[0][0] == "instance" && recs[0][3] == "optimal" {
+		// The TSPLIB folder's optimal.csv: instance,type,nodes,optimal,...;
+		// the family is the folder it lies in.
+		fam := filepath.Base(filepath.Dir(path))
+		for i, rec := range recs[1:] {
+			if len(rec) < 4 {
+				return nil, fmt.Errorf("%s:%d: want instance,type,nodes,optimal", path, i+2)
+			}
+			v, err := strconv.ParseFloat(rec[3], 64)
+			if err != nil {
+				return nil, fmt.Errorf("%s:%d:4: optimal %q is not a number", path, i+2, rec[3])
+			}
+			out[fam+"/"+rec[0]] = bestKnown{v}
+		}
+		return out, nil
+	}
 	for i, rec := range recs {
 		if i == 0 && len(rec) > 0 && rec[0] == "family" {
 			continue
