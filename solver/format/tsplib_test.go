@@ -1,6 +1,7 @@
 package format
 
 import (
+	"context"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -219,6 +220,33 @@ func TestTSPLIBShared(t *testing.T) {
 			require.NoError(t, err)
 			assert.Equal(t, c.n, d.Instance.N)
 			assert.Equal(t, c.want, d.Instance.T(c.from, c.to))
+		})
+	}
+}
+
+// ft70 and kro124p (TSPLIB, Reinelt 1991, asymmetric): the engine reaches
+// the published optimal tour lengths within an iteration budget, and the
+// plan passes the independent evaluator.
+func TestTSPLIBAsymmetricOptimal(t *testing.T) {
+	dir := tsplibDir(t)
+	for _, c := range []struct {
+		file       string
+		iterations int
+		optimal    int64
+	}{{"ft70.atsp", 5000, 38673}, {"kro124p.atsp", 20000, 36230}} {
+		t.Run(c.file, func(t *testing.T) {
+			fh, err := os.Open(filepath.Join(dir, c.file))
+			require.NoError(t, err)
+			defer fh.Close()
+			d, err := Load(fh, nil, Options{SitesName: c.file})
+			require.NoError(t, err)
+			res, err := solver.Solve(context.Background(), d.Instance, solver.Settings{Iterations: c.iterations, Seed: 1, Workers: 1})
+			require.NoError(t, err)
+			require.NoError(t, solver.CheckRoute(d.Instance, res.Best.Route))
+			sch := solver.Evaluate(d.Instance, res.Best.Route)
+			require.True(t, sch.Feasible)
+			assert.Equal(t, sch.Travel, res.Best.Cost)
+			assert.Equal(t, c.optimal, sch.Travel, "published optimal tour length (TSPLIB, shared optimal.csv)")
 		})
 	}
 }
