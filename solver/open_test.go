@@ -221,3 +221,43 @@ func TestOpenMoveDeltas(t *testing.T) {
 		o.queue = o.queue[:0]
 	}
 }
+
+// On a big day whose windows are loose and laid around a tour that goes
+// to the nearest site each time (as the generated days are), the first
+// plan already meets every window: the nearest-neighbour start is tried
+// beside the orders by window, which zigzag far from any feasible plan.
+func TestLooseWindowsNearestStart(t *testing.T) {
+	rng := rand.New(rand.NewSource(8))
+	n := 1100
+	in := openInstance(rng, n, true, Closed)
+	for i := range in.Service {
+		in.Service[i] = 0
+	}
+	// Windows of width 600 (some 20 arcs) around the nearest-neighbour tour's times.
+	used := make([]bool, n)
+	used[0] = true
+	cur, at := 0, int64(0)
+	for k := 1; k < n; k++ {
+		next := -1
+		for v := 0; v < n; v++ {
+			if !used[v] && (next < 0 || in.T(cur, v) < in.T(cur, next)) {
+				next = v
+			}
+		}
+		used[next] = true
+		at += in.T(cur, next)
+		e := max(0, at-rng.Int63n(601))
+		in.Early[next], in.Late[next] = e, e+600
+		cur = next
+	}
+	in.Late[0] = at + in.T(cur, 0) + 600
+	m, err := newModel(in, TravelTime)
+	require.NoError(t, err)
+	require.False(t, m.free)
+	nn := at + in.T(cur, 0)
+	res, err := Solve(context.Background(), in, Settings{Iterations: 1, Seed: 1})
+	require.NoError(t, err)
+	checkPlan(t, in, TravelTime, res.Best)
+	assert.True(t, res.Best.Feasible, "first plan meets every window")
+	assert.LessOrEqual(t, res.Best.Cost, nn, "first plan no longer than the nearest-neighbour tour")
+}
