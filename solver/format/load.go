@@ -168,8 +168,25 @@ const peekSize = 64 << 10
 func load(sites io.Reader, matrix io.Reader, opt Options) (*Dataset, error) {
 	br := bufio.NewReaderSize(sites, peekSize)
 	head, _ := br.Peek(peekSize)
-	bench, sure := benchmarkHead(head, len(head) < peekSize)
+	// A TSPLIB file says so in its first line; then it is neither of the
+	// other two formats.
+	tsp := IsTSPLIB(string(head))
+	bench, sure := false, true
+	if !tsp {
+		bench, sure = benchmarkHead(head, len(head) < peekSize)
+	}
 	var d *Dataset
+	if tsp {
+		if matrix != nil {
+			return nil, &ParseError{File: opt.MatrixName, Field: "travel matrix",
+				Msg: fmt.Sprintf("%s is a TSPLIB file, which holds its own travel; give no separate matrix", nameOr(opt.SitesName))}
+		}
+		in, err := ReadTSPLIB(br, opt.SitesName)
+		if err != nil {
+			return nil, err
+		}
+		d = &Dataset{Instance: in, Names: make([]string, in.N), Lines: make([]int, in.N), Travel: "TSPLIB"}
+	}
 	if !sure {
 		// The first line that says what the file is lies beyond the
 		// look-ahead: read it all to decide.
