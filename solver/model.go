@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"sort"
+
+	"visitline/solver/turn"
 )
 
 // model is the engine's working copy of an instance: the driven prefix folded
@@ -215,6 +217,7 @@ func (m *model) tighten() {
 	for round := 0; round < 8; round++ {
 		changed := false
 		for _, j := range nodes {
+			turn.Due()
 			lo := Horizon
 			for _, i := range preds {
 				if i == j {
@@ -272,6 +275,7 @@ func (m *model) buildArcs() {
 	n := m.n
 	m.arcOK = make([]bool, n*n)
 	for i := 0; i < n; i++ {
+		turn.Due()
 		for j := 0; j < n; j++ {
 			m.arcOK[i*n+j] = i != j && m.e[i]+m.s[i]+m.t[i*n+j] <= m.l[j]
 		}
@@ -295,6 +299,7 @@ func (m *model) buildPrecedence() {
 		return
 	}
 	for _, u := range m.movable {
+		turn.Due()
 		for _, k := range m.movable {
 			if u != k && m.e[k]+m.s[k]+m.t[k*n+u] > m.l[u] {
 				m.before[u][k>>6] |= 1 << (k & 63)

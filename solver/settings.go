@@ -125,9 +125,6 @@ type Settings struct {
 	// MixUpdates, when set, is polled between iterations; a Mix received
 	// replaces the weights (and restarts their adaptation from it).
 	MixUpdates <-chan Mix
-	// Pause, when set, is called at every progress tick: the web worker uses
-	// it to give its event loop a turn.
-	Pause func()
 }
 
 // Plan is one route with its schedule and where it came from.

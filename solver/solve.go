@@ -6,6 +6,8 @@ import (
 	"runtime"
 	"sync"
 	"time"
+
+	"visitline/solver/turn"
 )
 
 // Solve searches for the best plan of in within the limits of s and returns
@@ -241,15 +243,22 @@ func (e *engine) tick(ctx context.Context) (goOn bool, mixChanged []float64) {
 // e.mu held.
 func (e *engine) heartbeat(now time.Time) {
 	if now.Sub(e.lastTick) < e.set.ProgressEvery {
+		e.giveTurn()
 		return
 	}
 	e.lastTick = now
 	if e.set.OnProgress != nil {
 		e.set.OnProgress(Progress{Iteration: e.iters, Elapsed: now.Sub(e.start), BestCost: e.best.Cost, Feasible: e.best.Feasible, Weights: normalised(e.weights)})
 	}
-	if e.set.Pause != nil {
+	e.giveTurn()
+}
+
+// giveTurn lets the host's event loop run when it is due (under GOOS=js;
+// natively it compiles to nothing). Call with e.mu held.
+func (e *engine) giveTurn() {
+	if turn.Enabled {
 		e.mu.Unlock()
-		e.set.Pause()
+		turn.Due()
 		e.mu.Lock()
 	}
 }

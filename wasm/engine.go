@@ -27,8 +27,7 @@ const planEvery = 50 * time.Millisecond
 // Handle must be called from one goroutine at a time; post may be called
 // from the search's goroutine too.
 type Engine struct {
-	post  func([]byte)
-	pause func()
+	post func([]byte)
 
 	mu  sync.Mutex
 	d   *format.Dataset
@@ -44,10 +43,10 @@ type run struct {
 	start  time.Time
 }
 
-// NewEngine makes an engine that sends its messages (JSON text) with post
-// and gives the host a turn with pause while a search runs.
-func NewEngine(post func([]byte), pause func()) *Engine {
-	return &Engine{post: post, pause: pause}
+// NewEngine makes an engine that sends its messages (JSON text) with post.
+// While a search runs, the host gets its turns through package turn.
+func NewEngine(post func([]byte)) *Engine {
+	return &Engine{post: post}
 }
 
 func (e *Engine) send(msg map[string]any) {
@@ -208,7 +207,6 @@ func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, s solver
 		post(p, solver.Result{Iterations: iterations, Elapsed: time.Since(r.start), Improvements: improvements}, nil)
 	}
 	s.MixUpdates = r.mix
-	s.Pause = e.pause
 	s.ProgressEvery = 50 * time.Millisecond
 	s.OnImprove = func(p solver.Plan) {
 		mu.Lock()
@@ -233,7 +231,7 @@ func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, s solver
 		err error
 	)
 	if withBound {
-		res, b, err = solveBound(ctx, in, s, bound.Options{Yield: e.pause})
+		res, b, err = solveBound(ctx, in, s, bound.Options{})
 	} else {
 		res, err = solve(ctx, in, s)
 	}
@@ -256,7 +254,7 @@ func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, s solver
 			if !res.Best.Feasible && ctx.Err() == nil {
 				e.send(map[string]any{"type": "progress", "run": r.id, "iterations": res.Iterations, "elapsed": time.Since(r.start).Seconds(),
 					"best_cost": in.Float(res.Best.Cost), "feasible": false, "explaining": true})
-				ex = explainDay(ctx, d, s.Budget, e.pause)
+				ex = explainDay(ctx, d, s.Budget)
 			}
 		}
 		post(res.Best, res, func(j *format.PlanJSON) {
@@ -295,14 +293,14 @@ const explainLimit = 3 * time.Second
 
 // explainDay says why no plan meets every window, in the file's own times,
 // or returns nil when that cannot be decided in time.
-func explainDay(ctx context.Context, d *format.Dataset, budget time.Duration, yield func()) *bound.Explanation {
+func explainDay(ctx context.Context, d *format.Dataset, budget time.Duration) *bound.Explanation {
 	ctx, cancel := context.WithTimeout(ctx, min(max(budget/2, time.Second), explainLimit))
 	defer cancel()
 	dur := d.FormatDuration
 	if d.Unit != "" {
 		dur = func(v int64) string { return d.FormatDuration(v) + " " + d.Unit }
 	}
-	ex, err := bound.ExplainWith(ctx, d.Instance, bound.ExplainOptions{FormatTime: d.FormatTime, FormatDuration: dur, Name: d.Name, Yield: yield})
+	ex, err := bound.ExplainWith(ctx, d.Instance, bound.ExplainOptions{FormatTime: d.FormatTime, FormatDuration: dur, Name: d.Name})
 	if err != nil {
 		if errors.Is(err, bound.ErrUndecided) {
 			return &bound.Explanation{Reason: "No plan meets every window within the search limits, and no short explanation was found in time."}

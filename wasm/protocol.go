@@ -72,9 +72,9 @@
 //	    A message the engine could not act on (no data loaded, bad budget).
 //
 // The engine runs solver.Solve on its own goroutine. Go's wasm runs on one
-// thread, so the search hands the event loop a turn through Settings.Pause
-// at every progress tick (about every 50 ms); a mix change or a stop is
-// taken at the next turn.
+// thread, so the search and the bound each block until the event loop has
+// had a turn about every 20 ms of work (package solver/turn; main_js.go
+// sets the host pause); a mix change or a stop is taken at the next turn.
 package main
 
 import (
