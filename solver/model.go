@@ -322,6 +322,34 @@ func (m *model) external(r []int32) []int {
 	return out
 }
 
+// internal turns an instance route into a model route, or nil when the
+// route does not keep the prefix and suffix the model folds away.
+func (m *model) internal(route []int) []int32 {
+	k := len(route) - len(m.suffix)
+	if m.in.Shape == OpenFixed && m.in.N > 1 {
+		k--
+	}
+	if k < len(m.prefix) {
+		return nil
+	}
+	for i, v := range m.prefix {
+		if route[i] != v {
+			return nil
+		}
+	}
+	for i, v := range m.suffix {
+		if route[k+i] != v {
+			return nil
+		}
+	}
+	r := make([]int32, 0, k-len(m.prefix)+2)
+	r = append(r, int32(m.start))
+	for _, v := range route[len(m.prefix):k] {
+		r = append(r, int32(v))
+	}
+	return append(r, int32(m.end))
+}
+
 var errNoNodes = errors.New("nothing to plan")
 
 var debugMode string

@@ -38,7 +38,7 @@ func TestSolveProvesSmallInstanceOptimal(t *testing.T) {
 		require.True(t, res.Best.Feasible)
 		require.Equal(t, wantCost, res.Best.Cost, "enumerated optimum %v", want)
 		require.True(t, b.ProvenOptimal)
-		require.Equal(t, "complete", res.Stop)
+		require.Equal(t, solver.StopComplete, res.Stop)
 		require.Equal(t, wantCost, b.Value)
 		r := ReportFor(b, res.Best)
 		require.True(t, r.ProvenOptimal)
