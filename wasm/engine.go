@@ -20,7 +20,7 @@ import (
 // day of n nodes: 50 ms, longer for large days, whose plans are large
 // messages for the page to take in.
 func planEvery(n int) time.Duration {
-	return max(50*time.Millisecond, time.Duration(n)*time.Millisecond/4)
+	return max(50*time.Millisecond, time.Duration(n)*time.Millisecond/2)
 }
 
 // maxBudget is the longest budget the page may ask for, in seconds.
@@ -208,10 +208,23 @@ type plans struct {
 	improved int
 }
 
+// exportsUpTo is the largest day whose every plan message carries the CSV
+// and JSON exports; above it only the last plan of a run does, since
+// writing them takes the worker a tenth of a second or more per plan.
+const exportsUpTo = 300
+
 func (p *plans) post(pl solver.Plan, res solver.Result, j *format.PlanJSON) {
+	p.postWith(pl, res, j, p.d.Instance.N <= exportsUpTo)
+}
+
+func (p *plans) postWith(pl solver.Plan, res solver.Result, j *format.PlanJSON, exports bool) {
 	if j == nil {
 		pj := p.d.PlanJSON(p.obj, pl, &res)
 		j = &pj
+	}
+	if !exports {
+		p.e.send(planMsg{Type: "plan", Run: p.r.id, Plan: *j})
+		return
 	}
 	var csv, js bytes.Buffer
 	if err := format.WriteCSV(&csv, p.d.Instance, *j); err != nil {
@@ -282,7 +295,7 @@ func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, o app.Ru
 		Elapsed: time.Since(r.start).Seconds(), Improvements: max(res.Improvements, pl.improved), Feasible: res.Best.Feasible}
 	if res.Best.Route != nil {
 		// The last word on the best plan, as `solve --format json` has it.
-		pl.post(res.Best, res, &out.Plan)
+		pl.postWith(res.Best, res, &out.Plan, true)
 		c := in.Float(res.Best.Cost)
 		fin.BestCost = &c
 	}
@@ -347,7 +360,7 @@ func (e *Engine) boundSide(ctx context.Context, r *run, d *format.Dataset, s sol
 		sch := solver.Evaluate(in, b.Route)
 		p := solver.Plan{Route: append([]int(nil), b.Route...), Schedule: sch, Cost: sch.Cost(s.Objective), Feasible: sch.Feasible,
 			Elapsed: time.Since(r.start), Operator: "exact"}
-		(&plans{e: e, r: r, d: d, obj: s.Objective}).post(p, solver.Result{Best: p, Elapsed: p.Elapsed, Improvements: 1}, nil)
+		(&plans{e: e, r: r, d: d, obj: s.Objective}).postWith(p, solver.Result{Best: p, Elapsed: p.Elapsed, Improvements: 1}, nil, true)
 		incCost, incOK = p.Cost, p.Feasible
 	}
 	msg := boundMsg{Type: "bound", Run: r.id, Infeasible: b.Infeasible}

@@ -63,8 +63,10 @@
 //	{"type":"plan", "run":1, "plan":{...}, "csv":"...", "json":"..."}
 //	    A new best plan: plan is the object of `visitline solve --format
 //	    json`; csv and json are the exports, written by the same code as
-//	    the command line. Plans found in a burst are coalesced so that at most
-//	    one is sent every 50 ms. The best plan is sent once more just before
+//	    the command line (for days over 300 nodes only in the last plan of
+//	    a run: writing them takes a tenth of a second or more). Plans found
+//	    in a burst are coalesced so that at most one is sent every 50 ms
+//	    (every n/2 ms for n nodes above 100). The best plan is sent once more just before
 //	    "finished", with lower_bound, gap_bound_pct and proven_optimal from
 //	    the bound, and for a day that cannot be met conflict and reason.
 //	{"type":"progress", "run":1, "iterations":1234, "elapsed":1.5, "best_cost":812, "feasible":true, "weights":{...}}
@@ -161,8 +163,8 @@ type (
 		Type string          `json:"type"`
 		Run  int             `json:"run"`
 		Plan format.PlanJSON `json:"plan"`
-		CSV  string          `json:"csv"`
-		JSON string          `json:"json"`
+		CSV  string          `json:"csv,omitempty"`
+		JSON string          `json:"json,omitempty"`
 	}
 	progressMsg struct {
 		Type       string     `json:"type"`
