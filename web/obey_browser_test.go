@@ -7,11 +7,14 @@ package web_test
 
 import (
 	"context"
+	"encoding/json"
 	"fmt"
+	"io"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"sort"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -19,6 +22,10 @@ import (
 	"github.com/chromedp/chromedp"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"visitline/solver"
+	"visitline/solver/app"
+	"visitline/web"
 )
 
 // benchDir is the shared published benchmark collection (see its README
@@ -258,4 +265,155 @@ func TestPageBudgetEndsAsBudget(t *testing.T) {
 	clickStart(t, ctx, "1", true)
 	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 20*time.Second)
 	assert.Equal(t, "budget", eval[string](t, ctx, `document.querySelector('[data-testid=status]').dataset.why`))
+}
+
+// exampleLoad turns an example's route options (solve's flags by the
+// page's names) into the application layer's load options.
+func exampleLoad(t *testing.T, e web.Example) app.LoadOptions {
+	var o app.LoadOptions
+	for k, v := range e.Options {
+		switch k {
+		case "start":
+			o.Start = v
+		case "end":
+			o.End = v
+		case "shift_start":
+			o.ShiftStart = v
+		case "matrix_unit":
+			o.MatrixUnit = v
+		case "now":
+			o.Now = v
+		case "done":
+			o.Done = strings.Split(v, ",")
+		case "speed", "road_factor":
+			f, err := strconv.ParseFloat(v, 64)
+			require.NoError(t, err)
+			if k == "speed" {
+				o.Speed = f
+			} else {
+				o.RoadFactor = f
+			}
+		default:
+			t.Fatalf("example %s: option %q unknown to this test", e.Key, k)
+		}
+	}
+	return o
+}
+
+// engineRun drives a fresh engine client in the page (not the page's
+// own): load, start, and the messages up to "finished".
+func engineRun(t *testing.T, ctx context.Context, load, start map[string]any, cores int) (plan map[string]any, progress []map[string]any, fin map[string]any) {
+	t.Helper()
+	lj, err := json.Marshal(load)
+	require.NoError(t, err)
+	sj, err := json.Marshal(start)
+	require.NoError(t, err)
+	out := eval[map[string]any](t, ctx, fmt.Sprintf(`new Promise((res, rej) => {
+	  const got = { progress: [], plan: null };
+	  const c = VisitlineEngine.create({ cores: %d, onMessage: m => {
+	    if (m.type === "loaded") c.send(%s);
+	    else if (m.type === "errors" || m.type === "failed") { c.terminate(); rej(new Error(JSON.stringify(m))); }
+	    else if (m.type === "plan") got.plan = m.plan;
+	    else if (m.type === "progress" && m.workers) got.progress.push(m);
+	    else if (m.type === "finished") { got.finished = m; c.terminate(); res(got); }
+	  }});
+	  c.send(%s);
+	  setTimeout(() => rej(new Error("no finished within 60 s")), 60000);
+	})`, cores, sj, lj))
+	if p, ok := out["plan"].(map[string]any); ok {
+		plan = p
+	}
+	for _, p := range out["progress"].([]any) {
+		progress = append(progress, p.(map[string]any))
+	}
+	fin, _ = out["finished"].(map[string]any)
+	return plan, progress, fin
+}
+
+func routeOf(t *testing.T, plan map[string]any) []int {
+	t.Helper()
+	require.NotNil(t, plan, "no plan")
+	var r []int
+	for _, v := range plan["route"].([]any) {
+		r = append(r, int(v.(float64)))
+	}
+	return r
+}
+
+// TestPagePlanEqualsSolve: the page's engine and the command line's solve
+// path (the application layer, solver/app) give the same plan for the same
+// data, options, seed and iteration budget, on every example. Without the
+// bound, whose exact search runs beside the search for as long as the
+// search does and so depends on timing.
+func TestPagePlanEqualsSolve(t *testing.T) {
+	ctx, _ := tab(t)
+	openPage(t, ctx, "")
+	exs, err := web.ListExamples(nil)
+	require.NoError(t, err)
+	require.NotEmpty(t, exs)
+	// And a published day (../shared/benchmarks) that 300 iterations do
+	// not solve to the optimum, so that equal plans mean equal searches.
+	if b, err := os.ReadFile(filepath.Join(benchDir, "OhlmannThomas/n150w120.001.txt")); err == nil {
+		exs = append(exs, web.Example{Key: "OhlmannThomas/n150w120.001.txt", Text: string(b)})
+	} else if os.Getenv("CI") == "true" {
+		t.Fatal(err)
+	}
+	for _, e := range exs {
+		t.Run(e.Key, func(t *testing.T) {
+			lo := exampleLoad(t, e)
+			var matrix io.Reader
+			if e.Matrix != "" {
+				matrix = strings.NewReader(e.Matrix)
+			}
+			d, err := app.Load(strings.NewReader(e.Text), matrix, e.Key, e.MatrixName, lo)
+			require.NoError(t, err)
+			ro := app.RunOptions{Iterations: 300, Seed: 7, NoBound: true}
+			want, err := app.Run(context.Background(), d, ro, app.Hooks{})
+			require.NoError(t, err)
+			plan, _, fin := engineRun(t, ctx,
+				map[string]any{"type": "load", "name": e.Key, "text": e.Text, "matrix_name": e.MatrixName, "matrix": e.Matrix, "options": lo},
+				map[string]any{"type": "start", "budget": 0, "iterations": ro.Iterations, "seed": ro.Seed, "no_bound": true}, 1)
+			require.NotNil(t, fin)
+			assert.Equal(t, "iterations", fin["why"])
+			got := routeOf(t, plan)
+			assert.Equal(t, want.Result.Best.Route, got)
+			assert.InDelta(t, want.Plan.Cost, plan["cost"].(float64), 1e-9)
+		})
+	}
+}
+
+// TestPageTwoSearchWorkers: with two cores the page runs two search
+// workers (and the bound worker); both report progress, and the plan shown
+// is a real plan of the day: the independent evaluator recomputes its cost
+// and feasibility.
+func TestPageTwoSearchWorkers(t *testing.T) {
+	text := publishedOrSkip(t, "OhlmannThomas/n150w120.001.txt")
+	in, err := readBench(text)
+	require.NoError(t, err)
+	ctx, _ := tab(t)
+	openPage(t, ctx, "")
+	plan, progress, fin := engineRun(t, ctx, map[string]any{"type": "load", "text": text},
+		map[string]any{"type": "start", "budget": 4, "seed": 1}, 2)
+	require.NotNil(t, fin)
+	assert.Contains(t, []string{"budget", "complete"}, fin["why"])
+	require.NotEmpty(t, progress)
+	last := progress[len(progress)-1]
+	workers := last["workers"].([]any)
+	require.Len(t, workers, 2)
+	for i, w := range workers {
+		wm := w.(map[string]any)
+		assert.Greater(t, wm["iterations"].(float64), 0.0, "worker %d reported no iterations", i)
+		assert.Greater(t, wm["memory_mb"].(float64), 0.0, "worker %d reported no memory", i)
+	}
+	route := routeOf(t, plan)
+	require.NoError(t, solver.CheckRoute(in, route))
+	sch := solver.Evaluate(in, route)
+	assert.Equal(t, sch.Feasible, plan["feasible"])
+	assert.InDelta(t, in.Float(sch.Cost(solver.TravelTime)), plan["cost"].(float64), 1e-9)
+	// The best of either: no worker's best is better than the plan shown.
+	for _, w := range workers {
+		if c, ok := w.(map[string]any)["best_cost"].(float64); ok && sch.Feasible {
+			assert.GreaterOrEqual(t, c+1e-9, plan["cost"].(float64))
+		}
+	}
 }
