@@ -128,7 +128,7 @@ func NewPlanJSON(in *solver.Instance, obj solver.Objective, p solver.Plan, res *
 		}
 	}
 	if res != nil {
-		j.Iterations, j.Seconds, j.Improvements, j.Stop = res.Iterations, res.Elapsed.Seconds(), res.Improvements, res.Stop
+		j.Iterations, j.Seconds, j.Improvements, j.Stop = res.Iterations, res.Elapsed.Seconds(), res.Improvements, res.Stop.String()
 	}
 	return j
 }
