@@ -20,6 +20,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/chromedp/chromedp"
 	"github.com/stretchr/testify/require"
 
 	"visitline/solver"
@@ -86,6 +87,18 @@ func (s stats) String() string {
 	return out
 }
 
+// longTab is tab with a time limit for measurements (tab's is 90 s).
+func longTab(t *testing.T, d time.Duration) context.Context {
+	t.Helper()
+	tab(t) // starts the shared browser
+	ctx, cancel := chromedp.NewContext(shared.browser, chromedp.WithNewBrowserContext())
+	t.Cleanup(cancel)
+	ctx, cancel2 := context.WithTimeout(ctx, d)
+	t.Cleanup(cancel2)
+	require.NoError(t, chromedp.Do(ctx, chromedp.Navigate("about:blank")))
+	return ctx
+}
+
 func TestBenchBrowser(t *testing.T) {
 	if os.Getenv("VISITLINE_BENCH_BROWSER") == "" {
 		t.Skip("set VISITLINE_BENCH_BROWSER=1 (make bench-browser)")
@@ -94,7 +107,7 @@ func TestBenchBrowser(t *testing.T) {
 	if n, err := strconv.Atoi(os.Getenv("VISITLINE_BENCH_TRIES")); err == nil && n > 0 {
 		tries = n
 	}
-	ctx, _ := tab(t)
+	ctx := longTab(t, 3*time.Hour)
 	files := site(t)
 	t.Logf("engine.wasm: %d bytes raw", len(files["engine.wasm"]))
 	var ready stats
