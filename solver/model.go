@@ -37,6 +37,9 @@ type model struct {
 	infeas  bool       // tightening proved that no plan meets every window
 	fewest  bool       // rank late plans by late visits first
 	arcOK   []bool     // arc i→j can be in a feasible plan
+	// free: no window can bind (windowsFree), and the day is searched as an
+	// open day (open.go); arcOK and before are then left out.
+	free bool
 }
 
 func (m *model) T(i, j int) int64 { return m.t[i*m.n+j] }
@@ -182,6 +185,12 @@ func newModel(in *Instance, obj Objective) (*model, error) {
 	}
 	m.origE = append([]int64(nil), m.e...)
 	m.origL = append([]int64(nil), m.l...)
+	if len(m.movable) >= openMin && m.windowsFree() {
+		// No window can bind: nothing to tighten, no arc or order to
+		// rule out; the open-day search needs none of it (open.go).
+		m.free = true
+		return m, nil
+	}
 	if debugMode != "notight" {
 		m.tighten()
 	}
