@@ -430,7 +430,7 @@
       const errored = run.search.concat(run.bound ? [run.bound] : []).find(function (s) { return s.finished.why === "error"; });
       let why;
       if (errored) why = "error";
-      else if (run.userStop) why = "stopped";
+      else if (run.userStop || !run.complete && run.search.some(function (s) { return s.finished.why === "stopped"; })) why = "stopped";
       else if (run.complete || reasons.indexOf("complete") >= 0 && run.search.every(function (s) { return s.finished.why !== "budget"; })) why = "complete";
       else if (run.search.every(function (s) { return s.finished.why === "iterations"; })) why = "iterations";
       else why = "budget";
