@@ -170,6 +170,28 @@ func TestBenchBrowser(t *testing.T) {
 		t.Logf("%s, bound on, 1 search worker: weight change to acknowledgement on the page %v; by the worker's stamp %v", c.name, mix, mixEng)
 	}
 
+	// Memory at 2,000 sites with 4 search workers and the bound worker.
+	if os.Getenv("VISITLINE_BENCH_MEMORY") != "0" {
+		openPage(t, ctx, "")
+		_, _, fin := engineRun(t, ctx, map[string]any{"type": "load", "text": sitesDay(2000, 6)},
+			map[string]any{"type": "start", "budget": 20, "seed": 1}, 4)
+		total := 0.0
+		var per []string
+		for _, w := range fin["workers"].([]any) {
+			mb := w.(map[string]any)["memory_mb"].(float64)
+			total += mb
+			per = append(per, fmt.Sprintf("%.0f", mb))
+		}
+		bmb := 0.0
+		if b, ok := fin["bound"].(map[string]any); ok {
+			bmb, _ = b["memory_mb"].(float64)
+		}
+		total += bmb
+		heap := eval[float64](t, ctx, `performance.memory ? performance.memory.usedJSHeapSize / 1048576 : 0`)
+		t.Logf("2000 sites, 4 search workers + bound, 20 s: WebAssembly memory per search worker %s MB, bound worker %.0f MB; page heap %.0f MB; in all %.0f MB",
+			strings.Join(per, ", "), bmb, heap, total+heap)
+	}
+
 	// Per-worker rate against native, by CPU time: the same instance, seed
 	// and iteration budget; the browser's CPU is that of all its
 	// processes (the page draws nothing here: a client of its own).

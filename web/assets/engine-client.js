@@ -443,6 +443,7 @@
         workers: run.search.map(function (s) { return { iterations: s.finished.iterations || 0, memory_mb: s.w.memory }; }),
       };
       if (best) out.best_cost = best.cost;
+      if (run.bound) out.bound = { memory_mb: run.bound.w.memory };
       if (errored) out.message = errored.finished.message || run.failure || "";
       const note = run.search.map(function (s) { return s.finished.note; }).find(function (x) { return !!x; });
       if (note) out.note = note;
