@@ -300,6 +300,7 @@ func nearestOrder(m *model) []int32 {
 	r = append(r, int32(m.start))
 	cur := m.start
 	for len(r) <= len(m.movable) {
+		turn.Due()
 		next := -1
 		row := m.t[cur*n : cur*n+n]
 		for _, v := range m.movable {
