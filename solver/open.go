@@ -56,7 +56,7 @@ func (m *model) windowsFree() bool {
 		var out int64
 		for _, j := range targets {
 			if j != i {
-				out = max(out, m.t[i*n+j])
+				out = max(out, m.tk(i*n+j))
 			}
 		}
 		reach += m.s[i] + out
@@ -76,7 +76,8 @@ func (m *model) windowsFree() bool {
 type openTour struct {
 	m     *model
 	n     int
-	t     []int64
+	t32   []int32 // the model's travel: one of the two is set
+	t64   []int64
 	r     []int32 // start ... end (the sentinel)
 	pos   []int32 // position of each node of the route in r
 	sym   bool
@@ -97,16 +98,22 @@ type openTour struct {
 	moves int
 }
 
-func (o *openTour) d(a, b int32) int64 { return o.t[int(a)*o.n+int(b)] }
+func (o *openTour) d(a, b int32) int64 {
+	k := int(a)*o.n + int(b)
+	if o.t32 != nil {
+		return int64(o.t32[k])
+	}
+	return o.t64[k]
+}
 
 func newOpenTour(m *model) *openTour {
-	o := &openTour{m: m, n: m.n, t: m.t, pos: make([]int32, m.n), inQ: make([]bool, m.n)}
+	o := &openTour{m: m, n: m.n, t32: m.t32, t64: m.t64, pos: make([]int32, m.n), inQ: make([]bool, m.n)}
 	o.freeEnd = m.in.Shape == OpenFree && len(m.suffix) == 0
 	nodes := append(append([]int{m.start}, m.movable...), m.end)
 	o.sym = true
 	for _, i := range m.movable {
 		for _, j := range m.movable {
-			if j > i && m.t[i*m.n+j] != m.t[j*m.n+i] {
+			if j > i && m.tk(i*m.n+j) != m.tk(j*m.n+i) {
 				o.sym = false
 				break
 			}
@@ -129,7 +136,7 @@ func newOpenTour(m *model) *openTour {
 			if j == i || o.freeEnd && (j == m.end || i == m.end) {
 				continue
 			}
-			w := min(m.t[i*m.n+j], m.t[j*m.n+i])
+			w := min(m.tk(i*m.n+j), m.tk(j*m.n+i))
 			if len(best) == k && w >= best[k-1].w {
 				continue
 			}

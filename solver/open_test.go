@@ -261,3 +261,36 @@ func TestLooseWindowsNearestStart(t *testing.T) {
 	assert.True(t, res.Best.Feasible, "first plan meets every window")
 	assert.LessOrEqual(t, res.Best.Cost, nn, "first plan no longer than the nearest-neighbour tour")
 }
+
+// Travel beyond the int32 range keeps a 64-bit matrix in the model: the
+// engine still finds what enumeration finds, on a windowed day and on an
+// open one, with every time multiplied by 10⁸.
+func TestTravelBeyondInt32(t *testing.T) {
+	rng := rand.New(rand.NewSource(21))
+	for _, in := range []*Instance{randomInstance(rng, 9, 120, Closed), openInstance(rng, 9, false, Closed)} {
+		const f = 100_000_000
+		for k := range in.Travel {
+			in.Travel[k] *= f
+		}
+		for i := range in.Service {
+			in.Service[i] *= f
+			in.Early[i] *= f
+			if in.Late[i] != Horizon {
+				in.Late[i] *= f
+			}
+		}
+		m, err := newModel(in, TravelTime)
+		require.NoError(t, err)
+		require.Nil(t, m.t32)
+		_, want := enumerate(in, TravelTime)
+		res, err := Solve(context.Background(), in, Settings{Iterations: 400, Seed: 1})
+		require.NoError(t, err)
+		checkPlan(t, in, TravelTime, res.Best)
+		assert.Equal(t, want.Cost(TravelTime), res.Best.Cost)
+	}
+	small := openInstance(rng, 9, true, Closed)
+	m, err := newModel(small, TravelTime)
+	require.NoError(t, err)
+	assert.NotNil(t, m.t32, "travel that fits takes int32")
+	assert.Nil(t, m.t64)
+}
