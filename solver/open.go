@@ -81,6 +81,8 @@ type openTour struct {
 	r     []int32 // start ... end (the sentinel)
 	pos   []int32 // position of each node of the route in r
 	sym   bool
+	pot   []int64 // potentials when travel is asymmetric only by them (see newOpenTour)
+	sums  bool    // fw and bw are kept: asymmetric travel without potentials
 	fw    []int64 // fw[k]: travel of r[0..k] forward (asymmetric travel only)
 	bw    []int64 // bw[k]: travel of r[k], r[k-1], ..., r[0] (asymmetric only)
 	cost  int64   // travel of r
@@ -122,6 +124,33 @@ func newOpenTour(m *model) *openTour {
 			break
 		}
 	}
+	if !o.sym && len(m.movable) > 0 {
+		// Asymmetric only by a potential per node (t(i,j) − t(j,i) =
+		// p(i) − p(j), as when each visit's service is folded into the
+		// arcs out of it): a reversed stretch then differs from itself by
+		// p(last) − p(first), with no sums to keep.
+		v0 := m.movable[0]
+		pot := make([]int64, m.n)
+		for _, i := range m.movable {
+			pot[i] = m.tk(i*m.n+v0) - m.tk(v0*m.n+i)
+		}
+		ok := true
+		for _, i := range m.movable {
+			for _, j := range m.movable {
+				if j > i && m.tk(i*m.n+j)-m.tk(j*m.n+i) != pot[i]-pot[j] {
+					ok = false
+					break
+				}
+			}
+			if !ok {
+				break
+			}
+		}
+		if ok {
+			o.pot = pot
+		}
+	}
+	o.sums = !o.sym && o.pot == nil
 	o.cand = make([][]int32, m.n)
 	o.candW = make([][]int64, m.n)
 	k := min(openK, len(nodes)-1)
@@ -166,7 +195,7 @@ func newOpenTour(m *model) *openTour {
 // set takes a route order and recomputes positions, sums and cost.
 func (o *openTour) set(r []int32) {
 	o.r = append(o.r[:0], r...)
-	if !o.sym {
+	if o.sums {
 		o.fw = make([]int64, len(r))
 		o.bw = make([]int64, len(r))
 	}
@@ -185,7 +214,7 @@ func (o *openTour) refresh(lo, hi int) {
 		o.pos[o.r[k]] = int32(k)
 	}
 	o.lo, o.hi = min(o.lo, lo), max(o.hi, hi)
-	if o.sym {
+	if !o.sums {
 		return
 	}
 	r := o.r
@@ -213,7 +242,10 @@ func (o *openTour) revDelta(x, y int) int64 {
 	r := o.r
 	a, b, c, d := r[x-1], r[x], r[y], r[y+1]
 	delta := o.d(a, c) + o.d(b, d) - o.d(a, b) - o.d(c, d)
-	if !o.sym {
+	switch {
+	case o.pot != nil:
+		delta += o.pot[c] - o.pot[b]
+	case o.sums:
 		delta += (o.bw[y] - o.bw[x]) - (o.fw[y] - o.fw[x])
 	}
 	return delta

@@ -165,12 +165,27 @@ func TestOpenMoveDeltas(t *testing.T) {
 	for trial, c := range []struct {
 		sym   bool
 		shape Shape
-	}{{true, Closed}, {false, Closed}, {false, OpenFree}, {false, OpenFixed}, {true, OpenFixed}} {
+		pot   bool
+	}{{true, Closed, false}, {false, Closed, false}, {false, OpenFree, false}, {false, OpenFixed, false}, {true, OpenFixed, false},
+		{true, Closed, true}, {true, OpenFree, true}} {
 		rng := rand.New(rand.NewSource(int64(trial)))
 		in := openInstance(rng, 30, c.sym, c.shape)
+		if c.pot {
+			// Asymmetric by a potential per node: service folded into the
+			// arcs out of each node.
+			for i := 0; i < in.N; i++ {
+				for j := 0; j < in.N; j++ {
+					if i != j {
+						in.Travel[i*in.N+j] += 7 * int64(i%5)
+					}
+				}
+			}
+		}
 		m, err := newModel(in, TravelTime)
 		require.NoError(t, err)
 		o := newOpenTour(m)
+		require.Equal(t, c.pot, o.pot != nil, "potentials found")
+		require.Equal(t, !c.sym, o.sums, "prefix sums kept")
 		r := identityRoute(m)
 		rng.Shuffle(len(r)-2, func(i, j int) { r[i+1], r[j+1] = r[j+1], r[i+1] })
 		o.set(r)
