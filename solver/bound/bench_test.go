@@ -113,7 +113,7 @@ func TestBoundReport(t *testing.T) {
 		if fams != "all" && !strings.Contains(","+fams+",", ","+k.family+",") {
 			continue
 		}
-		if filter != "" && !strings.Contains(k.instance, filter) {
+		if filter != "" && !slices.ContainsFunc(strings.Split(filter, ","), func(f string) bool { return strings.Contains(k.instance, f) }) {
 			continue
 		}
 		in := loadBench(t, k)

@@ -45,7 +45,7 @@ type Options struct {
 	// Settings.Pause does, so that messages get in while the bound runs.
 	Yield func()
 	// RelaxShare is the share of the context's remaining time that the
-	// penalty ascent may use before the exact search starts (default 0.3).
+	// penalty ascent may use before the exact search starts (default 0.6).
 	RelaxShare float64
 }
 
@@ -71,7 +71,7 @@ func (o Options) withDefaults() Options {
 		o.HistoryLabels = 1 << 25
 	}
 	if o.RelaxShare <= 0 || o.RelaxShare > 1 {
-		o.RelaxShare = 0.3
+		o.RelaxShare = 0.6
 	}
 	return o
 }

@@ -477,6 +477,7 @@ type ascent struct {
 	target int64
 	iters  int
 	best   *relax
+	dir    []float64 // last step direction
 	ng     *ngSets
 	grown  int // members added by grow
 	// route is set when a relaxed optimal path is a feasible route whose
@@ -595,22 +596,46 @@ func (a *ascent) run(ctx context.Context, iters int, y *yielder) {
 			a.done = true // the bound has closed on the best known cost
 			return
 		}
+		// Deflected subgradient (Camerini, Fratta and Maffioli 1975): the
+		// direction keeps part of the last one when the two disagree, which
+		// damps the zig-zag of plain steps.
+		if a.dir == nil {
+			a.dir = make([]float64, n)
+		}
+		var gd, dd float64
+		for j := 0; j < n; j++ {
+			if j != p.start {
+				gd += float64(1-counts[j]) * a.dir[j]
+				dd += a.dir[j] * a.dir[j]
+			}
+		}
+		beta := 0.0
+		if deflect && gd < 0 && dd > 0 {
+			beta = -1.5 * gd / dd
+		}
 		var norm float64
 		for j := 0; j < n; j++ {
 			if j != p.start {
-				g := float64(1 - counts[j])
-				norm += g * g
+				a.dir[j] = float64(1-counts[j]) + beta*a.dir[j]
+				norm += a.dir[j] * a.dir[j]
 			}
+		}
+		if norm == 0 {
+			a.done = true
+			return
 		}
 		step := a.mu * float64(tgt-rx.z) / norm
 		for j := 0; j < n; j++ {
 			if j != p.start {
-				a.lamF[j] += step * float64(1-counts[j])
+				a.lamF[j] += step * a.dir[j]
 				a.lam[j] = int64(math.Round(a.lamF[j]))
 			}
 		}
 	}
 }
+
+// deflect turns on the deflected subgradient steps.
+var deflect = true
 
 func abs64(v int64) int64 {
 	if v < 0 {
