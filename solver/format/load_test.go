@@ -217,8 +217,8 @@ func TestLoadPinErrors(t *testing.T) {
 		opt  Options
 		want string
 	}{
-		{"start pinned", map[string]string{"D": "first"}, Options{}, "s.csv:2:6: position: D is the start of the route and cannot be pinned"},
-		{"end pinned", map[string]string{"E": "last"}, Options{End: "E"}, "s.csv:6:6: position: E is the fixed end of the route and cannot be pinned"},
+		{"start pinned", map[string]string{"D": "2"}, Options{}, "s.csv:2:6: position: D is the start of the route and cannot be pinned"},
+		{"end pinned", map[string]string{"E": "first"}, Options{End: "E"}, "s.csv:6:6: position: E is the fixed end of the route and cannot be pinned"},
 		{"two on one place", map[string]string{"A": "first", "B": "1"}, Options{}, "s.csv:4:6: position: B and A (line 3) are both pinned to visit 1"},
 		{"past the end", map[string]string{"A": "5"}, Options{}, "s.csv:3:6: position: 5 is past the end of the route, which has 4 visits after the start"},
 		{"past a fixed end", map[string]string{"A": "4"}, Options{End: "E"}, "s.csv:3:6: position: 4 is past the end of the route, which has 3 visits"},
@@ -242,7 +242,7 @@ func TestLoadErrors(t *testing.T) {
 		{"bad speed", "id,x,y\nA,0,0\nB,1,1\n", nil, Options{Speed: -3}, `speed "-3": want a speed above 0`},
 		{"bad road factor", "id,lat,lon\nA,45,3\nB,45,4\n", nil, Options{RoadFactor: 0.5}, `road-factor "0.5": want 1 or more`},
 		{"coordinates too far for the speed", "id,lat,lon\nA,45,3\nB,-45,-170\n", nil, Options{Speed: 1e-9}, `speed "1e-09": travel times from the coordinates are too large; check the units`},
-		{"matrix error names the matrix", "id\nA\nB\n", ptr("0,1\n1\n"), Options{}, "m.csv:2: travel matrix: row 2 has 1 values but row 1 has 2"},
+		{"matrix error names the matrix", "id\nA\nB\n", ptr("0,1\n1\n"), Options{}, "m.csv:2: travel matrix: row 2 of the times has 1 travel times; want 2"},
 		{"benchmark with a matrix", "2\n0 1\n1 0\n0 10\n0 10\n", ptr("0,1\n1,0\n"), Options{}, "m.csv: travel matrix: s.csv is in the benchmark matrix format"},
 	}
 	for _, c := range cases {
@@ -265,20 +265,28 @@ func TestLoadErrors(t *testing.T) {
 
 func ptr(s string) *string { return &s }
 
-func TestReadPlanRouteFor(t *testing.T) {
+func TestRouteIDsOfAPlan(t *testing.T) {
 	d := loadFive(t, fiveSites, Options{})
-	route, err := ReadPlanRouteFor(strings.NewReader(`{"route":[0,1,2,3,4],"route_ids":["D","A","B","C","E"]}`), "p.json", d.Instance)
-	require.NoError(t, err)
-	assert.Equal(t, []int{0, 1, 2, 3, 4}, route)
-	route, err = ReadPlanRouteFor(strings.NewReader(`{"route":[0,2,1,3,4]}`), "p.json", d.Instance)
-	require.NoError(t, err, "route_ids are optional")
-	assert.Equal(t, []int{0, 2, 1, 3, 4}, route)
-	_, err = ReadPlanRouteFor(strings.NewReader(`{"route":[0,1],"route_ids":["D"]}`), "p.json", d.Instance)
-	assert.EqualError(t, err, "p.json: route_ids: has 1 ids but route has 2 nodes")
-	_, err = ReadPlanRouteFor(strings.NewReader(`{"route":[0,1],"route_ids":["D","B"]}`), "p.json", d.Instance)
-	assert.ErrorContains(t, err, `p.json: route_ids: place 1 is node 1, which is "A" here, but the plan says "B"`)
-	_, err = ReadPlanRouteFor(strings.NewReader(`{"route_ids":["D"]}`), "p.json", d.Instance)
-	assert.ErrorContains(t, err, `p.json: route: missing`)
+	cases := []struct{ name, plan, want string }{
+		{"ids agree", `{"route":[0,1,2,3,4],"route_ids":["D","A","B","C","E"]}`, ""},
+		{"route_ids are optional", `{"route":[0,2,1,3,4]}`, ""},
+		{"count differs", `{"route":[0,1],"route_ids":["D"]}`, "p.json: route_ids: has 1 ids but route has 2 nodes"},
+		{"other data", `{"route":[0,1],"route_ids":["D","B"]}`, `p.json: route_ids: place 1 is node 1, which is A here, but the plan says B`},
+		{"no route", `{"route_ids":["D"]}`, "p.json: route: missing"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			cl, err := ReadClaims(strings.NewReader(c.plan), "p.json")
+			if err == nil {
+				err = d.RouteIDsProblem(cl, "p.json")
+			}
+			if c.want == "" {
+				require.NoError(t, err)
+				return
+			}
+			assert.ErrorContains(t, err, c.want)
+		})
+	}
 }
 
 func TestLoadPastedText(t *testing.T) {
