@@ -380,9 +380,22 @@ function showPlan(m) {
   $("bound-details").textContent = boundDetails(p, model);
   $("print-title").textContent = (state.data ? state.data.name + " · " : "") + costWords(p, model) +
     (p.feasible ? ", every window met" : ", " + plural(late, "visit", "visits") + " late") + " · planned " + new Date().toLocaleString();
-  drawTimeline(p, model);
-  drawTable(p, model);
-  chart();
+  drawSoon();
+}
+
+// drawSoon draws the best plan at the next frame: plans that arrive faster
+// than the page can draw them are skipped, not queued.
+let drawPending = false;
+function drawSoon() {
+  if (drawPending) return;
+  drawPending = true;
+  requestAnimationFrame(() => {
+    drawPending = false;
+    if (!state.plan) return;
+    drawTimeline(state.plan, state.model);
+    drawTable(state.plan, state.model);
+    chart();
+  });
 }
 
 function chart() {

@@ -5,6 +5,9 @@ import { $ } from "./dom.mjs";
 import { isOpen, clock, duration, needsSeconds, dayHeading } from "./fmt.mjs";
 import { planRows } from "./axis.mjs";
 
+// COLS are the columns' classes (page.go gives the headers the same).
+const COLS = ["c-ord", "c-site", "name-col", "c-arr", "c-start", "c-wait", "c-dep", "win-col", "c-slack"];
+
 export function clearTable() {
   $("plan-table").tBodies[0].textContent = "";
   $("table-day").textContent = "";
@@ -34,8 +37,7 @@ export function drawTable(p, model) {
     cells.forEach((text, i) => {
       const td = document.createElement(i === 1 ? "th" : "td");
       if (i === 1) td.scope = "row";
-      if (i === 2) td.className = "name-col";
-      if (i === 7) td.className = "win-col";
+      td.className = COLS[i];
       td.textContent = text;
       tr.appendChild(td);
     });

@@ -29,6 +29,11 @@ export function describeVisit(r, model) {
   return t + ".";
 }
 
+const ESC = { "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" };
+function esc(s) {
+  return String(s).replace(/[&<>"']/g, (c) => ESC[c]);
+}
+
 export function clearTimeline() {
   const tl = $("timeline");
   tl.textContent = "";
@@ -44,12 +49,6 @@ export function drawTimeline(p, model) {
   const [t0, t1] = axisSpan(rows);
   const span = t1 - t0;
   const x = (t) => ((Math.max(t0, Math.min(t1, t)) - t0) / span) * 100;
-  const place = (node, a, b, minPct) => {
-    const left = x(a);
-    node.style.left = left + "%";
-    node.style.width = Math.max(minPct || 0, x(b) - left) + "%";
-    return node;
-  };
   const focused = document.activeElement && document.activeElement.closest && document.activeElement.closest("[data-row]");
   const focusRow = focused ? focused.dataset.row : null;
   const frag = document.createDocumentFragment();
@@ -67,37 +66,46 @@ export function drawTimeline(p, model) {
   axis.appendChild(tk);
   frag.appendChild(axis);
 
+  // Rows as one HTML string: at 500 visits this is several times faster
+  // than building the nodes one by one. Every text goes through esc().
+  // The page's policy allows no style attributes in markup: positions are
+  // collected here and set through the style object after parsing.
+  const spots = [];
+  const pos = (a, b, minPct) => {
+    const left = x(a);
+    spots.push(left + "%", Math.max(minPct || 0, x(b) - left) + "%");
+    return "data-p";
+  };
+  const html = [];
   let prevDep = null;
   for (const r of rows) {
     const v = r.v;
-    const row = el("div", "visit" + (r.ret ? " return" : "") + (v.lateness > 0 ? " is-late" : "") + (v.wait > 0 ? " has-wait" : ""));
-    row.setAttribute("role", "listitem");
-    row.tabIndex = 0;
-    row.dataset.row = String(r.order);
-    if (r.ret) row.dataset.return = v.id;
-    else row.dataset.visit = v.id;
-    const text = describeVisit(r, model);
-    row.setAttribute("aria-label", text);
-    row.dataset.detail = text;
-    if (dens !== "full") row.title = text;
-    const who = el("div", "who");
-    who.appendChild(el("span", "ord", r.ret ? "↩" : String(r.order)));
-    who.appendChild(el("span", "sid", v.id));
-    if (v.name && dens === "full") who.appendChild(el("span", "nm", v.name));
-    row.appendChild(who);
-    const track = el("div", "track");
+    const text = esc(describeVisit(r, model));
+    const cls = "visit" + (r.ret ? " return" : "") + (v.lateness > 0 ? " is-late" : "") + (v.wait > 0 ? " has-wait" : "");
+    let h = '<div class="' + cls + '" role="listitem" tabindex="0" data-row="' + r.order + '" ' + (r.ret ? "data-return" : "data-visit") + '="' + esc(v.id) +
+      '" aria-label="' + text + '"><div class="who"><span class="ord">' +
+      (r.ret ? "↩" : r.order) + '</span><span class="sid">' + esc(v.id) + "</span>" + (v.name && dens === "full" ? '<span class="nm">' + esc(v.name) + "</span>" : "") +
+      '</div><div class="track">';
     const open = isOpen(v.latest) || v.latest > t1;
-    track.appendChild(place(el("span", "band" + (open ? " open-end" : "")), isOpen(v.earliest) ? t0 : v.earliest, open ? t1 : v.latest, 0.4));
-    if (prevDep !== null && v.arrival > prevDep) track.appendChild(place(el("span", "drive"), prevDep, v.arrival, 0));
-    if (v.wait > 0) track.appendChild(place(el("span", "wait"), v.arrival, v.start, 0.3));
-    if (v.lateness > 0) track.appendChild(place(el("span", "late"), v.latest, v.start, 0.6));
-    if (r.ret) track.appendChild(place(el("span", "arrive"), v.arrival, v.arrival, 0.5));
-    else if (r.order > 0) track.appendChild(place(el("span", "service"), v.start, v.departure, 0.5));
-    else track.appendChild(place(el("span", "depart"), v.departure, v.departure, 0.5));
-    row.appendChild(track);
-    frag.appendChild(row);
+    h += '<span class="band' + (open ? " open-end" : "") + '" ' + pos(isOpen(v.earliest) ? t0 : v.earliest, open ? t1 : v.latest, 0.4) + "></span>";
+    if (prevDep !== null && v.arrival > prevDep) h += '<span class="drive" ' + pos(prevDep, v.arrival, 0) + "></span>";
+    if (v.wait > 0) h += '<span class="wait" ' + pos(v.arrival, v.start, 0.3) + "></span>";
+    if (v.lateness > 0) h += '<span class="late" ' + pos(v.latest, v.start, 0.6) + "></span>";
+    if (r.ret) h += '<span class="arrive" ' + pos(v.arrival, v.arrival, 0.5) + "></span>";
+    else if (r.order > 0) h += '<span class="service" ' + pos(v.start, v.departure, 0.5) + "></span>";
+    else h += '<span class="depart" ' + pos(v.departure, v.departure, 0.5) + "></span>";
+    html.push(h + "</div></div>");
     prevDep = v.departure;
   }
+  const body = document.createElement("template");
+  body.innerHTML = html.join("");
+  const marks = body.content.querySelectorAll("[data-p]");
+  for (let i = 0; i < marks.length; i++) {
+    const st = marks[i].style;
+    st.left = spots[2 * i];
+    st.width = spots[2 * i + 1];
+  }
+  frag.appendChild(body.content);
   tl.textContent = "";
   tl.className = "timeline rows-" + dens;
   tl.appendChild(frag);
@@ -106,8 +114,9 @@ export function drawTimeline(p, model) {
     const again = tl.querySelector('[data-row="' + focusRow + '"]');
     if (again) again.focus({ preventScroll: true });
   }
-  // How long the drawing took (with layout forced), for the browser tests
-  // to report.
+  // How long the drawing took, building the rows and then with the layout
+  // forced, for the browser tests to report.
+  tl.dataset.buildMs = String(Math.round((performance.now() - t00) * 10) / 10);
   void tl.offsetHeight;
   tl.dataset.drawMs = String(Math.round((performance.now() - t00) * 10) / 10);
 }
@@ -116,7 +125,7 @@ export function wireTimeline() {
   const tl = $("timeline");
   const show = (ev) => {
     const row = ev.target.closest && ev.target.closest(".visit");
-    if (row) $("visit-detail").textContent = row.dataset.detail;
+    if (row) $("visit-detail").textContent = row.getAttribute("aria-label");
   };
   tl.addEventListener("focusin", show);
   tl.addEventListener("mouseover", show);
