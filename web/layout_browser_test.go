@@ -232,7 +232,8 @@ func TestDefectTableFitsAtEveryWidthForEachExample(t *testing.T) {
 			}
 			name := strings.NewReplacer("/", "-", ".csv", "", ".txt", "").Replace(key)
 			if docs != "" {
-				eval[bool](t, ctx, `window.scrollTo(0, 0); true`)
+				// On a phone the day plan comes after the data: show it there.
+				eval[bool](t, ctx, `window.scrollTo(0, `+map[bool]string{true: `document.getElementById('plan-panel').getBoundingClientRect().top + scrollY`, false: "0"}[w < 900]+`); true`)
 				view(t, ctx, docs, fmt.Sprintf("page-%s-%d", name, w))
 			} else {
 				screenshot(t, ctx, fmt.Sprintf("layout-%s-%d", name, w))
@@ -263,7 +264,7 @@ func TestDefectTimelineAt200And500Visits(t *testing.T) {
 	if d := os.Getenv("VISITLINE_DOCS_SHOTS"); d != "" {
 		for _, w := range []int64{390, 1366, 1920} {
 			viewport(t, ctx, w, map[int64]int64{390: 844, 1366: 768, 1920: 1080}[w])
-			eval[bool](t, ctx, `window.scrollTo(0, 0); true`)
+			eval[bool](t, ctx, `window.scrollTo(0, `+map[bool]string{true: `document.getElementById('plan-panel').getBoundingClientRect().top + scrollY`, false: "0"}[w < 900]+`); true`)
 			view(t, ctx, d, fmt.Sprintf("page-200-visits-%d", w))
 		}
 		viewport(t, ctx, 1366, 768)

@@ -88,6 +88,7 @@ func Page(d PageData) g.Node {
 			h.Main(h.Class("layout"),
 				dataPanel(d.Examples),
 				planPanel(),
+				settingsPanel(),
 			),
 			cautions(),
 			h.NoScript(h.P(h.Class("noscript"), g.Text("This planner runs in your browser and needs JavaScript turned on."))),
@@ -183,6 +184,14 @@ func dataPanel(ex []Example) g.Node {
 		h.Div(h.ID("warnings"), testid("warnings"), h.Class("warnings"), h.Hidden("")),
 		h.Div(h.ID("summary"), testid("summary"), h.Class("summary"), h.Aria("live", "polite"),
 			h.P(h.Class("muted"), g.Text("No sites loaded yet."))),
+	)
+}
+
+// settingsPanel holds what changes how the data is read and searched, and
+// keeping and sharing. Beside the data on wide screens; after the day
+// plan on narrow ones.
+func settingsPanel() g.Node {
+	return h.Aside(h.Class("side settings"), h.ID("settings-panel"), h.Aria("label", "Settings, keeping and sharing"),
 		h.Details(h.ID("matrix-box"), h.Class("more"),
 			h.Summary(g.Text("Travel matrix")),
 			h.Div(h.Class("row"),

@@ -115,7 +115,7 @@ function applyData(d) {
   $("paste-input").value = d.text || "";
   $("matrix-input").value = d.matrix || "";
   state.matrixName = d.matrix_name || "";
-  if (d.matrix) $("matrix-box").open = true;
+  $("matrix-box").open = !!d.matrix;
   applyOptions(d.options);
 }
 
@@ -234,6 +234,7 @@ function onLoaded(s) {
     state.restorePlan = null;
     if (planFits(r.plan, s)) {
       showPlan(r);
+      drawNow();
       setStatus(r.from === "link"
         ? "Opened the shared plan of " + (s.name || state.data.name) + ". Press Start to search on from the same data."
         : "Back from this tab's kept session: " + (s.name || state.data.name) + " and its best plan. Press Start to search again.", "done");
@@ -385,17 +386,19 @@ function showPlan(m) {
 
 // drawSoon draws the best plan at the next frame: plans that arrive faster
 // than the page can draw them are skipped, not queued.
-let drawPending = false;
+// A timer, not an animation frame: frames do not come to a tab in the
+// background, and the plan must be there when the user comes back.
+let drawTimer = 0;
 function drawSoon() {
-  if (drawPending) return;
-  drawPending = true;
-  requestAnimationFrame(() => {
-    drawPending = false;
-    if (!state.plan) return;
-    drawTimeline(state.plan, state.model);
-    drawTable(state.plan, state.model);
-    chart();
-  });
+  if (!drawTimer) drawTimer = setTimeout(drawNow, 30);
+}
+function drawNow() {
+  clearTimeout(drawTimer);
+  drawTimer = 0;
+  if (!state.plan) return;
+  drawTimeline(state.plan, state.model);
+  drawTable(state.plan, state.model);
+  chart();
 }
 
 function chart() {
@@ -449,6 +452,7 @@ function onMixAck(m) {
 }
 
 function onFinished(m) {
+  drawNow();
   state.running = false;
   $("start").disabled = !state.summary;
   $("stop").disabled = true;
@@ -748,6 +752,14 @@ function wire() {
   $("cores").value = String(defaultCores(navigator.hardwareConcurrency));
   $("cores").max = String(MAX_CORES);
   wireTimeline();
+  // The axis' ticks follow the width: draw again when it changes.
+  let lastWidth = innerWidth;
+  window.addEventListener("resize", () => {
+    if (innerWidth !== lastWidth && state.plan) {
+      lastWidth = innerWidth;
+      drawSoon();
+    }
+  });
   showExampleAbout();
   chart();
   window.addEventListener("hashchange", () => {

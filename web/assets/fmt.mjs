@@ -73,12 +73,6 @@ function clockParts(v) {
   return { day: day, sec: total - day * 86400 };
 }
 
-// needsSeconds says whether any of the values has seconds, so that a
-// column uses one format for every cell.
-export function needsSeconds(values) {
-  return values.some((v) => !isOpen(v) && clockParts(v).sec % 60 !== 0);
-}
-
 // clockFormat keeps one formatter per locale and precision: making one
 // per call costs about a millisecond, too much for 500 visits.
 const formats = new Map();
@@ -104,7 +98,7 @@ export function clock(v, model, opts) {
     const x = Math.round(v * 100) / 100;
     return x.toLocaleString(opts.locale, { useGrouping: false, maximumFractionDigits: 2 });
   }
-  const { day, sec } = clockParts(v);
+  const { day, sec } = clockParts(opts.seconds ? v : Math.round(v));
   let t = clockFormat(opts.locale, !!opts.seconds).format(Date.UTC(2000, 0, 1) + sec * 1000);
   if (day) t += " +" + day + " d";
   return t;

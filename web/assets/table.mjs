@@ -2,7 +2,7 @@
 // whole minutes or H:MM, the day once in the caption.
 
 import { $ } from "./dom.mjs";
-import { isOpen, clock, duration, needsSeconds, dayHeading } from "./fmt.mjs";
+import { isOpen, clock, duration, dayHeading } from "./fmt.mjs";
 import { planRows } from "./axis.mjs";
 
 // COLS are the columns' classes (page.go gives the headers the same).
@@ -20,10 +20,9 @@ export function drawTable(p, model) {
   const day = dayHeading(model);
   $("table-day").textContent = (day ? day + " · " : "") + (model.clock ? "times of day" : "times in the file's units") +
     ", waits and slack in " + (model.minutes ? "minutes (H:MM from an hour)" : "the file's units");
-  const sec = {};
-  for (const k of ["arrival", "start", "departure"]) sec[k] = needsSeconds(rows.map((r) => r.v[k]));
-  sec.window = needsSeconds(rows.flatMap((r) => [r.v.earliest, r.v.latest]));
-  const c = (v, k) => clock(v, model, { seconds: sec[k] });
+  // Every clock in whole minutes, one format for all (the exports keep
+  // the exact times).
+  const c = (v) => clock(v, model);
   const frag = document.createDocumentFragment();
   for (const r of rows) {
     const v = r.v;

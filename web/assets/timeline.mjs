@@ -58,7 +58,9 @@ export function drawTimeline(p, model) {
   axis.setAttribute("aria-hidden", "true");
   axis.appendChild(el("div", "who", "stop · site"));
   const tk = el("div", "track ticks");
-  for (const t of ticks(t0, t1, model.clock)) {
+  // About one tick per 80 px of track, so that the labels never overlap.
+  const trackPx = Math.max(120, (tl.clientWidth || 800) - (dens === "full" ? 180 : 110));
+  for (const t of ticks(t0, t1, model.clock, Math.max(2, Math.min(8, Math.floor(trackPx / 80))))) {
     const s = el("span", "tick", clock(t, model));
     s.style.left = x(t) + "%";
     tk.appendChild(s);

@@ -1,7 +1,7 @@
 // Unit tests of the page's pure modules: node --test web/jstest/
 import test from "node:test";
 import assert from "node:assert/strict";
-import { isOpen, duration, longDuration, clock, needsSeconds, boundWords, costWords, timeModel } from "../assets/fmt.mjs";
+import { isOpen, duration, longDuration, clock, boundWords, costWords, timeModel } from "../assets/fmt.mjs";
 
 const min = timeModel({ unit: "min", times: "clock" });
 const plain = timeModel({});
@@ -31,8 +31,6 @@ test("clock times: one format per column, later days marked", () => {
   assert.equal(clock(275, min, { locale: "en-GB" }), "04:35");
   assert.equal(clock(275.5, min, { locale: "en-GB", seconds: true }), "04:35:30");
   assert.equal(clock(1440 + 60, min, { locale: "en-GB" }), "01:00 +1 d");
-  assert.equal(needsSeconds([275, 300]), false);
-  assert.equal(needsSeconds([275, 300.5]), true);
   assert.equal(clock(1234.5, plain), "1234.5");
 });
 
