@@ -302,3 +302,47 @@ func TestDefectShareLinkOpensWithThePlanDrawn(t *testing.T) {
 	assert.Contains(t, eval[string](t, other, `document.querySelector('[data-testid=status]').textContent`), "shared plan")
 	assert.NotEqual(t, "running", eval[string](t, other, `document.body.dataset.run || ""`), "nothing was started")
 }
+
+// TestThousandSites drives a generated 1,000-site day through the page
+// once: read, search, draw, and how long the page's own event loop is
+// held up while it runs (a timer's lateness). Reported, not asserted;
+// VISITLINE_BIG=FILE runs it (make one with visitline gen --n 1000).
+func TestThousandSites(t *testing.T) {
+	file := os.Getenv("VISITLINE_BIG")
+	if file == "" {
+		t.Skip("set VISITLINE_BIG to a generated 1,000-site file")
+	}
+	text, err := os.ReadFile(file)
+	require.NoError(t, err)
+	ctx, _ := tab(t)
+	viewport(t, ctx, 1366, 768)
+	openPage(t, ctx, "")
+	p := filepath.Join(t.TempDir(), "n1000.txt")
+	require.NoError(t, os.WriteFile(p, text, 0o644))
+	t0 := time.Now()
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetUploadFiles(byTestID("file-input"), []string{p})))
+	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled || !document.querySelector('[data-testid=errors]').hidden`, 120*time.Second)
+	t.Logf("1,000 sites (%d bytes) read in %.1f s", len(text), time.Since(t0).Seconds())
+	t0 = time.Now()
+	setField(t, ctx, "budget", "10")
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("start"))))
+	waitFor(t, ctx, `document.querySelectorAll('[data-testid=timeline] [data-visit]').length === 1000`, 120*time.Second)
+	t.Logf("first plan drawn %.1f s after Start", time.Since(t0).Seconds())
+	// How long the page takes to answer while the search runs: a round
+	// trip of a trivial script, every 200 ms.
+	var worst time.Duration
+	for eval[string](t, ctx, `document.body.dataset.run || ""`) == "running" {
+		t1 := time.Now()
+		eval[bool](t, ctx, `true`)
+		worst = max(worst, time.Since(t1))
+		time.Sleep(200 * time.Millisecond)
+	}
+	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 180*time.Second)
+	t.Logf("finished %.1f s after Start (budget 10 s): %s; last drawing %s ms; slowest answer of the page while searching %d ms; load average %s",
+		time.Since(t0).Seconds(), eval[string](t, ctx, `document.querySelector('[data-testid=status]').textContent`),
+		eval[string](t, ctx, `document.querySelector('[data-testid=timeline]').dataset.drawMs`), worst.Milliseconds(), loadAverage())
+	h := eval[float64](t, ctx, `document.querySelector('[data-testid=timeline]').getBoundingClientRect().height`)
+	t.Logf("timeline %.0f px tall, rows built in %s ms; table drawn in %s ms; page %d px", h, eval[string](t, ctx, `document.querySelector('[data-testid=timeline]').dataset.buildMs`),
+		eval[string](t, ctx, `document.querySelector('[data-testid=plan-table]').dataset.drawMs`), eval[int](t, ctx, `document.documentElement.scrollHeight`))
+	view(t, ctx, "testout", "layout-1000-sites")
+}

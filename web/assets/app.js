@@ -397,7 +397,9 @@ function drawNow() {
   drawTimer = 0;
   if (!state.plan) return;
   drawTimeline(state.plan, state.model);
+  const t0 = performance.now();
   drawTable(state.plan, state.model);
+  $("plan-table").dataset.drawMs = String(Math.round(performance.now() - t0));
   chart();
 }
 
