@@ -6,13 +6,17 @@ BENCH_DIR ?= ../shared/benchmarks/tsptw
 BENCH_BUDGETS ?= --budget 10s --budget-for OhlmannThomas=30s
 BENCH_FLAGS = --workers 1 --bounds $(BENCH_DIR)/best-known.csv
 
-.PHONY: all build wasm-cli test bench bench-kernels bench-quick bench-scale bench-wasm bench-workers pgo bound-report demo demo-cli vet fmt site clean
+.PHONY: all build lab wasm-cli test bench bench-kernels bench-quick bench-scale bench-wasm bench-workers pgo bound-report demo demo-cli vet fmt site clean
 PORT ?= 8080
 
 all: build
 
 build:
 	$(GO) build -o bin/visitline ./cmd/visitline
+
+# The measurement lab (bench, scale, wasm-speed), a command of its own.
+lab:
+	$(GO) build -o bin/visitline-lab ./cmd/visitline-lab
 
 test:
 	$(GO) vet ./...
@@ -22,28 +26,28 @@ test:
 # The full run takes about 80 minutes on one core: it writes
 # docs/bench-results.json after every instance, the README's results table and
 # docs/bench-chart.svg at the end.
-bench: build bench-kernels
-	./bin/visitline bench $(BENCH_BUDGETS) $(BENCH_FLAGS) --quiet --json docs/bench-results.json --readme README.md --chart docs/bench-chart.svg $(BENCH_DIR)
+bench: lab bench-kernels
+	./bin/visitline-lab bench $(BENCH_BUDGETS) $(BENCH_FLAGS) --quiet --json docs/bench-results.json --readme docs/results.md --chart docs/bench-chart.svg $(BENCH_DIR)
 
 bench-kernels:
 	$(GO) test -run '^$$' -bench . -benchmem -benchtime 3x ./solver/...
 
 # A few minutes, for development: 1 s per instance, nothing in the README.
-bench-quick: build
-	./bin/visitline bench --budget 1s $(BENCH_FLAGS) --quiet --json bench-quick.json --chart bench-quick.svg $(BENCH_DIR)
+bench-quick: lab
+	./bin/visitline-lab bench --budget 1s $(BENCH_FLAGS) --quiet --json bench-quick.json --chart bench-quick.svg $(BENCH_DIR)
 
-# The command line built for js/wasm, run under Node.js by the wasm targets.
+# The lab built for js/wasm, run under Node.js by the wasm targets.
 WASM_EXEC ?= node $(shell $(GO) env GOROOT)/lib/wasm/wasm_exec_node.js
 wasm-cli:
-	GOOS=js GOARCH=wasm $(GO) build -o bin/visitline.wasm ./cmd/visitline
+	GOOS=js GOARCH=wasm $(GO) build -o bin/visitline-lab.wasm ./cmd/visitline-lab
 
 # Generated instances of 100 to 2,000 sites at four window tightness levels,
 # each case in a fresh process (peak memory of its own). Budgets in CPU time
 # so that a shared machine does not shorten them; about 10 minutes on an
 # idle machine.
 SCALE_BUDGET ?= 30s
-bench-scale: build
-	./bin/visitline scale --cpu-budget --budget $(SCALE_BUDGET) --json scale-results.json --readme README.md --chart docs/scale-chart.svg
+bench-scale: lab
+	./bin/visitline-lab scale --cpu-budget --budget $(SCALE_BUDGET) --json scale-results.json --readme docs/results.md --chart docs/scale-chart.svg
 
 # WebAssembly against native: the same seed and iteration budgets on both
 # sides, then scale rows run in Node.js.
@@ -56,9 +60,9 @@ bin/gen/n300-tight.txt: build
 bin/gen/n1000-tight.txt: build
 	mkdir -p bin/gen && ./bin/visitline gen --n 1000 --tightness tight --seed 1 > $@
 WASM_SCALE_BUDGET ?= 30s
-bench-wasm: build wasm-cli bin/gen/n300-tight.txt bin/gen/n1000-tight.txt
-	./bin/visitline wasm-speed --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --iterations 1000 --repeats 3 --json wasm-speed.json --readme README.md $(SPEED_FILES)
-	./bin/visitline scale --wasm bin/visitline.wasm --runner "$(WASM_EXEC)" --cpu-budget --budget $(WASM_SCALE_BUDGET) --sizes 100,300,1000 --json scale-wasm.json --readme README.md --section scale-wasm
+bench-wasm: lab wasm-cli bin/gen/n300-tight.txt bin/gen/n1000-tight.txt
+	./bin/visitline-lab wasm-speed --wasm bin/visitline-lab.wasm --runner "$(WASM_EXEC)" --iterations 1000 --repeats 3 --json wasm-speed.json --readme docs/results.md $(SPEED_FILES)
+	./bin/visitline-lab scale --wasm bin/visitline-lab.wasm --runner "$(WASM_EXEC)" --cpu-budget --budget $(WASM_SCALE_BUDGET) --sizes 100,300,1000 --json scale-wasm.json --readme docs/results.md --section scale-wasm
 
 # Time to the best-known value with two workers against one, five seeds,
 # on instances that take one worker over a second of CPU time to reach it
@@ -69,19 +73,20 @@ WORKER_FILES ?= $(OT)/n150w120.002.txt $(OT)/n150w120.004.txt $(OT)/n150w120.005
 	$(OT)/n150w140.005.txt $(OT)/n150w160.003.txt $(OT)/n200w120.005.txt $(OT)/n200w140.005.txt \
 	$(BENCH_DIR)/GendreauDumasExtended/n100w120.004.txt
 WORKER_FLAGS = --seeds 5 --cpu-budget --stop-at-best --quiet --bounds $(BENCH_DIR)/best-known.csv
-bench-workers: build
-	./bin/visitline bench --workers 1 --budget 20s $(WORKER_FLAGS) --json workers-1.json $(WORKER_FILES)
-	./bin/visitline bench --workers 2 --budget 40s $(WORKER_FLAGS) --json workers-2.json $(WORKER_FILES)
-	./bin/visitline bench --from workers-2.json --baseline workers-1.json --readme README.md
+bench-workers: lab
+	./bin/visitline-lab bench --workers 1 --budget 20s $(WORKER_FLAGS) --json workers-1.json $(WORKER_FILES)
+	./bin/visitline-lab bench --workers 2 --budget 40s $(WORKER_FLAGS) --json workers-2.json $(WORKER_FILES)
+	./bin/visitline-lab bench --from workers-2.json --baseline workers-1.json --readme docs/results.md
 
 # A CPU profile of fixed-iteration runs on a few instances of each kind,
-# for a profile-guided build (go build uses cmd/visitline/default.pgo when
-# it is there). Measured on a shared machine: about 10-30 % less CPU per
+# for a profile-guided build (go build uses the main package's default.pgo
+# when it is there: the profile goes to both commands). Measured on a shared machine: about 10-30 % less CPU per
 # iteration, native and wasm alike; see the README's WebAssembly part.
 PGO_FILES ?= $(BENCH_DIR)/Dumas/n100w40.001.txt $(BENCH_DIR)/GendreauDumasExtended/n100w100.001.txt \
 	$(BENCH_DIR)/OhlmannThomas/n200w120.001.txt $(BENCH_DIR)/SolomonPesant/rc208.2 bin/gen/n300-tight.txt
-pgo: build bin/gen/n300-tight.txt
-	./bin/visitline bench --budget 0 --iterations 1500 --quiet --cpuprofile cmd/visitline/default.pgo $(PGO_FILES)
+pgo: lab bin/gen/n300-tight.txt
+	./bin/visitline-lab bench --budget 0 --iterations 1500 --quiet --cpuprofile cmd/visitline/default.pgo $(PGO_FILES)
+	cp cmd/visitline/default.pgo cmd/visitline-lab/default.pgo
 
 bound-report:
 	VISITLINE_BOUND_REPORT=Dumas,GendreauDumasExtended VISITLINE_BOUND_BUDGET=10s GOMAXPROCS=1 $(GO) test -count=1 -timeout 0 -run TestBoundReport -v ./solver/bound

@@ -1,7 +1,5 @@
 package solver
 
-import "math"
-
 // exactSlice re-optimises the order of the freed visits s.removed exactly,
 // between the fixed parts of x where they were cut out (position a is where
 // the slice began in x.r before removal). Depth-first search with window
@@ -114,5 +112,3 @@ func joinAll(m *model, s seg, vs []int32, last int32) seg {
 	}
 	return s
 }
-
-var _ = math.Inf

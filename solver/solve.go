@@ -2,7 +2,6 @@ package solver
 
 import (
 	"context"
-	"math"
 	"runtime"
 	"sync"
 	"time"
@@ -310,5 +309,3 @@ func (e *engine) sharedBest(tw, cost int64) []int32 {
 	}
 	return append([]int32(nil), e.bestRoute...)
 }
-
-var _ = math.Inf

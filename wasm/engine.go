@@ -75,7 +75,7 @@ func (e *Engine) Ready() {
 func (e *Engine) Handle(raw string) {
 	var m inbound
 	if err := json.Unmarshal([]byte(raw), &m); err != nil {
-		e.fail("message is not valid JSON: %v", err)
+		e.fail("message is not valid JSON: %s", format.JSONError(err))
 		return
 	}
 	switch m.Type {

@@ -14,13 +14,13 @@ import (
 	"embed"
 	"fmt"
 	"io/fs"
+	"maps"
 	"mime"
 	"net/http"
 	"os"
 	"os/exec"
 	"path"
 	"path/filepath"
-	"sort"
 	"strings"
 
 	"visitline/examples"
@@ -41,9 +41,9 @@ type Options struct {
 	Examples fs.FS
 }
 
-// Example is one invented scenario the page offers: a sites file (or a
-// benchmark matrix file), an optional travel matrix, and the options the
-// scenario's README runs it with.
+// Example is one invented scenario the page offers, as examples.List
+// names it: a sites file (or a benchmark matrix file), an optional travel
+// matrix, and its route options, with the files' text.
 type Example struct {
 	// Key is the data file's path inside the examples, e.g.
 	// "bakery/sites.csv"; the page's ?example= takes the folder name or
@@ -57,129 +57,33 @@ type Example struct {
 	Options    map[string]string `json:"options,omitempty"`
 }
 
-// exampleFlags are the flags of `visitline solve` an example may carry,
-// by the page's option names.
-var exampleFlags = map[string]string{"--end": "end", "--start": "start", "--speed": "speed", "--road-factor": "road_factor",
-	"--shift-start": "shift_start", "--matrix-unit": "matrix_unit", "--done": "done", "--now": "now"}
-
-// ListExamples reads every scenario. A folder whose README shows
-// `visitline solve` command lines gives one example per line (its sites
-// file, --matrix and route flags; lines with --format are skipped as
-// repeats); a folder without them gives one example per data file.
+// ListExamples reads the data of every demo of examples.List from fsys
+// (nil: the embedded examples.FS). The list is the examples package's
+// manifest; the scenarios' READMEs are for people and are not read.
 func ListExamples(fsys fs.FS) ([]Example, error) {
 	if fsys == nil {
 		fsys = examples.FS
 	}
-	dirs, err := fs.ReadDir(fsys, ".")
-	if err != nil {
-		return nil, err
-	}
-	var out []Example
-	for _, d := range dirs {
-		if !d.IsDir() {
-			continue
+	out := make([]Example, 0, len(examples.List))
+	for _, e := range examples.List {
+		text, err := fs.ReadFile(fsys, e.Key)
+		if err != nil {
+			return nil, fmt.Errorf("example %s: %w", e.Key, err)
 		}
-		dir := d.Name()
-		title, about, runs := readme(fsys, dir)
-		read := func(name string) (string, bool) {
-			b, err := fs.ReadFile(fsys, dir+"/"+name)
-			return string(b), err == nil
-		}
-		var list []Example
-		for _, args := range runs {
-			ex := Example{Options: map[string]string{}}
-			ok := true
-			for i := 0; i < len(args); i++ {
-				a := args[i]
-				switch {
-				case a == "--matrix" && i+1 < len(args):
-					i++
-					ex.MatrixName = path.Base(args[i])
-					if ex.Matrix, ok = read(ex.MatrixName); !ok {
-						break
-					}
-				case exampleFlags[a] != "" && i+1 < len(args):
-					i++
-					ex.Options[exampleFlags[a]] = args[i]
-				case strings.HasPrefix(a, "--"):
-					ok = false // a flag the page does not offer (--format, --date): not an example of its own
-				default:
-					ex.Key = dir + "/" + path.Base(a)
-					ex.Text, ok = read(path.Base(a))
-				}
-				if !ok {
-					break
-				}
-			}
-			if ok && ex.Key != "" {
-				list = append(list, ex)
-			}
-		}
-		if len(list) == 0 {
-			files, err := fs.ReadDir(fsys, dir)
+		ex := Example{Key: e.Key, Title: e.Title, About: e.About, Text: string(text), MatrixName: e.Matrix}
+		if e.Matrix != "" {
+			m, err := fs.ReadFile(fsys, path.Dir(e.Key)+"/"+e.Matrix)
 			if err != nil {
-				return nil, err
+				return nil, fmt.Errorf("example %s: matrix: %w", e.Key, err)
 			}
-			for _, f := range files {
-				ext := strings.ToLower(path.Ext(f.Name()))
-				if f.IsDir() || (ext != ".txt" && ext != ".csv" && ext != ".tsv") {
-					continue
-				}
-				text, _ := read(f.Name())
-				list = append(list, Example{Key: dir + "/" + f.Name(), Text: text})
-			}
+			ex.Matrix = string(m)
 		}
-		for i := range list {
-			list[i].Title, list[i].About = title, about
-			if len(list) > 1 {
-				list[i].Title = title + " · " + path.Base(list[i].Key)
-			}
-			if len(list[i].Options) == 0 {
-				list[i].Options = nil
-			}
+		if len(e.Options) > 0 {
+			ex.Options = maps.Clone(e.Options)
 		}
-		out = append(out, list...)
+		out = append(out, ex)
 	}
-	sort.SliceStable(out, func(i, j int) bool { return out[i].Key < out[j].Key })
 	return out, nil
-}
-
-// readme gives a scenario's title (the first heading, without a trailing
-// "(invented)"), its first paragraph, and the arguments of each
-// `visitline solve` line of its code blocks.
-func readme(fsys fs.FS, dir string) (title, about string, runs [][]string) {
-	title = dir
-	b, err := fs.ReadFile(fsys, dir+"/README.md")
-	if err != nil {
-		return title, "", nil
-	}
-	var para []string
-	done, code := false, false
-	for _, line := range strings.Split(string(b), "\n") {
-		line = strings.TrimSpace(line)
-		switch {
-		case strings.HasPrefix(line, "```"):
-			code = !code
-		case code:
-			if rest, ok := strings.CutPrefix(line, "visitline solve "); ok {
-				if i := strings.Index(rest, ">"); i >= 0 {
-					rest = rest[:i]
-				}
-				runs = append(runs, strings.Fields(rest))
-			}
-		case strings.HasPrefix(line, "#"):
-			if title == dir {
-				title = strings.TrimSpace(strings.TrimSuffix(strings.TrimSpace(strings.TrimLeft(line, "# ")), "(invented)"))
-			}
-		case line == "":
-			if len(para) > 0 {
-				done = true
-			}
-		case !done:
-			para = append(para, strings.ReplaceAll(line, "`", ""))
-		}
-	}
-	return title, strings.Join(para, " "), runs
 }
 
 func asset(name string) []byte {

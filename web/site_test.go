@@ -12,6 +12,7 @@ import (
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
+	"visitline/examples"
 	"visitline/solver"
 )
 
@@ -73,26 +74,35 @@ func TestSingleFilePolicyHashesItsInlineParts(t *testing.T) {
 	assert.True(t, strings.Contains(page, `id="engine-base64"`))
 }
 
+// TestExamplesListed: the page's examples are examples.List with the text
+// of their files, in the manifest's order.
 func TestExamplesListed(t *testing.T) {
 	ex, err := ListExamples(nil)
 	require.NoError(t, err)
+	require.Len(t, ex, len(examples.List))
+	for i, e := range ex {
+		assert.Equal(t, examples.List[i].Key, e.Key)
+		assert.NotEmpty(t, e.Text, e.Key)
+	}
 	byKey := map[string]Example{}
 	for _, e := range ex {
 		byKey[e.Key] = e
-		assert.NotContains(t, e.About, "`")
-		assert.NotEmpty(t, e.Text, e.Key)
 	}
 	require.Contains(t, byKey, "warehouse/picks.txt")
 	assert.Equal(t, "Warehouse picks", byKey["warehouse/picks.txt"].Title)
-	// From the README's command lines: the matrix and the route options.
+	assert.True(t, strings.HasPrefix(byKey["warehouse/picks.txt"].Text, "# "), "the file's own text")
 	art := byKey["art/sites.csv"]
 	assert.Equal(t, "travel.tsv", art.MatrixName)
-	assert.NotEmpty(t, art.Matrix)
+	assert.True(t, strings.HasPrefix(art.Matrix, "minutes\tSOUTH"), "the matrix file's text")
 	assert.Equal(t, map[string]string{"end": "SOUTH"}, art.Options)
 	assert.Equal(t, "travel.csv", byKey["bakery/sites.csv"].MatrixName)
-	assert.Contains(t, byKey, "boiler/sites-overbooked.csv")
 	assert.Equal(t, "", byKey["boiler/sites.csv"].MatrixName)
-	assert.Len(t, ex, 5)
+	assert.Nil(t, byKey["boiler/sites.csv"].Options)
+}
+
+func TestExamplesFromAnotherFolder(t *testing.T) {
+	_, err := ListExamples(fstest.MapFS{"bakery/sites.csv": {Data: []byte("id\n")}})
+	assert.ErrorContains(t, err, "example art/sites.csv")
 }
 
 func TestBundleRewritesModules(t *testing.T) {

@@ -11,13 +11,16 @@ import (
 	"visitline/solver/format"
 )
 
+// maxMismatches bounds the differences check lists.
+const maxMismatches = 12
+
 func runCheck(args []string, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("check", flag.ContinueOnError)
 	fs.SetOutput(stderr)
 	var lf loadFlags
 	lf.register(fs)
 	fs.Usage = func() {
-		fmt.Fprintln(stderr, "usage: visitline check [flags] SITES.csv|BENCHMARK.txt PLAN.json\n(give the flags the plan was solved with)")
+		fmt.Fprintln(stderr, "usage: visitline check [flags] SITES.csv|BENCHMARK.txt PLAN.json\n(the plan's --start and --end are read from its JSON; give the other flags it was solved with)")
 		fs.PrintDefaults()
 	}
 	args, err := parseArgs(fs, args)
@@ -25,10 +28,48 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		if errors.Is(err, flag.ErrHelp) {
 			return nil
 		}
-		return usageError{err.Error()}
+		return err
 	}
 	if len(args) != 2 {
 		return usageError{"usage: visitline check [flags] FILE PLAN.json"}
+	}
+	if err := lf.validate(); err != nil {
+		return err
+	}
+	fh, err := os.Open(args[1])
+	if err != nil {
+		return fmt.Errorf("%s: cannot open: %w", args[1], unwrapPath(err))
+	}
+	claims, err := format.ReadClaims(fh, args[1])
+	fh.Close()
+	if err != nil {
+		return err
+	}
+	// The route's start and end come from the plan unless given; given
+	// ones that differ from the plan's are a different question, refused.
+	for _, o := range []struct {
+		flag  string
+		value *string
+		plan  string
+	}{{"start", &lf.start, claims.RouteStart}, {"end", &lf.end, claims.RouteEnd}} {
+		if o.plan == "" || len(claims.Done) > 0 {
+			continue
+		}
+		if !isSet(fs, o.flag) {
+			*o.value = o.plan
+			continue
+		}
+		if *o.value != o.plan && !(o.flag == "end" && (*o.value == "" || *o.value == "start") && o.plan == "start") {
+			what := fmt.Sprintf("--%s %s", o.flag, *o.value)
+			if o.flag == "end" {
+				fmt.Fprintf(stdout, "%s: refused: the plan is %s (solved with --end %s), but check was asked for %s (%s); leave --end out to check the plan as it was solved\n",
+					args[1], format.DescribeEnd(o.plan), format.Printable(o.plan), format.DescribeEnd(*o.value), what)
+			} else {
+				fmt.Fprintf(stdout, "%s: refused: the plan starts at %s, but check was given %s; leave --start out to check the plan as it was solved\n",
+					args[1], format.Printable(o.plan), format.Printable(what))
+			}
+			return errSilent
+		}
 	}
 	opt, err := lf.options()
 	if err != nil {
@@ -39,20 +80,29 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	in := d.Instance
-	fh, err := os.Open(args[1])
-	if err != nil {
-		return fmt.Errorf("%s: cannot open: %w", args[1], unwrapPath(err))
-	}
-	defer fh.Close()
-	route, err := format.ReadPlanRouteFor(fh, args[1], in)
-	if err != nil {
-		return err
-	}
-	if err := solver.CheckRoute(in, route); err != nil {
-		fmt.Fprintf(stdout, "%s: not a valid route: %v\n", args[1], err)
+	if err := claimedIDs(claims, d); err != nil {
+		fmt.Fprintf(stdout, "%s: refused: %s\n", args[1], err)
 		return errSilent
 	}
-	s := solver.Evaluate(in, route)
+	if probs := d.RouteProblems(claims.Route); len(probs) > 0 {
+		fmt.Fprintf(stdout, "%s: not a valid route:\n", args[1])
+		for _, p := range probs {
+			fmt.Fprintf(stdout, "  %s\n", p)
+		}
+		return errSilent
+	}
+	s := solver.Evaluate(in, claims.Route)
+	if ms := d.CompareClaims(claims, s); len(ms) > 0 {
+		fmt.Fprintf(stdout, "%s: refused: %d figures of the plan differ from the ones recomputed from the data and the route:\n", args[1], len(ms))
+		for k, m := range ms {
+			if k == maxMismatches {
+				fmt.Fprintf(stdout, "  ... and %d more\n", len(ms)-maxMismatches)
+				break
+			}
+			fmt.Fprintf(stdout, "  %s\n", m)
+		}
+		return errSilent
+	}
 	if s.Feasible {
 		fmt.Fprintf(stdout, "%s: feasible; travel %s, completion %s\n", args[1], d.FormatDuration(s.Travel), d.FormatTime(s.Completion))
 		return nil
@@ -64,12 +114,32 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 	}
 	for k, v := range all {
 		if v.Lateness > 0 {
-			what := fmt.Sprintf("visit %d (%s)", k, in.ID(v.Node))
+			what := fmt.Sprintf("visit %d (%s)", k, format.Printable(in.ID(v.Node)))
 			if k == len(s.Visits) {
-				what = "the return to " + in.ID(v.Node)
+				what = "the return to " + format.Printable(in.ID(v.Node))
 			}
 			fmt.Fprintf(stdout, "  %s starts at %s, after its latest %s, late by %s\n", what, d.FormatTime(v.Start), d.FormatTime(in.Late[v.Node]), d.FormatDuration(v.Lateness))
 		}
 	}
 	return errSilent
+}
+
+// claimedIDs checks that the plan's route_ids name the data's sites at
+// the same places: a plan made from other data, or with other options
+// (--done), is refused.
+func claimedIDs(c *format.Claims, d *format.Dataset) error {
+	in := d.Instance
+	if c.RouteIDs == nil {
+		return nil
+	}
+	if len(c.RouteIDs) != len(c.Route) {
+		return fmt.Errorf("route_ids has %d ids but route has %d nodes", len(c.RouteIDs), len(c.Route))
+	}
+	for k, v := range c.Route {
+		if v >= 0 && v < in.N && in.ID(v) != c.RouteIDs[k] {
+			return fmt.Errorf("route_ids: place %d is node %d, which is %s here, but the plan says %s: was the plan made from other data or other options (--done)?",
+				k, v, format.Printable(in.ID(v)), format.Printable(c.RouteIDs[k]))
+		}
+	}
+	return nil
 }

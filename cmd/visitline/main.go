@@ -1,13 +1,18 @@
-// Command visitline sequences one vehicle's visits to sites with time
-// windows: solve an instance, check a plan, benchmark the engine, serve the
-// page. It parses flags and prints; the work is done in solver/... .
+// Command visitline orders one vehicle's visits to sites with time
+// windows: solve a day, check a plan against it, serve the planner page,
+// write the static page, or write an invented day of any size. It parses
+// flags and prints; the work is done in solver/... and web. (The
+// measurement lab is a command of its own, visitline-lab.)
 package main
 
 import (
+	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"os"
+	"strconv"
+	"strings"
 )
 
 const usage = `visitline: order one vehicle's visits to sites with time windows
@@ -15,12 +20,8 @@ const usage = `visitline: order one vehicle's visits to sites with time windows
 usage:
   visitline solve [flags] FILE         find a plan (visitline solve -h for flags)
   visitline check FILE PLAN.json       validate a plan against an instance
-  visitline bench [flags] FILES_OR_DIRS...
-                                       run the engine on benchmark instances
   visitline serve [flags]              serve the planner page on 127.0.0.1
   visitline gen [flags] > FILE         write an invented, feasible instance of any size
-  visitline scale [flags]              measure the engine on generated instances of growing size
-  visitline wasm-speed [flags] FILES   compare the WebAssembly build's iteration rate with this one's
   visitline site [--engine F] DIR      write the static page into DIR
 `
 
@@ -41,14 +42,8 @@ func run(args []string, stdout, stderr io.Writer) int {
 		err = runSolve(args[1:], stdout, stderr)
 	case "check":
 		err = runCheck(args[1:], stdout, stderr)
-	case "bench":
-		err = runBench(args[1:], stdout, stderr)
 	case "gen":
 		err = runGen(args[1:], stdout, stderr)
-	case "scale":
-		err = runScale(args[1:], stdout, stderr)
-	case "wasm-speed":
-		err = runSpeed(args[1:], stdout, stderr)
 	case "serve":
 		err = runServe(args[1:], stdout, stderr)
 	case "site":
@@ -56,6 +51,9 @@ func run(args []string, stdout, stderr io.Writer) int {
 	case "-h", "--help", "help":
 		fmt.Fprint(stdout, usage)
 		return 0
+	case "bench", "scale", "wasm-speed":
+		fmt.Fprintf(stderr, "visitline: %s is a command of the measurement lab: visitline-lab %s (make lab builds bin/visitline-lab)\n", args[0], args[0])
+		return 2
 	default:
 		fmt.Fprintf(stderr, "visitline: unknown command %q\n%s", args[0], usage)
 		return 2
@@ -85,11 +83,23 @@ var errSilent = fmt.Errorf("failed")
 // ("solve sites.csv --matrix t.csv" as well as "solve --matrix t.csv
 // sites.csv") and returns the positional arguments. After "--" every
 // argument is positional.
+//
+// A bad flag value is returned as a usageError naming the flag, the value
+// and what is wanted, without the whole usage text; -h prints the usage.
 func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 	var pos []string
+	out, usage := fs.Output(), fs.Usage
+	fs.SetOutput(io.Discard)
+	fs.Usage = func() {}
+	defer func() { fs.SetOutput(out); fs.Usage = usage }()
 	for {
 		if err := fs.Parse(args); err != nil {
-			return nil, err
+			if errors.Is(err, flag.ErrHelp) {
+				fs.SetOutput(out)
+				usage()
+				return nil, err
+			}
+			return nil, flagError(fs, err)
 		}
 		rest := fs.Args()
 		if len(rest) == 0 {
@@ -101,4 +111,44 @@ func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 		pos = append(pos, rest[0])
 		args = rest[1:]
 	}
+}
+
+// flagError rewrites the flag package's error for a bad value ("invalid
+// value "-1" for flag -budget: parse error") as "--budget -1: want ...".
+func flagError(fs *flag.FlagSet, err error) error {
+	msg := err.Error()
+	const pre = "invalid value "
+	if !strings.HasPrefix(msg, pre) {
+		return usageError{msg + " (see visitline " + fs.Name() + " -h)"}
+	}
+	rest := msg[len(pre):]
+	value, err2 := strconv.QuotedPrefix(rest)
+	if err2 != nil {
+		return usageError{msg}
+	}
+	rest = strings.TrimPrefix(rest[len(value):], " for flag -")
+	name, cause, _ := strings.Cut(rest, ": ")
+	value, _ = strconv.Unquote(value)
+	if cause == "parse error" || cause == "value out of range" {
+		cause = "want " + kindOf(fs.Lookup(name))
+	}
+	return usageError{fmt.Sprintf("--%s %s: %s", name, value, cause)}
+}
+
+// kindOf says what a flag takes, from its default value.
+func kindOf(f *flag.Flag) string {
+	if f == nil {
+		return "a valid value"
+	}
+	switch fmt.Sprintf("%T", f.Value) {
+	case "*flag.intValue", "*flag.int64Value", "*flag.uintValue", "*flag.uint64Value":
+		return "a whole number"
+	case "*flag.float64Value":
+		return "a number such as 50 or 1.3"
+	case "*flag.boolValue":
+		return "true or false"
+	case "*flag.durationValue":
+		return "a time such as 10s or 2m"
+	}
+	return "a valid value"
 }

@@ -6,6 +6,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"io/fs"
 	"net"
 	"net/http"
 	"net/url"
@@ -19,63 +20,73 @@ import (
 	"visitline/web"
 )
 
+// serveConfig is what serve needs, read from its flags.
+type serveConfig struct {
+	site    fs.FS
+	port    int
+	example string
+}
+
 func runServe(args []string, stdout, stderr io.Writer) error {
-	fs := flag.NewFlagSet("serve", flag.ContinueOnError)
-	fs.SetOutput(stderr)
-	port := fs.Int("port", 8080, "port on 127.0.0.1 (0: any free port)")
-	site := fs.String("site", "", "serve this built site folder (from make site); empty: build the site in memory from the source tree, which needs the go tool")
-	example := fs.String("open-example", "", "print an address that opens with this example loaded (a folder name in examples/, e.g. warehouse)")
-	fs.Usage = func() {
-		fmt.Fprintln(stderr, "usage: visitline serve [--port N] [--site DIR] [--open-example NAME]")
-		fs.PrintDefaults()
-	}
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return nil
-		}
-		return usageError{err.Error()}
-	}
-	if fs.NArg() != 0 {
-		return usageError{"serve takes no arguments besides flags"}
-	}
-	if *port < 0 || *port > 65535 {
-		return usageError{fmt.Sprintf("--port %d: want 0 to 65535", *port)}
-	}
-	var files map[string][]byte
-	var err error
-	if *site != "" {
-		files, err = web.ReadDir(*site)
-	} else {
-		fmt.Fprintln(stderr, "building the site in memory (engine.wasm from ./wasm)…")
-		files, err = buildInMemory()
-	}
-	if err != nil {
+	cfg, err := serveFlags(args, stderr)
+	if err != nil || cfg.site == nil {
 		return err
-	}
-	if *example != "" && !hasExample(files, *example) {
-		return usageError{fmt.Sprintf("--open-example %q: no such example; the site has %s", *example, strings.Join(exampleNames(files), ", "))}
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
-	return serve(ctx, files, *port, *example, stdout, nil)
+	return serve(ctx, cfg, stdout, nil)
 }
 
-// serve listens on 127.0.0.1:port and serves files until ctx ends. ready,
+// serveFlags reads serve's flags and checks that the folder holds a built
+// site; a nil site with no error means -h was asked for.
+func serveFlags(args []string, stderr io.Writer) (serveConfig, error) {
+	flags := flag.NewFlagSet("serve", flag.ContinueOnError)
+	flags.SetOutput(stderr)
+	port := flags.Int("port", 8080, "port on 127.0.0.1 (0: any free port)")
+	site := flags.String("site", "dist", "the built site to serve (make site writes it into dist)")
+	example := flags.String("open-example", "", "print an address that opens with this example loaded (a folder name in examples/, e.g. warehouse)")
+	flags.Usage = func() {
+		fmt.Fprintln(stderr, "usage: visitline serve [--port N] [--site DIR] [--open-example NAME]")
+		flags.PrintDefaults()
+	}
+	if err := flags.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return serveConfig{}, nil
+		}
+		return serveConfig{}, usageError{err.Error()}
+	}
+	if flags.NArg() != 0 {
+		return serveConfig{}, usageError{"serve takes no arguments besides flags"}
+	}
+	if *port < 0 || *port > 65535 {
+		return serveConfig{}, usageError{fmt.Sprintf("--port %d: want 0 to 65535", *port)}
+	}
+	dir := os.DirFS(*site)
+	if _, err := fs.Stat(dir, "index.html"); err != nil {
+		return serveConfig{}, fmt.Errorf("%s holds no built site (no index.html): run make site first, or visitline site %s", *site, *site)
+	}
+	if *example != "" && !hasExample(dir, *example) {
+		return serveConfig{}, usageError{fmt.Sprintf("--open-example %q: no such example; the site has %s", *example, strings.Join(exampleNames(dir), ", "))}
+	}
+	return serveConfig{site: dir, port: *port, example: *example}, nil
+}
+
+// serve listens on 127.0.0.1 and serves the site until ctx ends. ready,
 // when set, receives the page address once the server listens.
-func serve(ctx context.Context, files map[string][]byte, port int, example string, stdout io.Writer, ready func(string)) error {
-	ln, err := net.Listen("tcp", fmt.Sprintf("127.0.0.1:%d", port))
+func serve(ctx context.Context, cfg serveConfig, stdout io.Writer, ready func(string)) error {
+	ln, err := net.Listen("tcp", fmt.Sprintf("127.0.0.1:%d", cfg.port))
 	if err != nil {
-		return fmt.Errorf("cannot listen on 127.0.0.1:%d: %w (try --port 0 for any free port)", port, err)
+		return fmt.Errorf("cannot listen on 127.0.0.1:%d: %w (try --port 0 for any free port)", cfg.port, err)
 	}
 	addr := "http://" + ln.Addr().String() + "/"
-	if example != "" {
-		addr += "?example=" + url.QueryEscape(example)
+	if cfg.example != "" {
+		addr += "?example=" + url.QueryEscape(cfg.example)
 	}
 	fmt.Fprintf(stdout, "Visitline is at %s\n(only this computer can reach it; press Ctrl+C to stop)\n", addr)
 	if ready != nil {
 		ready(addr)
 	}
-	srv := &http.Server{Handler: web.Handler(files), ReadHeaderTimeout: 10 * time.Second}
+	srv := &http.Server{Handler: web.ServeFS(cfg.site), ReadHeaderTimeout: 10 * time.Second}
 	errc := make(chan error, 1)
 	go func() { errc <- srv.Serve(ln) }()
 	select {
@@ -88,32 +99,27 @@ func serve(ctx context.Context, files map[string][]byte, port int, example strin
 	}
 }
 
-func exampleNames(files map[string][]byte) []string {
-	seen := map[string]bool{}
+// exampleNames lists the scenario folders of a built site.
+func exampleNames(site fs.FS) []string {
+	entries, _ := fs.ReadDir(site, "examples")
 	var out []string
-	for name := range files {
-		if rest, ok := strings.CutPrefix(name, "examples/"); ok {
-			dir, _, _ := strings.Cut(rest, "/")
-			if !seen[dir] {
-				seen[dir] = true
-				out = append(out, dir)
-			}
+	for _, e := range entries {
+		if e.IsDir() {
+			out = append(out, e.Name())
 		}
 	}
 	sort.Strings(out)
 	return out
 }
 
-func hasExample(files map[string][]byte, name string) bool {
-	if _, ok := files["examples/"+name]; ok {
-		return true
+// hasExample says whether name is a scenario folder or an example file
+// (e.g. "bakery/sites.csv") of the site.
+func hasExample(site fs.FS, name string) bool {
+	if !fs.ValidPath(name) {
+		return false
 	}
-	for _, n := range exampleNames(files) {
-		if n == name {
-			return true
-		}
-	}
-	return false
+	_, err := fs.Stat(site, "examples/"+name)
+	return err == nil
 }
 
 // buildInMemory compiles the engine from the source tree around the

@@ -6,9 +6,11 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"os/signal"
 	"runtime"
+	"strconv"
 	"strings"
 	"time"
 
@@ -31,6 +33,7 @@ type solveFlags struct {
 	bound      bool
 	workers    int
 	load       loadFlags
+	fleet      fleetFlags
 }
 
 // loadFlags are the flags that say how to read an instance; solve and
@@ -55,6 +58,17 @@ func (l *loadFlags) register(fs *flag.FlagSet) {
 	fs.StringVar(&l.now, "now", "", "time of leaving the last done visit (default: worked out from the done visits)")
 }
 
+// validate refuses load flags that have no meaning, naming the flag.
+func (l *loadFlags) validate() error {
+	if !(l.speed > 0) || math.IsInf(l.speed, 0) {
+		return usageError{fmt.Sprintf("--speed %s: want a speed above 0 (km/h for lat,lon; x,y units per hour for x,y)", strconv.FormatFloat(l.speed, 'g', -1, 64))}
+	}
+	if l.roadFactor != 0 && !(l.roadFactor >= 1) {
+		return usageError{fmt.Sprintf("--road-factor %s: want 1 or more (roads are never shorter than the straight line), or 0 for the default", strconv.FormatFloat(l.roadFactor, 'g', -1, 64))}
+	}
+	return nil
+}
+
 func (l *loadFlags) options() (format.Options, error) {
 	unit, err := format.ParseUnit(l.matrixUnit)
 	if err != nil {
@@ -74,7 +88,8 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("solve", flag.ContinueOnError)
 	fs.SetOutput(stderr)
 	var f solveFlags
-	fs.DurationVar(&f.budget, "budget", 10*time.Second, "time budget (0 for none: then --iterations must be set)")
+	f.budget = 10 * time.Second
+	fs.Var((*budgetFlag)(&f.budget), "budget", "time budget, e.g. 10s, 2m or 1m30s (0 for none: then --iterations must be set)")
 	fs.IntVar(&f.iterations, "iterations", 0, "iteration budget (0: none)")
 	fs.Int64Var(&f.seed, "seed", 1, "random seed; a seed with an iteration budget reproduces a run")
 	fs.StringVar(&f.mix, "mix", "", "starting weights of the destroy operators, e.g. random=1,slice=1,related=1,worst=1")
@@ -87,6 +102,7 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	fs.BoolVar(&f.bound, "bound", true, "compute a lower bound beside the search and prove the plan optimal where the exact search can")
 	fs.IntVar(&f.workers, "workers", 0, fmt.Sprintf("searches side by side, sharing the best plan (default: the number of cores, %d; but 1 with --iterations, so that a seed reproduces the run)", runtime.NumCPU()))
 	f.load.register(fs)
+	f.fleet.register(fs)
 	fs.Usage = func() {
 		fmt.Fprintln(stderr, "usage: visitline solve [flags] SITES.csv|BENCHMARK.txt")
 		fs.PrintDefaults()
@@ -96,7 +112,13 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 		if errors.Is(err, flag.ErrHelp) {
 			return nil
 		}
-		return usageError{err.Error()}
+		return err
+	}
+	if f.iterations < 0 {
+		return usageError{fmt.Sprintf("--iterations %d: want 0 (no limit) or more", f.iterations)}
+	}
+	if err := f.load.validate(); err != nil {
+		return err
 	}
 	if len(pos) != 1 {
 		return usageError{"want exactly one input FILE (see visitline solve -h)"}
@@ -132,6 +154,9 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	mix, err := solver.ParseMix(f.mix)
 	if err != nil {
 		return usageError{"--mix: " + err.Error()}
+	}
+	if f.fleet.wanted(pos[0]) {
+		return solveFleet(pos[0], &f, stdout, stderr)
 	}
 	opt, err := f.load.options()
 	if err != nil {
@@ -220,15 +245,6 @@ func explain(ctx context.Context, j *format.PlanJSON, d *format.Dataset, budget 
 	j.Reason = ex.Reason
 }
 
-// loadInstance reads an instance file with default options (bench).
-func loadInstance(path string) (*solver.Instance, error) {
-	d, err := loadDataset(path, format.Options{})
-	if err != nil {
-		return nil, err
-	}
-	return d.Instance, nil
-}
-
 // loadDataset opens the instance file (a sites file or a benchmark file)
 // and the matrix named in opt, naming them in every error; format.Load
 // does the rest, as it does for the page.
@@ -262,6 +278,22 @@ func unwrapPath(err error) error {
 		return pe.Err
 	}
 	return err
+}
+
+// budgetFlag is a time budget: a Go duration (10s, 2m, 1m30s), 0 or
+// more. A plain number is refused, since seconds and minutes are both
+// plausible readings of it.
+type budgetFlag time.Duration
+
+func (b *budgetFlag) String() string { return time.Duration(*b).String() }
+
+func (b *budgetFlag) Set(s string) error {
+	d, err := time.ParseDuration(s)
+	if err != nil || d < 0 {
+		return fmt.Errorf("want a time such as 10s, 2m or 1m30s, 0 or more")
+	}
+	*b = budgetFlag(d)
+	return nil
 }
 
 // isSet says whether the flag name was given on the command line.

@@ -2,7 +2,6 @@ package bound
 
 import (
 	"context"
-	"encoding/csv"
 	"fmt"
 	"math"
 	"os"
@@ -15,6 +14,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"visitline/solver"
+	"visitline/solver/benchdata"
 	"visitline/solver/format"
 )
 
@@ -40,18 +40,12 @@ func loadKnown(t testing.TB) []known {
 		t.Skipf("benchmark collection not found at %s: %v", benchDir, err)
 	}
 	defer fh.Close()
-	recs, err := csv.NewReader(fh).ReadAll()
+	ks, err := benchdata.Read(fh, path)
 	require.NoError(t, err)
 	var out []known
-	for i, r := range recs {
-		if i == 0 {
-			continue
-		}
-		b, err := strconv.ParseFloat(r[2], 64)
-		require.NoError(t, err)
-		l, err := strconv.ParseFloat(r[3], 64)
-		require.NoError(t, err)
-		out = append(out, known{r[0], r[1], b, l, r[4]})
+	for _, k := range ks {
+		require.True(t, k.HasLower, "%s: no lower bound", k.Key())
+		out = append(out, known{k.Family, k.Instance, k.Best, k.Lower, k.Source})
 	}
 	return out
 }

@@ -78,10 +78,17 @@ func FuzzReadBenchmark(f *testing.F) {
 	f.Add("1\n0\n0 0\n")
 	f.Add("99999999999\n")
 	f.Add("2\n0 1e400\n1 0\n0 1\n0 1\n")
+	f.Add("2\r0 1\r1 0\r0 10\r0 10\r")
+	f.Add("2\n0 1.123456789\n1 0\n0 10 0 10\n")
 	f.Fuzz(func(t *testing.T, src string) {
 		in, err := ReadBenchmark(strings.NewReader(src), "fuzz")
-		if err == nil {
-			require.NoError(t, in.Validate())
+		if err != nil {
+			var pe *ParseError
+			require.ErrorAs(t, err, &pe)
+			require.Less(t, len(err.Error()), 2000)
+			return
 		}
+		require.NoError(t, in.Validate())
+		require.Contains(t, []int64{1, 10, 100, 1000, 10000, 100000, 1000000}, in.Scale)
 	})
 }

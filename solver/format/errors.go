@@ -6,7 +6,12 @@
 package format
 
 import (
+	"encoding/json"
+	"errors"
 	"fmt"
+	"io"
+	"reflect"
+	"strconv"
 	"strings"
 )
 
@@ -21,7 +26,7 @@ type ParseError struct {
 }
 
 func (e *ParseError) Error() string {
-	return place(e.File, e.Line, e.Column, e.Field) + e.Msg
+	return place(clip(e.File), e.Line, e.Column, clipMsg(e.Field)) + clipMsg(e.Msg)
 }
 
 // place writes "file:line:column: field: " for errors and warnings. Text
@@ -57,7 +62,9 @@ type Warning struct {
 	Msg    string
 }
 
-func (w Warning) String() string { return place(w.File, w.Line, w.Column, w.Field) + w.Msg }
+func (w Warning) String() string {
+	return place(clip(w.File), w.Line, w.Column, clipMsg(w.Field)) + clipMsg(w.Msg)
+}
 
 // OptionError is a bad option value (a command-line flag or a setting of
 // the page), named as Option.
@@ -68,7 +75,105 @@ type OptionError struct {
 }
 
 func (e *OptionError) Error() string {
-	return fmt.Sprintf("%s %q: %s", e.Option, e.Value, e.Msg)
+	return fmt.Sprintf("%s %s: %s", e.Option, clipQ(e.Value), clipMsg(e.Msg))
 }
 
 func (e *ParseError) Unwrap() error { return e.Err }
+
+// maxErrors bounds the errors a reader lists: past it, one more entry says
+// how many were left out.
+const maxErrors = 50
+
+// ErrorList is every data error a reader found, in file order. Load and
+// the readers return it when the data has more than one problem to fix;
+// errors.As finds its first *ParseError, so callers that show one error
+// keep working.
+type ErrorList []*ParseError
+
+func (l ErrorList) Error() string {
+	var b strings.Builder
+	for i, e := range l {
+		if i > 0 {
+			b.WriteString("\n")
+		}
+		b.WriteString(e.Error())
+	}
+	return b.String()
+}
+
+// Unwrap gives each error, for errors.As and for callers that list them.
+func (l ErrorList) Unwrap() []error {
+	out := make([]error, len(l))
+	for i, e := range l {
+		out[i] = e
+	}
+	return out
+}
+
+// JSONError is a JSON decoding error in plain words, without the names of
+// the program's types: where it went wrong and what was wanted.
+func JSONError(err error) string {
+	var se *json.SyntaxError
+	var te *json.UnmarshalTypeError
+	switch {
+	case errors.As(err, &te):
+		field := te.Field
+		if field == "" {
+			field = "the message"
+		} else {
+			field = strconv.Quote(field)
+		}
+		return fmt.Sprintf("%s: want %s, not %s", field, jsonKind(te.Type), jsonValue(te.Value))
+	case errors.As(err, &se):
+		if strings.Contains(se.Error(), "unexpected end") {
+			return fmt.Sprintf("the JSON ends early, after %d bytes; it was cut short", se.Offset)
+		}
+		return fmt.Sprintf("not JSON: %s at byte %d", strings.TrimPrefix(se.Error(), "json: "), se.Offset)
+	case errors.Is(err, io.ErrUnexpectedEOF), errors.Is(err, io.EOF):
+		return "the JSON ends early; it was cut short"
+	}
+	msg := strings.TrimPrefix(err.Error(), "json: ")
+	if strings.Contains(msg, "Go ") || strings.Contains(msg, "unmarshal") {
+		return "not a JSON object of the expected form"
+	}
+	return clip(msg)
+}
+
+func jsonKind(t reflect.Type) string {
+	if t == nil {
+		return "a value"
+	}
+	switch t.Kind() {
+	case reflect.String:
+		return "text"
+	case reflect.Bool:
+		return "true or false"
+	case reflect.Int, reflect.Int8, reflect.Int16, reflect.Int32, reflect.Int64, reflect.Uint, reflect.Uint8, reflect.Uint16, reflect.Uint32, reflect.Uint64:
+		return "a whole number"
+	case reflect.Float32, reflect.Float64:
+		return "a number"
+	case reflect.Slice, reflect.Array:
+		return "a list"
+	case reflect.Map, reflect.Struct:
+		return "an object"
+	case reflect.Pointer:
+		return jsonKind(t.Elem())
+	}
+	return "another kind of value"
+}
+
+func jsonValue(v string) string {
+	switch {
+	case v == "string":
+		return "text"
+	case v == "object":
+		return "an object"
+	case v == "array":
+		return "a list"
+	case v == "bool":
+		return "true or false"
+	case strings.HasPrefix(v, "number"):
+		return "the number " + strings.TrimSpace(strings.TrimPrefix(v, "number"))
+	}
+	return clip(v)
+}

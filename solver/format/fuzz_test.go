@@ -2,6 +2,7 @@ package format
 
 import (
 	"bytes"
+	"encoding/csv"
 	"errors"
 	"strings"
 	"testing"
@@ -95,6 +96,9 @@ func FuzzLoad(f *testing.F) {
 		}
 		if err != nil {
 			requirePositioned(t, err)
+			for _, l := range strings.Split(err.Error(), "\n") {
+				require.Less(t, len(l), 2000, "a message line of %d bytes", len(l))
+			}
 			return
 		}
 		in := d.Instance
@@ -114,10 +118,53 @@ func FuzzLoad(f *testing.F) {
 		j := d.PlanJSON(solver.TravelTime, p, nil)
 		var b bytes.Buffer
 		require.NoError(t, WriteJSON(&b, j))
+		// The plan's own JSON passes check: every figure recomputes.
+		c, err := ReadClaims(bytes.NewReader(b.Bytes()), "plan.json")
+		require.NoError(t, err)
+		require.Equal(t, route, c.Route)
+		// The route in input order may break a pin; the figures still
+		// recompute.
+		require.Empty(t, d.CompareClaims(c, solver.Evaluate(in, c.Route)))
+		b.Reset()
 		require.NoError(t, WriteCSV(&b, in, j))
+		rows, err := csv.NewReader(bytes.NewReader(b.Bytes())).ReadAll()
+		require.NoError(t, err)
+		for _, row := range rows {
+			for _, cell := range row {
+				require.Equal(t, CSVCell(cell), cell, "a CSV cell that could run: %q", cell)
+			}
+		}
+		b.Reset()
 		require.NoError(t, WriteTable(&b, j))
+		for _, r := range b.String() {
+			require.False(t, r != '\n' && isControl(r), "raw control character %U in the table", r)
+		}
 		if d.Unit != "" {
 			require.NoError(t, WriteICS(&b, d, p, ICSOptions{Date: time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC), Stamp: icsStamp}))
 		}
+	})
+}
+
+// FuzzReadClaims feeds check any plan JSON for one small dataset: it must
+// answer with a positioned error or a list of differences, never panic.
+func FuzzReadClaims(f *testing.F) {
+	f.Add(`{"route":[0,1,2,3,4],"cost":1}`)
+	f.Add(`{"route":[0,1,1,3,4],"schedule":[{"node":0,"start":-5}]}`)
+	f.Add(`{"route":[0,9,-1],"objective":"nope","shape":"open"}`)
+	f.Add(`{"route":[0,1,2,3,4],"return":{"node":0,"arrival":1e308}}`)
+	f.Add(`{"name":{"a":1}}`)
+	f.Fuzz(func(t *testing.T, src string) {
+		d, err := Load(strings.NewReader(fiveSites), strings.NewReader(fiveMatrix), Options{})
+		require.NoError(t, err)
+		c, err := ReadClaims(strings.NewReader(src), "plan.json")
+		if err != nil {
+			requirePositioned(t, err)
+			require.NotContains(t, err.Error(), "Go struct")
+			return
+		}
+		if len(d.RouteProblems(c.Route)) > 0 {
+			return
+		}
+		_ = d.CompareClaims(c, solver.Evaluate(d.Instance, c.Route))
 	})
 }

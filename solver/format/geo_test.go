@@ -51,15 +51,39 @@ func TestTravelFromXY(t *testing.T) {
 	assert.Equal(t, 6*SitesScale, d.Instance.T(0, 1))
 }
 
+// TestTravelFromLatLonDefaults checks travel from lat,lon at the defaults
+// (mean Earth radius 6371 km, road factor 1.3, 50 km/h) against distances
+// that do not come from the code:
+//   - one degree along a meridian is an arc of 6371·π/180 = 111.19493 km
+//     (arc length = radius × angle, geometry);
+//   - Nashville BNA to Los Angeles LAX is 2887.2599506 km on a sphere of
+//     6372.8 km (Rosetta Code, "Haversine formula", recalled from memory),
+//     so 2887.2599506 × 6371/6372.8 = 2886.44444 km on one of 6371 km.
+//
+// Travel is km × 1.3 / 50 h, in whole seconds.
 func TestTravelFromLatLonDefaults(t *testing.T) {
-	src := "id,lat,lon\nA,45.0,3.0\nB,45.1,3.1\n"
-	d, err := Load(strings.NewReader(src), nil, Options{})
+	cases := []struct {
+		name, sites string
+		// seconds worked by hand: km × 1.3 / 50 × 3600, rounded
+		sec int64
+	}{
+		// 111.19493 × 1.3 / 50 × 3600 = 10407.85 s
+		{"a degree of meridian", "id,lat,lon\nA,0,0\nB,1,0\n", 10408},
+		{"a degree of meridian, southern", "id,lat,lon\nA,-45.5,7.25\nB,-44.5,7.25\n", 10408},
+		// 2886.44444 × 1.3 / 50 × 3600 = 270171.20 s
+		{"BNA to LAX", "id,latitude,longitude\nBNA,36.12,-86.67\nLAX,33.94,-118.40\n", 270171},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			d, err := Load(strings.NewReader(c.sites), nil, Options{})
+			require.NoError(t, err)
+			assert.Equal(t, c.sec*SitesScale/60, d.Instance.T(0, 1), "%d s", c.sec)
+			assert.Equal(t, d.Instance.T(0, 1), d.Instance.T(1, 0), "great-circle travel is symmetric")
+			assert.Contains(t, d.Travel, "road factor 1.3 at 50 km/h")
+		})
+	}
+	d, err := Load(strings.NewReader("id,lat,lon\nA,45.0,3.0\nB,45.1,3.1\n"), nil, Options{})
 	require.NoError(t, err)
-	km := Haversine(45, 3, 45.1, 3.1)
-	sec := math.Round(km * DefaultRoadFactor / DefaultSpeedKmh * 3600)
-	assert.Equal(t, int64(sec)*perSecond, d.Instance.T(0, 1))
-	assert.Equal(t, d.Instance.T(0, 1), d.Instance.T(1, 0))
-	assert.Contains(t, d.Travel, "road factor 1.3 at 50 km/h")
 	require.Len(t, d.LatLon, 2)
 	assert.Equal(t, [2]float64{45.1, 3.1}, d.LatLon[1])
 }

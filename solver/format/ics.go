@@ -79,7 +79,7 @@ func WriteICS(w io.Writer, d *Dataset, p solver.Plan, o ICSOptions) error {
 		var desc []string
 		desc = append(desc, "Site "+in.ID(node))
 		win := "open"
-		if in.Early[node] > 0 || in.Late[node] < horizon/2 {
+		if in.Early[node] > 0 || !OpenBound(in.Late[node]) {
 			win = d.FormatTime(in.Early[node]) + " to " + d.FormatTime(in.Late[node])
 		}
 		desc = append(desc, "Window "+win)

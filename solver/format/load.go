@@ -1,6 +1,7 @@
 package format
 
 import (
+	"bufio"
 	"fmt"
 	"io"
 	"math"
@@ -74,6 +75,9 @@ type Dataset struct {
 	// "benchmark".
 	Travel   string
 	Warnings []Warning
+	// RouteStart and RouteEnd are the start and end asked for (RouteEnd:
+	// start, free or a site id), before any re-planning after done visits.
+	RouteStart, RouteEnd string
 }
 
 // Name of a node: its site name, else its id.
@@ -125,7 +129,7 @@ func decimalsOf(scale int64) int {
 // number alone.
 func IsBenchmark(text string) bool {
 	text = strings.TrimPrefix(text, "\ufeff")
-	for _, l := range strings.Split(text, "\n") {
+	for _, l := range strings.FieldsFunc(text, func(r rune) bool { return r == '\n' || r == '\r' }) {
 		t := strings.TrimSpace(l)
 		if t == "" || strings.HasPrefix(t, "#") {
 			continue
@@ -149,17 +153,48 @@ func IsBenchmark(text string) bool {
 // the original start, so each moves forward by the number of visits done;
 // a pin whose place has passed is dropped with a warning.
 func Load(sites io.Reader, matrix io.Reader, opt Options) (*Dataset, error) {
-	text, err := readText(sites, opt.SitesName)
+	d, err := load(sites, matrix, opt)
 	if err != nil {
-		return nil, err
+		return nil, tidy(err)
 	}
+	tidyWarnings(d.Warnings)
+	return d, nil
+}
+
+// peekSize is how much of the input Load looks at to tell a benchmark
+// file from a sites file without reading it all.
+const peekSize = 64 << 10
+
+func load(sites io.Reader, matrix io.Reader, opt Options) (*Dataset, error) {
+	br := bufio.NewReaderSize(sites, peekSize)
+	head, _ := br.Peek(peekSize)
+	bench, sure := benchmarkHead(head, len(head) < peekSize)
 	var d *Dataset
-	if IsBenchmark(text) {
+	if !sure {
+		// The first line that says what the file is lies beyond the
+		// look-ahead: read it all to decide.
+		text, err := readText(br, opt.SitesName)
+		if err != nil {
+			return nil, err
+		}
+		bench = IsBenchmark(text)
+		if !bench {
+			s, err := parseSites(text, opt.SitesName, 0)
+			if err != nil {
+				return nil, err
+			}
+			if d, err = fromSites(s, matrix, opt); err != nil {
+				return nil, err
+			}
+		}
+		br = bufio.NewReader(strings.NewReader(text))
+	}
+	if bench {
 		if matrix != nil {
 			return nil, &ParseError{File: opt.MatrixName, Field: "travel matrix",
 				Msg: fmt.Sprintf("%s is in the benchmark matrix format, which holds its own travel times; give no separate matrix", nameOr(opt.SitesName))}
 		}
-		in, err := ReadBenchmark(strings.NewReader(text), opt.SitesName)
+		in, err := readBenchmark(br, opt.SitesName)
 		if err != nil {
 			return nil, err
 		}
@@ -168,13 +203,16 @@ func Load(sites io.Reader, matrix io.Reader, opt Options) (*Dataset, error) {
 		for i := range in.IDs {
 			in.IDs[i] = strconv.Itoa(i)
 		}
-	} else {
+	} else if d == nil {
+		text, err := readText(br, opt.SitesName)
+		if err != nil {
+			return nil, err
+		}
 		s, err := parseSites(text, opt.SitesName, 0)
 		if err != nil {
 			return nil, err
 		}
-		d, err = fromSites(s, matrix, opt)
-		if err != nil {
+		if d, err = fromSites(s, matrix, opt); err != nil {
 			return nil, err
 		}
 	}
@@ -186,6 +224,32 @@ func Load(sites io.Reader, matrix io.Reader, opt Options) (*Dataset, error) {
 	}
 	d.checkReach()
 	return d, nil
+}
+
+// benchmarkHead says from the first bytes of a file whether it is in the
+// benchmark matrix format (see IsBenchmark); sure is false when the first
+// line that tells lies past head (and the file goes on: !all).
+func benchmarkHead(head []byte, all bool) (bench, sure bool) {
+	text := strings.TrimPrefix(string(head), "\ufeff")
+	for text != "" {
+		i := strings.IndexAny(text, "\r\n")
+		if i < 0 && !all {
+			return false, false
+		}
+		l := text
+		if i >= 0 {
+			l, text = text[:i], text[i+1:]
+		} else {
+			text = ""
+		}
+		t := strings.TrimSpace(l)
+		if t == "" || strings.HasPrefix(t, "#") {
+			continue
+		}
+		_, err := strconv.Atoi(t)
+		return err == nil, true
+	}
+	return false, all
 }
 
 func nameOr(name string) string {
@@ -361,6 +425,7 @@ func (d *Dataset) applyRoute(opt Options) error {
 		}
 		in.Early[in.Start] = v
 	}
+	d.RouteStart, d.RouteEnd = in.ID(in.Start), routeEnd(in)
 	pins, err := d.readPins()
 	if err != nil {
 		return err
@@ -387,6 +452,11 @@ func (d *Dataset) readPins() ([]pin, error) {
 	}
 	for i, st := range d.Sites.Sites {
 		if st.Pin.Kind == "" {
+			continue
+		}
+		// A mark true by definition is accepted: the start is first, a
+		// fixed end is last.
+		if i == d.Instance.Start && st.Pin.Kind == "first" || d.Instance.Shape == solver.OpenFixed && i == d.Instance.End && st.Pin.Kind == "last" {
 			continue
 		}
 		if i == d.Instance.Start {

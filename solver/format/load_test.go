@@ -217,8 +217,8 @@ func TestLoadPinErrors(t *testing.T) {
 		opt  Options
 		want string
 	}{
-		{"start pinned", map[string]string{"D": "first"}, Options{}, "s.csv:2:6: position: D is the start of the route and cannot be pinned"},
-		{"end pinned", map[string]string{"E": "last"}, Options{End: "E"}, "s.csv:6:6: position: E is the fixed end of the route and cannot be pinned"},
+		{"start pinned", map[string]string{"D": "2"}, Options{}, "s.csv:2:6: position: D is the start of the route and cannot be pinned"},
+		{"end pinned", map[string]string{"E": "first"}, Options{End: "E"}, "s.csv:6:6: position: E is the fixed end of the route and cannot be pinned"},
 		{"two on one place", map[string]string{"A": "first", "B": "1"}, Options{}, "s.csv:4:6: position: B and A (line 3) are both pinned to visit 1"},
 		{"past the end", map[string]string{"A": "5"}, Options{}, "s.csv:3:6: position: 5 is past the end of the route, which has 4 visits after the start"},
 		{"past a fixed end", map[string]string{"A": "4"}, Options{End: "E"}, "s.csv:3:6: position: 4 is past the end of the route, which has 3 visits"},
@@ -242,7 +242,7 @@ func TestLoadErrors(t *testing.T) {
 		{"bad speed", "id,x,y\nA,0,0\nB,1,1\n", nil, Options{Speed: -3}, `speed "-3": want a speed above 0`},
 		{"bad road factor", "id,lat,lon\nA,45,3\nB,45,4\n", nil, Options{RoadFactor: 0.5}, `road-factor "0.5": want 1 or more`},
 		{"coordinates too far for the speed", "id,lat,lon\nA,45,3\nB,-45,-170\n", nil, Options{Speed: 1e-9}, `speed "1e-09": travel times from the coordinates are too large; check the units`},
-		{"matrix error names the matrix", "id\nA\nB\n", ptr("0,1\n1\n"), Options{}, "m.csv:2: travel matrix: row 2 has 1 values but row 1 has 2"},
+		{"matrix error names the matrix", "id\nA\nB\n", ptr("0,1\n1\n"), Options{}, "m.csv:2: travel matrix: row 2 of the times has 1 travel times; want 2"},
 		{"benchmark with a matrix", "2\n0 1\n1 0\n0 10\n0 10\n", ptr("0,1\n1,0\n"), Options{}, "m.csv: travel matrix: s.csv is in the benchmark matrix format"},
 	}
 	for _, c := range cases {

@@ -77,6 +77,14 @@ func ReadMatrix(r io.Reader, name string, unit Unit, ids []string) (*Matrix, err
 
 // Read reads the matrix and matches it to ids (the sites in file order).
 func (mr *MatrixReader) Read(ids []string) (*Matrix, error) {
+	m, err := mr.read(ids)
+	if err != nil {
+		return nil, tidy(err)
+	}
+	return m, nil
+}
+
+func (mr *MatrixReader) read(ids []string) (*Matrix, error) {
 	text, err := readText(mr.r, mr.Name)
 	if err != nil {
 		return nil, err
@@ -91,17 +99,49 @@ func (mr *MatrixReader) Read(ids []string) (*Matrix, error) {
 	if comma == 0 {
 		comma = sniffComma(text)
 	}
-	recs, err := readRecords(text, mr.Name, comma)
+	return parseMatrix(text, mr.Name, comma, mr.Unit, ids)
+}
+
+// rowShape is what the first pass of parseMatrix keeps of a row: not its
+// cells, which the second pass reads straight into the matrix.
+type rowShape struct {
+	line, width int
+	trailing    int    // empty cells at the end
+	label       string // the first cell
+}
+
+// parseMatrix reads the matrix in two passes over text: the first learns
+// the shape (header, labels, widths) keeping a few numbers per row, the
+// second reads the cells into the matrix. Memory is the text and the
+// matrix, not a string per cell.
+func parseMatrix(text, name string, comma rune, unit Unit, ids []string) (*Matrix, error) {
+	n := len(ids)
+	commaDecimal := comma != ','
+	var shapes []rowShape
+	var firstRows [][]string // the cells of the first two rows
+	err := eachRecord(text, name, comma, func(line int, f []string) error {
+		te := 0
+		for te < len(f) && f[len(f)-1-te] == "" {
+			te++
+		}
+		rs := rowShape{line: line, width: len(f), trailing: te}
+		if len(f) > 0 {
+			rs.label = strings.Clone(f[0])
+		}
+		shapes = append(shapes, rs)
+		if len(firstRows) < 2 {
+			row := make([]string, len(f))
+			for i, c := range f {
+				row[i] = strings.Clone(c)
+			}
+			firstRows = append(firstRows, row)
+		}
+		return nil
+	})
 	if err != nil {
 		return nil, err
 	}
-	return parseMatrix(recs, mr.Name, comma, mr.Unit, ids)
-}
-
-func parseMatrix(recs []record, name string, comma rune, unit Unit, ids []string) (*Matrix, error) {
-	n := len(ids)
-	commaDecimal := comma != ','
-	if len(recs) == 0 {
+	if len(shapes) == 0 {
 		return nil, &ParseError{File: name, Line: 1, Field: "travel matrix", Msg: fmt.Sprintf("no data; want %d rows of %d travel times", n, n)}
 	}
 	isNum := func(s string) bool {
@@ -113,19 +153,30 @@ func parseMatrix(recs []record, name string, comma rune, unit Unit, ids []string
 	}
 	// Spreadsheets may end every row with an empty cell: drop such
 	// trailing columns while the rows are wider than they need be.
-	for {
-		trim := len(recs) > 0
-		for _, r := range recs {
-			if len(r.fields) <= n || r.fields[len(r.fields)-1] != "" {
-				trim = false
-				break
-			}
+	trim := -1
+	for _, r := range shapes {
+		k := r.trailing
+		if r.width-n < k {
+			k = r.width - n
 		}
-		if !trim {
-			break
+		if trim < 0 || k < trim {
+			trim = k
 		}
-		for k := range recs {
-			recs[k].fields = recs[k].fields[:len(recs[k].fields)-1]
+	}
+	if trim < 0 {
+		trim = 0
+	}
+	for k := range shapes {
+		shapes[k].width -= trim
+	}
+	for k := range firstRows {
+		firstRows[k] = firstRows[k][:len(firstRows[k])-trim]
+	}
+	recs := make([]record, len(shapes))
+	for k, r := range shapes {
+		recs[k].line = r.line
+		if k < len(firstRows) {
+			recs[k].fields = firstRows[k]
 		}
 	}
 	byID := make(map[string]int, n)
@@ -166,15 +217,53 @@ func parseMatrix(recs []record, name string, comma rune, unit Unit, ids []string
 		}
 		return nil, shapeErr(line, msg)
 	}
+	dataShapes := shapes
+	if hasHeader {
+		dataShapes = shapes[1:]
+	}
 	width := len(data[0].fields)
 	hasLabels := width == n+1 || !isNum(data[0].fields[0]) && width > 1
-	if hasLabels && width != n+1 || !hasLabels && width != n {
-		return nil, shapeErr(data[0].line, fmt.Sprintf("row 1 of the times has %d values", width))
+	times := func(w int) int {
+		if hasLabels {
+			return w - 1
+		}
+		return w
 	}
-	for r, rec := range data {
-		if len(rec.fields) != width {
+	if hasHeader && hasLabels && len(header.fields) == width && width == n {
+		// The header names one site column too few, and the rows agree.
+		named := map[string]bool{}
+		for _, h := range header.fields[1:] {
+			named[h] = true
+		}
+		var lost []string
+		for _, id := range ids {
+			if !named[id] {
+				lost = append(lost, id)
+			}
+		}
+		miss := ""
+		if len(lost) > 0 && len(lost) <= 5 {
+			miss = fmt.Sprintf("; no column for %s", clip(strings.Join(lost, ", ")))
+		}
+		return nil, &ParseError{File: name, Line: header.line, Field: "travel matrix",
+			Msg: fmt.Sprintf("the header names %d site columns and each row has %d travel times, but the sites file has %d sites: want %d, one column per site%s", n-1, n-1, n, n, miss)}
+	}
+	if hasLabels && width != n+1 || !hasLabels && width != n {
+		what := fmt.Sprintf("%d travel times", times(width))
+		if hasLabels {
+			what = fmt.Sprintf("a site id and %d travel times", times(width))
+		}
+		return nil, &ParseError{File: name, Line: data[0].line, Field: "travel matrix",
+			Msg: fmt.Sprintf("the first row of times has %s; the sites file has %d sites, so want %d, one per site", what, n, n)}
+	}
+	for r, rec := range dataShapes {
+		if rec.width != width {
+			row := fmt.Sprintf("row %d of the times", r+1)
+			if hasLabels {
+				row = "row " + clip(rec.label)
+			}
 			return nil, &ParseError{File: name, Line: rec.line, Field: "travel matrix",
-				Msg: fmt.Sprintf("row %d has %d values but row 1 has %d; the matrix must be square (%d×%d)", r+1, len(rec.fields), width, n, n)}
+				Msg: fmt.Sprintf("%s has %d travel times; want %d, one per site (the matrix must be square, %d×%d)", row, times(rec.width), n, n, n)}
 		}
 	}
 	off := 0
@@ -234,8 +323,8 @@ func parseMatrix(recs []record, name string, comma rune, unit Unit, ids []string
 	}
 	if hasLabels {
 		seen := map[int]string{}
-		for r, rec := range data {
-			i, err := match(rec.fields[0], rec.line, 1, "row id", seen, fmt.Sprintf("line %d", rec.line))
+		for r, rec := range dataShapes {
+			i, err := match(rec.label, rec.line, 1, "row id", seen, fmt.Sprintf("line %d", rec.line))
 			if err != nil {
 				return nil, err
 			}
@@ -248,29 +337,45 @@ func parseMatrix(recs []record, name string, comma rune, unit Unit, ids []string
 	} else if hasHeader {
 		copy(rowSite, colSite)
 	}
-	for r, rec := range data {
-		i := rowSite[r]
-		m.rowLine[i] = rec.line
+	for c := 0; c < n; c++ {
+		m.col[colSite[c]] = c + off + 1
+	}
+	skip := 0
+	if hasHeader {
+		skip = 1
+	}
+	r := -1
+	err = eachRecord(text, name, comma, func(line int, f []string) error {
+		r++
+		if r < skip {
+			return nil
+		}
+		i := rowSite[r-skip]
+		m.rowLine[i] = line
+		row := m.Travel[i*n : i*n+n]
 		for c := 0; c < n; c++ {
 			j := colSite[c]
-			m.col[j] = c + off + 1
-			t := rec.fields[c+off]
-			field := fmt.Sprintf("travel time from %s to %s", ids[i], ids[j])
+			t := f[c+off]
 			if i == j && (t == "" || t == "-") {
 				continue
 			}
+			field := func() string { return fmt.Sprintf("travel time from %s to %s", ids[i], ids[j]) }
 			if t == "" {
-				return nil, &ParseError{File: name, Line: rec.line, Column: c + off + 1, Field: field,
+				return &ParseError{File: name, Line: line, Column: c + off + 1, Field: field(),
 					Msg: fmt.Sprintf("missing; want %s (0 or more)", unit)}
 			}
 			v, msg := travelValue(t, unit, commaDecimal)
 			if msg != "" {
-				return nil, &ParseError{File: name, Line: rec.line, Column: c + off + 1, Field: field, Msg: msg}
+				return &ParseError{File: name, Line: line, Column: c + off + 1, Field: field(), Msg: msg}
 			}
 			if i != j {
-				m.Travel[i*n+j] = v
+				row[j] = v
 			}
 		}
+		return nil
+	})
+	if err != nil {
+		return nil, err
 	}
 	return m, nil
 }
@@ -294,6 +399,9 @@ func travelValue(s string, unit Unit, commaDecimal bool) (int64, string) {
 			}
 			return 0, fmt.Sprintf("%q is not a travel time; want minutes (12 or 12.5) or H:MM", s)
 		}
+		return v, ""
+	}
+	if v, ok := fastUnits(s, perSecond, commaDecimal); ok {
 		return v, ""
 	}
 	r, ok := parseDecimal(s, commaDecimal)

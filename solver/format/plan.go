@@ -8,7 +8,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
-	"time"
+	"unicode/utf8"
 
 	"visitline/solver"
 )
@@ -22,9 +22,11 @@ type PlanVisit struct {
 	Wait      float64 `json:"wait"`
 	Departure float64 `json:"departure"`
 	Earliest  float64 `json:"earliest"`
-	Latest    float64 `json:"latest"`
-	Slack     float64 `json:"slack"`
-	Lateness  float64 `json:"lateness,omitempty"`
+	// Latest is null when the window has no upper end, and so is Slack:
+	// an absent bound is never a large number.
+	Latest   *float64 `json:"latest"`
+	Slack    *float64 `json:"slack"`
+	Lateness float64  `json:"lateness,omitempty"`
 	// Filled for sites files: the site name, and for clock-time files the
 	// times as written there (08:30, or 2026-12-01 08:30; "open").
 	Name           string `json:"name,omitempty"`
@@ -45,12 +47,19 @@ type Late struct {
 // PlanJSON is the JSON form of a plan: the contract of `solve --format json`
 // and the input of `check`.
 type PlanJSON struct {
-	Instance      string      `json:"instance,omitempty"`
-	Objective     string      `json:"objective"`
-	Cost          float64     `json:"cost"`
-	Feasible      bool        `json:"feasible"`
-	Route         []int       `json:"route"`
-	RouteIDs      []string    `json:"route_ids"`
+	Instance  string   `json:"instance,omitempty"`
+	Objective string   `json:"objective"`
+	Cost      float64  `json:"cost"`
+	Feasible  bool     `json:"feasible"`
+	Route     []int    `json:"route"`
+	RouteIDs  []string `json:"route_ids"`
+	// Shape is the route's shape (closed, open, open-fixed-end);
+	// RouteStart and RouteEnd are the --start and --end it was solved
+	// with (RouteEnd: start, free or a site id), so that check can take
+	// them from the plan.
+	Shape         string      `json:"shape,omitempty"`
+	RouteStart    string      `json:"route_start,omitempty"`
+	RouteEnd      string      `json:"route_end,omitempty"`
 	Schedule      []PlanVisit `json:"schedule"`
 	Return        *PlanVisit  `json:"return,omitempty"`
 	Travel        float64     `json:"travel"`
@@ -95,9 +104,15 @@ func NewPlanJSON(in *solver.Instance, obj solver.Objective, p solver.Plan, res *
 	for _, v := range p.Route {
 		j.RouteIDs = append(j.RouteIDs, in.ID(v))
 	}
+	j.Shape, j.RouteStart, j.RouteEnd = in.Shape.String(), in.ID(in.Start), routeEnd(in)
 	conv := func(v solver.Visit) PlanVisit {
-		return PlanVisit{Node: v.Node, ID: in.ID(v.Node), Arrival: f(v.Arrival), Start: f(v.Start), Wait: f(v.Wait),
-			Departure: f(v.Departure), Earliest: f(in.Early[v.Node]), Latest: f(in.Late[v.Node]), Slack: f(v.Slack), Lateness: f(v.Lateness)}
+		pv := PlanVisit{Node: v.Node, ID: in.ID(v.Node), Arrival: f(v.Arrival), Start: f(v.Start), Wait: f(v.Wait),
+			Departure: f(v.Departure), Earliest: f(in.Early[v.Node]), Lateness: f(v.Lateness)}
+		if !OpenBound(in.Late[v.Node]) {
+			l, sl := f(in.Late[v.Node]), f(v.Slack)
+			pv.Latest, pv.Slack = &l, &sl
+		}
+		return pv
 	}
 	for _, v := range p.Schedule.Visits {
 		j.Schedule = append(j.Schedule, conv(v))
@@ -126,6 +141,9 @@ func (d *Dataset) PlanJSON(obj solver.Objective, p solver.Plan, res *solver.Resu
 	for _, w := range d.Warnings {
 		j.Warnings = append(j.Warnings, w.String())
 	}
+	if d.RouteStart != "" {
+		j.RouteStart, j.RouteEnd = d.RouteStart, d.RouteEnd
+	}
 	if d.Unit == "" {
 		return j
 	}
@@ -143,7 +161,10 @@ func (d *Dataset) PlanJSON(obj solver.Objective, p solver.Plan, res *solver.Resu
 		pv.Name = d.Names[v.Node]
 		if clock {
 			pv.ArrivalClock, pv.StartClock, pv.DepartureClock = d.Time.Format(v.Arrival), d.Time.Format(v.Start), d.Time.Format(v.Departure)
-			pv.EarliestClock, pv.LatestClock = d.Time.Format(in.Early[v.Node]), d.Time.Format(in.Late[v.Node])
+			pv.EarliestClock = d.Time.Format(in.Early[v.Node])
+			if !OpenBound(in.Late[v.Node]) {
+				pv.LatestClock = d.Time.Format(in.Late[v.Node])
+			}
 		}
 	}
 	for k, v := range p.Schedule.Visits {
@@ -178,15 +199,7 @@ func ReadPlanRoute(r io.Reader, name string) ([]int, error) {
 	}
 	dec := json.NewDecoder(r)
 	if err := dec.Decode(&j); err != nil {
-		var se *json.SyntaxError
-		var te *json.UnmarshalTypeError
-		switch {
-		case asErr(err, &se):
-			return nil, &ParseError{File: name, Field: "plan JSON", Msg: fmt.Sprintf("not valid JSON at byte %d: %v", se.Offset, err), Err: err}
-		case asErr(err, &te):
-			return nil, &ParseError{File: name, Field: te.Field, Msg: "want a list of node numbers (0-based)", Err: err}
-		}
-		return nil, &ParseError{File: name, Field: "plan JSON", Msg: err.Error(), Err: err}
+		return nil, &ParseError{File: name, Field: "plan JSON", Msg: JSONError(err), Err: err}
 	}
 	if j.Route == nil {
 		return nil, &ParseError{File: name, Field: "route", Msg: `missing; want "route": [0, ...] with 0-based node numbers`}
@@ -246,7 +259,11 @@ func WriteCSV(w io.Writer, in *solver.Instance, j PlanJSON) error {
 			order = "return"
 		}
 		tm := v.times(j)
-		if err := cw.Write([]string{order, v.ID, v.Name, tm[0], tm[1], j.dur(v.Wait), tm[2], tm[3], tm[4], j.dur(v.Slack), j.dur(v.Lateness)}); err != nil {
+		row := []string{order, v.ID, v.Name, tm[0], tm[1], j.dur(v.Wait), tm[2], tm[3], tm[4], j.durOpen(v.Slack), j.dur(v.Lateness)}
+		for i := range row {
+			row[i] = CSVCell(row[i])
+		}
+		if err := cw.Write(row); err != nil {
 			return err
 		}
 	}
@@ -257,9 +274,48 @@ func WriteCSV(w io.Writer, in *solver.Instance, j PlanJSON) error {
 // times are arrival, start, departure, earliest and latest as written.
 func (v PlanVisit) times(j PlanJSON) [5]string {
 	if v.StartClock != "" {
-		return [5]string{v.ArrivalClock, v.StartClock, v.DepartureClock, v.EarliestClock, v.LatestClock}
+		latest := v.LatestClock
+		if v.Latest == nil {
+			latest = "open"
+		}
+		return [5]string{v.ArrivalClock, v.StartClock, v.DepartureClock, v.EarliestClock, latest}
 	}
-	return [5]string{j.dur(v.Arrival), j.dur(v.Start), j.dur(v.Departure), j.dur(v.Earliest), j.dur(v.Latest)}
+	return [5]string{j.dur(v.Arrival), j.dur(v.Start), j.dur(v.Departure), j.dur(v.Earliest), j.durOpen(v.Latest)}
+}
+
+// durOpen writes a bound that may be absent: "open" when it is.
+func (j PlanJSON) durOpen(v *float64) string {
+	if v == nil {
+		return "open"
+	}
+	return j.dur(*v)
+}
+
+// OpenBound says whether a window end is absent: an empty cell in a sites
+// file reads as solver.Horizon, and only that value is open. Outputs write
+// it as JSON null or "open", never as the number.
+func OpenBound(v int64) bool { return v >= horizon }
+
+// CSVCell neutralises a cell that a spreadsheet would run as a formula: a
+// cell beginning with =, +, -, @, tab or carriage return gets a leading
+// apostrophe, as the OWASP guidance "CSV Injection" recommends
+// (owasp.org/www-community/attacks/CSV_Injection). Plain numbers such as
+// -5 or +2.5 are left as they are: they cannot run, and our own negative
+// slack is one.
+func CSVCell(s string) string {
+	if s == "" {
+		return s
+	}
+	switch s[0] {
+	case '=', '+', '-', '@', '\t', '\r':
+		if s[0] == '-' || s[0] == '+' {
+			if _, ok := parseDecimal(s, false); ok {
+				return s
+			}
+		}
+		return "'" + s
+	}
+	return s
 }
 
 // dur writes a number of the plan's unit: minutes of a sites file rounded
@@ -267,10 +323,6 @@ func (v PlanVisit) times(j PlanJSON) [5]string {
 func (j PlanJSON) dur(v float64) string {
 	if j.Unit != "min" {
 		return fnum(v)
-	}
-	// Slack against an open window is "open" too.
-	if v >= float64(solver.Horizon)/float64(SitesScale)/4 {
-		return "open"
 	}
 	return strconv.FormatFloat(math.Round(v*100)/100, 'f', -1, 64)
 }
@@ -286,13 +338,13 @@ func WriteTable(w io.Writer, j PlanJSON) error {
 	if j.Unit != "" {
 		unit = " " + j.Unit
 	}
-	fmt.Fprintf(&b, "%s  objective %s  cost %s%s  (%s)\n", j.Instance, j.Objective, j.dur(j.Cost), unit, status)
+	fmt.Fprintf(&b, "%s  objective %s  cost %s%s  (%s)\n", Printable(j.Instance), j.Objective, j.dur(j.Cost), unit, status)
 	if j.At != "" {
 		now := j.NowClock
 		if now == "" && j.Now != nil {
 			now = j.dur(*j.Now)
 		}
-		fmt.Fprintf(&b, "re-planned from %s at %s; done: %s\n", j.At, now, strings.Join(j.Done, ", "))
+		fmt.Fprintf(&b, "re-planned from %s at %s; done: %s\n", Printable(j.At), now, Printable(strings.Join(j.Done, ", ")))
 	}
 	if j.LowerBound != nil {
 		if j.ProvenOptimal {
@@ -347,10 +399,10 @@ func WriteTable(w io.Writer, j PlanJSON) error {
 			order = "back"
 		}
 		tm := times[k]
-		fmt.Fprintf(&b, "%5s  %-12s %*s %*s %8s %*s %*s %8s", order, v.ID, tw, tm[0], tw, tm[1], j.dur(v.Wait),
-			tw, tm[2], 2*tw+4, "["+tm[3]+", "+tm[4]+"]", j.dur(v.Slack))
+		fmt.Fprintf(&b, "%5s  %-12s %*s %*s %8s %*s %*s %8s", order, Printable(v.ID), tw, tm[0], tw, tm[1], j.dur(v.Wait),
+			tw, tm[2], 2*tw+4, "["+tm[3]+", "+tm[4]+"]", j.durOpen(v.Slack))
 		if names {
-			b.WriteString("  " + v.Name)
+			b.WriteString("  " + Printable(v.Name))
 		}
 		if v.Lateness > 0 {
 			b.WriteString("  LATE by " + j.dur(v.Lateness))
@@ -360,7 +412,7 @@ func WriteTable(w io.Writer, j PlanJSON) error {
 	fmt.Fprintf(&b, "travel %s  completion %s  iterations %d  %.2fs (best at %.2fs, by %s)\n", j.dur(j.Travel),
 		completion(j), j.Iterations, j.Seconds, j.SecondsToBest, j.FoundBy)
 	if j.Reason != "" {
-		fmt.Fprintf(&b, "why: %s\n", j.Reason)
+		fmt.Fprintf(&b, "why: %s\n", Printable(j.Reason))
 	}
 	_, err := io.WriteString(w, b.String())
 	return err
@@ -378,11 +430,45 @@ func completion(j PlanJSON) string {
 }
 
 func fnum(v float64) string {
-	if v >= float64(solver.Horizon)/2 {
-		return "open"
-	}
 	return strconv.FormatFloat(v, 'f', -1, 64)
 }
 
-// Seconds is a helper for durations in JSON.
-func Seconds(d time.Duration) float64 { return d.Seconds() }
+// Printable writes s for a terminal: control characters (C0 such as ESC,
+// BEL, CR and LF; DEL; C1 such as CSI U+009B) are shown escaped as Go
+// writes them (\x1b, \u009b), so that a site name cannot move the
+// cursor, set the window title or clear the screen. Other text, accents
+// and scripts included, is kept as it is.
+func Printable(s string) string {
+	clean := true
+	for _, r := range s {
+		if isControl(r) {
+			clean = false
+			break
+		}
+	}
+	if clean {
+		return s
+	}
+	var b strings.Builder
+	for _, r := range s {
+		switch {
+		case r == '\n':
+			b.WriteString(`\n`)
+		case r == '\r':
+			b.WriteString(`\r`)
+		case r == '\t':
+			b.WriteString(`\t`)
+		case r < 0x80 && isControl(r):
+			fmt.Fprintf(&b, `\x%02x`, r)
+		case isControl(r):
+			fmt.Fprintf(&b, `\u%04x`, r)
+		default:
+			b.WriteRune(r)
+		}
+	}
+	return b.String()
+}
+
+func isControl(r rune) bool {
+	return r < 0x20 || r == 0x7f || r >= 0x80 && r < 0xa0 || r == utf8.RuneError
+}

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"sort"
 	"strconv"
 	"strings"
 	"time"
@@ -17,11 +18,13 @@ var siteColumns = []struct {
 	field    string
 	synonyms []string
 }{
-	{"id", []string{"id", "site", "code", "siteid", "sitecode", "ref", "key"}},
-	{"name", []string{"name", "sitename", "label", "title"}},
-	{"earliest", []string{"earliest", "open", "opens", "from", "windowstart", "ready", "readytime", "earlieststart", "slotstart"}},
-	{"latest", []string{"latest", "close", "closes", "to", "windowend", "due", "duetime", "lateststart", "slotend"}},
-	{"service", []string{"service", "duration", "servicetime", "serviceduration", "dwell"}},
+	{"id", []string{"id", "site", "code", "siteid", "sitecode", "ref", "key", "customer", "customerid", "client", "clientid", "stop", "stopid"}},
+	{"name", []string{"name", "sitename", "label", "title", "customername", "clientname", "stopname"}},
+	{"earliest", []string{"earliest", "open", "opens", "from", "windowstart", "ready", "readytime", "earlieststart", "slotstart",
+		"earliestarrival", "timewindowstart", "twstart", "openfrom", "opensat", "windowopen"}},
+	{"latest", []string{"latest", "close", "closes", "to", "windowend", "due", "duetime", "lateststart", "slotend",
+		"latestarrival", "timewindowend", "twend", "openuntil", "opento", "closesat", "windowclose"}},
+	{"service", []string{"service", "duration", "servicetime", "serviceduration", "dwell", "dwelltime", "servicemin", "serviceminutes"}},
 	{"x", []string{"x"}},
 	{"y", []string{"y"}},
 	{"lat", []string{"lat", "latitude"}},
@@ -63,10 +66,13 @@ func normHeader(h string) string {
 var quietColumns = []string{"notes", "note", "comment", "comments", "remarks", "address", "phone", "contact", "description"}
 
 func fieldOf(header string) string {
+	if len(header) > maxHeaderCell {
+		return ""
+	}
 	h := normHeader(header)
 	for _, c := range siteColumns {
 		for _, s := range c.synonyms {
-			if normHeader(s) == h {
+			if s == h {
 				return c.field
 			}
 		}
@@ -74,9 +80,81 @@ func fieldOf(header string) string {
 	return ""
 }
 
+// maxHeaderCell is the longest header cell looked up: no column name is
+// longer, and a long cell is not read letter by letter for each name.
+const maxHeaderCell = 100
+
+// maxColumns bounds the header of a sites file. The reader uses a dozen
+// columns; a file far wider is not a sites file (or lost its line ends).
+const maxColumns = 200
+
+// maxColumnWarnings bounds the warnings about ignored columns.
+const maxColumnWarnings = 10
+
+// windowWords are words of a header that suggest a time window or a
+// service time. A column that holds one but is not a name Visitline reads
+// stops the load: skipping it would plan a day with no windows (or no
+// service) and call the plan good.
+var windowWords = map[string]bool{
+	"window": true, "tw": true, "open": true, "opens": true, "opening": true, "close": true, "closes": true, "closing": true,
+	"earliest": true, "latest": true, "from": true, "until": true, "till": true, "start": true, "starts": true,
+	"end": true, "ends": true, "begin": true, "begins": true, "arrival": true, "arrive": true, "due": true, "ready": true,
+	"deadline": true, "slot": true, "service": true, "duration": true, "dwell": true,
+}
+
+// looksLikeWindow says whether an unknown header names a window or
+// service column in words Visitline does not read.
+func looksLikeWindow(h string) bool {
+	if len(h) > maxHeaderCell {
+		return false
+	}
+	for _, w := range strings.FieldsFunc(strings.ToLower(h), func(r rune) bool { return !unicode.IsLetter(r) }) {
+		if windowWords[w] {
+			return true
+		}
+	}
+	return false
+}
+
+// acceptedNames lists the names read for the window and service fields,
+// for the message that refuses a column.
+func acceptedNames() string {
+	var parts []string
+	for _, c := range siteColumns {
+		if c.field != "earliest" && c.field != "latest" && c.field != "service" {
+			continue
+		}
+		parts = append(parts, fmt.Sprintf("%s (%s)", c.field, strings.Join(readableNames(c.synonyms), ", ")))
+	}
+	return strings.Join(parts, "; ")
+}
+
+// readableNames writes the synonyms as people would write them.
+func readableNames(syn []string) []string {
+	spell := map[string]string{"windowstart": "window start", "windowend": "window end", "readytime": "ready time",
+		"earlieststart": "earliest start", "lateststart": "latest start", "slotstart": "slot start", "slotend": "slot end",
+		"earliestarrival": "earliest arrival", "latestarrival": "latest arrival", "timewindowstart": "time window start",
+		"timewindowend": "time window end", "twstart": "tw start", "twend": "tw end", "openfrom": "open from",
+		"openuntil": "open until", "opento": "open to", "opensat": "opens at", "closesat": "closes at",
+		"windowopen": "window open", "windowclose": "window close", "duetime": "due time", "servicetime": "service time",
+		"serviceduration": "service duration", "dwelltime": "dwell time", "servicemin": "service min", "serviceminutes": "service minutes"}
+	out := make([]string, len(syn))
+	for i, s := range syn {
+		if v, ok := spell[s]; ok {
+			s = v
+		}
+		out[i] = s
+	}
+	return out
+}
+
 func isQuiet(h string) bool {
+	if len(h) > maxHeaderCell {
+		return false
+	}
+	n := normHeader(h)
 	for _, q := range quietColumns {
-		if normHeader(h) == q {
+		if n == q {
 			return true
 		}
 	}
@@ -172,9 +250,14 @@ func ReadSites(r io.Reader, name string) (*Sites, error) {
 func (sr *SitesReader) Read() (*Sites, error) {
 	text, err := readText(sr.r, sr.Name)
 	if err != nil {
-		return nil, err
+		return nil, tidy(err)
 	}
-	return parseSites(text, sr.Name, sr.Comma)
+	s, err := parseSites(text, sr.Name, sr.Comma)
+	if err != nil {
+		return nil, tidy(err)
+	}
+	tidyWarnings(s.Warnings)
+	return s, nil
 }
 
 type cellErr struct {
@@ -196,7 +279,20 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 			comma = ','
 		}
 	}
-	recs, err := readRecords(text, name, comma)
+	if line, cols := firstLineColumns(text, comma); cols > maxColumns {
+		// Refused before the CSV reader splits a huge line into cells.
+		return nil, &ParseError{File: name, Line: line, Field: "header",
+			Msg: fmt.Sprintf("the first row has %d columns; a sites file has a dozen or so (at most %d). Is this a sites file, and does it have line ends?", cols, maxColumns)}
+	}
+	var recs []record
+	err := eachRecord(text, name, comma, func(line int, f []string) error {
+		if len(recs) == 0 && len(f) > maxColumns {
+			return &ParseError{File: name, Line: line, Field: "header",
+				Msg: fmt.Sprintf("the first row has %d columns; a sites file has a dozen or so (at most %d). Is this a sites file, and does it have line ends?", len(f), maxColumns)}
+		}
+		recs = append(recs, record{line: line, fields: append([]string(nil), f...)})
+		return nil
+	})
 	if err != nil {
 		return nil, err
 	}
@@ -206,29 +302,46 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 	}
 	s := &Sites{Name: name, Comma: comma, Columns: map[string]int{}, Header: recs[0].fields}
 	hl := recs[0].line
+	if len(recs[0].fields) > maxColumns {
+		return nil, &ParseError{File: name, Line: hl, Field: "header",
+			Msg: fmt.Sprintf("the first row has %d columns; a sites file has a dozen or so (at most %d). Is this a sites file, and does it have line ends?", len(recs[0].fields), maxColumns)}
+	}
+	ignored := 0
 	for c, h := range recs[0].fields {
 		f := fieldOf(h)
 		if f == "" {
-			if h != "" && !isQuiet(h) {
+			if h == "" || isQuiet(h) {
+				continue
+			}
+			if looksLikeWindow(h) {
+				return nil, &ParseError{File: name, Line: hl, Column: c + 1, Field: "header",
+					Msg: fmt.Sprintf("column %s looks like a time window or service time, but it is not a name Visitline reads, and planning without it would be wrong; rename it to one of: %s", clipQ(h), acceptedNames())}
+			}
+			ignored++
+			if ignored <= maxColumnWarnings {
 				s.Warnings = append(s.Warnings, Warning{File: name, Line: hl, Column: c + 1, Field: "header",
-					Msg: fmt.Sprintf("column %q is not one Visitline reads; it is ignored (see the README for the column names)", h)})
+					Msg: fmt.Sprintf("column %s is not one Visitline reads; it is ignored (see the README for the column names)", clipQ(h))})
 			}
 			continue
 		}
 		if prev, dup := s.Columns[f]; dup {
 			return nil, &ParseError{File: name, Line: hl, Column: c + 1, Field: "header",
-				Msg: fmt.Sprintf("columns %q and %q both give the %s; keep one", recs[0].fields[prev], h, f)}
+				Msg: fmt.Sprintf("columns %s and %s both give the %s; keep one", clipQ(recs[0].fields[prev]), clipQ(h), f)}
 		}
 		s.Columns[f] = c
 	}
+	if ignored > maxColumnWarnings {
+		s.Warnings = append(s.Warnings, Warning{File: name, Line: hl, Field: "header",
+			Msg: fmt.Sprintf("%d more columns are not ones Visitline reads; they are ignored", ignored-maxColumnWarnings)})
+	}
 	if len(s.Columns) == 0 {
 		return nil, &ParseError{File: name, Line: hl, Field: "header",
-			Msg: fmt.Sprintf("the first row %q names no known column; want a header row such as id,name,earliest,latest,service", strings.Join(recs[0].fields, string(comma)))}
+			Msg: fmt.Sprintf("the first row %s names no known column; want a header row such as id,name,earliest,latest,service", clipQ(strings.Join(recs[0].fields, string(comma))))}
 	}
 	if !s.Has("id") {
 		if !s.Has("name") {
 			return nil, &ParseError{File: name, Line: hl, Field: "header",
-				Msg: "no id column; want a column named id (or site or code) with a unique id per site"}
+				Msg: "no id column; want a column named id (or site, code, customer, client or stop) with a unique id per site"}
 		}
 		s.Columns["id"] = s.Columns["name"]
 	}
@@ -248,10 +361,25 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 	}
 	if len(rows) > MaxSites {
 		return nil, &ParseError{File: name, Line: rows[MaxSites].line, Field: "sites",
-			Msg: fmt.Sprintf("more than %d sites; this reader accepts at most %d", MaxSites, MaxSites)}
+			Msg: fmt.Sprintf("more than %d sites; this reader accepts at most %d (see Size limits in the README)", MaxSites, MaxSites)}
 	}
 	commaDecimal := comma != ','
 	width := len(s.Header)
+	// read lists the columns Visitline reads, in column order, for the
+	// message about a short row.
+	type readCol struct {
+		col   int
+		field string
+	}
+	var readCols []readCol
+	taken := map[int]bool{}
+	for _, c := range siteColumns {
+		if col, ok := s.Columns[c.field]; ok && !taken[col] {
+			taken[col] = true
+			readCols = append(readCols, readCol{col, c.field})
+		}
+	}
+	sort.Slice(readCols, func(a, b int) bool { return readCols[a].col < readCols[b].col })
 	cell := func(r record, field string) (string, int) {
 		c, ok := s.Columns[field]
 		if !ok || c >= len(r.fields) {
@@ -259,28 +387,64 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 		}
 		return r.fields[c], c + 1
 	}
+	// Every data error is listed, up to maxErrors; a row with an error is
+	// left out of the later checks.
+	var errs ErrorList
+	fail := func(pe *ParseError) bool {
+		errs = append(errs, pe)
+		return len(errs) >= maxErrors
+	}
+	bad := map[int]bool{}
 	byID := map[string]int{}
 	// Times are read in two passes: the mode and, for dated files, the
 	// origin day are known only once every cell has been seen.
 	var times []timeCell
 	var modeCell *timeCell
-	for k, r := range rows {
+rowLoop:
+	for _, r := range rows {
+		k := len(s.Sites)
+		site := Site{Line: r.line, Latest: horizon}
+		rowErr := func(col int, field, msg string) bool {
+			bad[k] = true
+			return fail(&ParseError{File: name, Line: r.line, Column: col, Field: field, Msg: msg})
+		}
 		for c := width; c < len(r.fields); c++ {
 			if r.fields[c] != "" {
-				return nil, &ParseError{File: name, Line: r.line, Column: c + 1, Field: "row",
-					Msg: fmt.Sprintf("%d fields but the header names %d columns; quote fields that hold the delimiter %q", len(r.fields), width, string(comma))}
+				if rowErr(c+1, "row", fmt.Sprintf("%d fields but the header names %d columns; quote fields that hold the delimiter %q", len(r.fields), width, string(comma))) {
+					break rowLoop
+				}
+				break
 			}
 		}
-		site := Site{Line: r.line, Latest: horizon}
+		if len(r.fields) < width {
+			// A row that ends early: an error when it leaves out a column
+			// Visitline reads (an empty latest would read as "no bound",
+			// an empty service as 0); columns Visitline ignores may be
+			// left off.
+			var missing []string
+			for _, rc := range readCols {
+				if rc.col >= len(r.fields) {
+					missing = append(missing, fmt.Sprintf("%s (column %d)", s.colLabel(rc.field), rc.col+1))
+				}
+			}
+			if len(missing) > 0 {
+				if rowErr(len(r.fields)+1, "row", fmt.Sprintf("%d fields but the header names %d columns; missing %s. Give every column (an empty cell is fine: empty means no bound, or no service)", len(r.fields), width, strings.Join(missing, ", "))) {
+					break rowLoop
+				}
+			}
+		}
 		id, col := cell(r, "id")
 		if id == "" {
-			return nil, &ParseError{File: name, Line: r.line, Column: col, Field: s.colLabel("id"), Msg: "missing; every site needs a unique id"}
+			if rowErr(col, s.colLabel("id"), "missing; every site needs a unique id") {
+				break rowLoop
+			}
+		} else if prev, dup := byID[id]; dup {
+			if rowErr(col, s.colLabel("id"), fmt.Sprintf("%s is used twice (first on line %d); ids must be unique", clipQ(id), s.Sites[prev].Line)) {
+				break rowLoop
+			}
+		} else {
+			byID[id] = k
 		}
-		if prev, dup := byID[id]; dup {
-			return nil, &ParseError{File: name, Line: r.line, Column: col, Field: s.colLabel("id"),
-				Msg: fmt.Sprintf("%q is used twice (first on line %d); ids must be unique", id, rows[prev].line)}
-		}
-		byID[id] = k
 		site.ID = id
 		site.Name, _ = cell(r, "name")
 		for _, f := range []string{"earliest", "latest"} {
@@ -290,16 +454,30 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 			}
 			tc := timeCell{site: k, field: f, text: t, line: r.line, col: col}
 			mode := modeOf(t)
+			if mode == Minutes {
+				if _, msg := parseMinutesTime(t, commaDecimal); msg != "" {
+					if rowErr(col, s.colLabel(f), msg) {
+						break rowLoop
+					}
+					continue
+				}
+			}
 			if modeCell == nil {
 				modeCell = &tc
 				s.Time.Mode = mode
 			} else if mode != s.Time.Mode {
-				return nil, &ParseError{File: name, Line: r.line, Column: col, Field: s.colLabel(f), Msg: mixMessage(t, mode, *modeCell, s.Time.Mode)}
+				if rowErr(col, s.colLabel(f), mixMessage(t, mode, *modeCell, s.Time.Mode)) {
+					break rowLoop
+				}
+				continue
 			}
 			if mode != Minutes {
 				st, msg := parseClock(t)
 				if msg != "" {
-					return nil, &ParseError{File: name, Line: r.line, Column: col, Field: s.colLabel(f), Msg: msg}
+					if rowErr(col, s.colLabel(f), msg) {
+						break rowLoop
+					}
+					continue
 				}
 				tc.st = st
 			}
@@ -308,32 +486,38 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 		if t, col := cell(r, "service"); t != "" {
 			v, msg := parseDuration(t, commaDecimal)
 			if msg != "" {
-				return nil, &ParseError{File: name, Line: r.line, Column: col, Field: s.colLabel("service"), Msg: msg}
+				if rowErr(col, s.colLabel("service"), msg) {
+					break rowLoop
+				}
 			}
 			site.Service = v
 		}
 		if s.Has("x") {
 			x, y, ok, e := readPair(r, s, "x", "y", commaDecimal, math.Inf(1))
-			if e != nil {
-				return nil, &ParseError{File: name, Line: e.line, Column: e.col, Field: e.field, Msg: e.msg}
+			if e != nil && rowErr(e.col, e.field, e.msg) {
+				break rowLoop
 			}
 			site.X, site.Y, site.HasXY = x, y, ok
 		}
 		if s.Has("lat") {
 			lat, lon, ok, e := readPair(r, s, "lat", "lon", commaDecimal, 0)
-			if e != nil {
-				return nil, &ParseError{File: name, Line: e.line, Column: e.col, Field: e.field, Msg: e.msg}
+			if e != nil && rowErr(e.col, e.field, e.msg) {
+				break rowLoop
 			}
 			site.Lat, site.Lon, site.HasLatLon = lat, lon, ok
 		}
 		if t, col := cell(r, "position"); t != "" {
 			p, msg := parsePin(t)
-			if msg != "" {
-				return nil, &ParseError{File: name, Line: r.line, Column: col, Field: s.colLabel("position"), Msg: msg}
+			if msg != "" && rowErr(col, s.colLabel("position"), msg) {
+				break rowLoop
 			}
 			site.Pin = p
 		}
 		s.Sites = append(s.Sites, site)
+	}
+	if len(errs) >= maxErrors {
+		errs = append(errs, &ParseError{File: name, Field: "sites", Msg: fmt.Sprintf("more errors follow; the first %d are listed: fix these and read again", maxErrors)})
+		return nil, errs
 	}
 	if s.Time.Mode == Dated {
 		min := int64(math.MaxInt64)
@@ -351,11 +535,7 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 	for _, tc := range times {
 		var v int64
 		if s.Time.Mode == Minutes {
-			var msg string
-			v, msg = parseMinutesTime(tc.text, commaDecimal)
-			if msg != "" {
-				return nil, &ParseError{File: name, Line: tc.line, Column: tc.col, Field: s.colLabel(tc.field), Msg: msg}
-			}
+			v, _ = parseMinutesTime(tc.text, commaDecimal) // checked in the first pass
 		} else {
 			v = tc.st.units(origin)
 		}
@@ -369,15 +549,22 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 	}
 	for k := range s.Sites {
 		st := &s.Sites[k]
-		if st.Latest < st.Earliest {
+		if st.Latest < st.Earliest && !bad[k] {
 			line, col := s.pos(k, "latest")
 			hint := ""
 			if s.Time.Mode == Clock {
 				hint = "; a window past midnight needs dates (2026-12-01 23:30)"
 			}
-			return nil, &ParseError{File: name, Line: line, Column: col, Field: s.colLabel("latest"),
-				Msg: fmt.Sprintf("%s is before the earliest %s; want latest at or after earliest%s", s.Time.Format(st.Latest), s.Time.Format(st.Earliest), hint)}
+			errs = append(errs, &ParseError{File: name, Line: line, Column: col, Field: s.colLabel("latest"),
+				Msg: fmt.Sprintf("%s is before the earliest %s; want latest at or after earliest%s", s.Time.Format(st.Latest), s.Time.Format(st.Earliest), hint)})
 		}
+	}
+	if len(errs) > 0 {
+		sort.SliceStable(errs, func(a, b int) bool { return errs[a].Line < errs[b].Line })
+		if len(errs) == 1 {
+			return nil, errs[0]
+		}
+		return nil, errs
 	}
 	if s.Time.Mode == Minutes && modeCell != nil {
 		maxT := int64(0)
@@ -481,4 +668,34 @@ func parsePin(t string) (Pin, string) {
 		return Pin{}, fmt.Sprintf("%q is larger than any route can be", t)
 	}
 	return Pin{Kind: "number", N: n}, ""
+}
+
+// firstLineColumns counts the fields of the first line that is not blank
+// or a comment, skipping quoted stretches (a quoted field may hold line
+// ends: the count then runs on, which only makes it larger).
+func firstLineColumns(text string, comma rune) (line, cols int) {
+	line = 1
+	for text != "" {
+		l, rest, _ := strings.Cut(text, "\n")
+		t := strings.TrimSpace(l)
+		if t == "" || strings.HasPrefix(t, "#") {
+			text = rest
+			line++
+			continue
+		}
+		cols = 1
+		quoted := false
+		for _, c := range text {
+			switch {
+			case c == '"':
+				quoted = !quoted
+			case c == '\n' && !quoted:
+				return line, cols
+			case c == comma && !quoted:
+				cols++
+			}
+		}
+		return line, cols
+	}
+	return line, 0
 }

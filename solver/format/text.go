@@ -1,11 +1,11 @@
 package format
 
 import (
-	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math/big"
 	"strings"
 	"unicode/utf16"
@@ -28,28 +28,39 @@ type record struct {
 // readText reads all of r and returns it as UTF-8 text: a UTF-8 byte order
 // mark is dropped, UTF-16 with a byte order mark (what some spreadsheets
 // save as "Unicode text") is decoded, and anything else that is not UTF-8
-// is refused with the line of the first bad byte.
+// is refused with the line of the first bad byte. Line ends of CR alone
+// (old Macintosh files) become LF.
+//
+// The text is held once: it is read into a builder sized from the file
+// when the size is known, and the string is the builder's own bytes.
 func readText(r io.Reader, name string) (string, error) {
-	data, err := io.ReadAll(io.LimitReader(r, int64(maxInput)+1))
-	if err != nil {
+	var b strings.Builder
+	if st, ok := r.(interface{ Stat() (fs.FileInfo, error) }); ok {
+		if fi, err := st.Stat(); err == nil && fi.Mode().IsRegular() && fi.Size() <= int64(maxInput) {
+			b.Grow(int(fi.Size()) + 1)
+		}
+	} else if l, ok := r.(interface{ Len() int }); ok && l.Len() <= maxInput {
+		b.Grow(l.Len() + 1)
+	}
+	if _, err := io.Copy(&b, io.LimitReader(r, int64(maxInput)+1)); err != nil {
 		return "", &ParseError{File: name, Msg: "cannot read: " + err.Error(), Err: err}
 	}
-	if len(data) > maxInput {
-		return "", &ParseError{File: name, Msg: fmt.Sprintf("input is larger than %d MiB; want a text file of sites or travel times", MaxInputBytes>>20)}
+	if b.Len() > maxInput {
+		return "", &ParseError{File: name, Msg: fmt.Sprintf("input is larger than %d MiB, the most a sites file or travel matrix may be (see Size limits in the README)", MaxInputBytes>>20)}
 	}
+	text := b.String()
 	switch {
-	case bytes.HasPrefix(data, []byte{0xEF, 0xBB, 0xBF}):
-		data = data[3:]
-	case bytes.HasPrefix(data, []byte{0xFF, 0xFE}), bytes.HasPrefix(data, []byte{0xFE, 0xFF}):
-		return decodeUTF16(data, name)
+	case strings.HasPrefix(text, "\xEF\xBB\xBF"):
+		text = text[3:]
+	case strings.HasPrefix(text, "\xFF\xFE"), strings.HasPrefix(text, "\xFE\xFF"):
+		return decodeUTF16([]byte(text), name)
 	}
-	if !utf8.Valid(data) {
+	if !utf8.ValidString(text) {
 		line := 1
-		for i := 0; i < len(data); {
-			c, size := utf8.DecodeRune(data[i:])
+		for i := 0; i < len(text); {
+			c, size := utf8.DecodeRuneInString(text[i:])
 			if c == utf8.RuneError && size <= 1 {
-				return "", &ParseError{File: name, Line: line, Field: "text encoding",
-					Msg: fmt.Sprintf("byte 0x%02X is not UTF-8; save the file as UTF-8 (in a spreadsheet: CSV UTF-8)", data[i])}
+				return "", &ParseError{File: name, Line: line, Field: "text encoding", Msg: notUTF8(text, i)}
 			}
 			if c == '\n' {
 				line++
@@ -57,10 +68,53 @@ func readText(r io.Reader, name string) (string, error) {
 			i += size
 		}
 	}
-	if bytes.IndexByte(data, 0) >= 0 {
+	if i := strings.IndexRune(text, utf8.RuneError); i >= 0 {
+		return "", &ParseError{File: name, Line: 1 + strings.Count(text[:i], "\n"), Field: "text encoding",
+			Msg: "holds the character \ufffd, which programs put where they could not read a letter: the text was decoded from another encoding (often Windows-1252 read as UTF-8); save the file as UTF-8 (in a spreadsheet: CSV UTF-8) and read it again"}
+	}
+	if strings.IndexByte(text, 0) >= 0 {
 		return "", &ParseError{File: name, Field: "text encoding", Msg: "holds NUL bytes: this is not a text file of sites or travel times"}
 	}
-	return string(data), nil
+	if strings.IndexByte(text, '\n') < 0 && strings.IndexByte(text, '\r') >= 0 {
+		text = strings.ReplaceAll(text, "\r", "\n")
+	}
+	return text, nil
+}
+
+// cp1252 holds the characters of Windows-1252 at 0x80-0x9F (0 where the
+// code page defines none); from 0xA0 it is Latin-1, the same as Unicode.
+var cp1252 = [32]rune{'€', 0, '‚', 'ƒ', '„', '…', '†', '‡', 'ˆ', '‰', 'Š', '‹', 'Œ', 0, 'Ž', 0,
+	0, '‘', '’', '“', '”', '•', '–', '—', '˜', '™', 'š', '›', 'œ', 0, 'ž', 'Ÿ'}
+
+// notUTF8 explains the byte at i that is not UTF-8, showing the word
+// around it as Windows-1252 would read it when that makes sense.
+func notUTF8(text string, i int) string {
+	c := text[i]
+	msg := fmt.Sprintf("byte 0x%02X is not UTF-8", c)
+	if c >= 0x80 && (c >= 0xA0 || cp1252[c-0x80] != 0) {
+		from, to := i, i+1
+		for from > 0 && i-from < 20 && text[from-1] != '\n' && text[from-1] != ',' && text[from-1] != ';' && text[from-1] != '\t' {
+			from--
+		}
+		for to < len(text) && to-i < 20 && text[to] != '\n' && text[to] != '\r' && text[to] != ',' && text[to] != ';' && text[to] != '\t' {
+			to++
+		}
+		var w strings.Builder
+		for _, b := range []byte(text[from:to]) {
+			switch {
+			case b < 0x80:
+				w.WriteByte(b)
+			case b < 0xA0 && cp1252[b-0x80] != 0:
+				w.WriteRune(cp1252[b-0x80])
+			case b < 0xA0:
+				w.WriteRune('?')
+			default:
+				w.WriteRune(rune(b))
+			}
+		}
+		msg += fmt.Sprintf(": the file looks like Windows-1252 or Latin-1 text (read that way, it says %s)", clipQ(w.String()))
+	}
+	return msg + "; save the file as UTF-8 (in a spreadsheet: CSV UTF-8) and read it again"
 }
 
 func decodeUTF16(data []byte, name string) (string, error) {
@@ -165,33 +219,52 @@ func sniffComma(text string) rune {
 // only and lines starting with '#' are skipped. Fields are trimmed.
 func readRecords(text, name string, comma rune) ([]record, error) {
 	var out []record
+	err := eachRecord(text, name, comma, func(line int, fields []string) error {
+		out = append(out, record{line: line, fields: append([]string(nil), fields...)})
+		return nil
+	})
+	return out, err
+}
+
+// eachRecord calls fn with each record of text, as readRecords splits them.
+// The fields slice is reused between calls: fn copies what it keeps.
+func eachRecord(text, name string, comma rune, fn func(line int, fields []string) error) error {
 	if comma == 0 {
-		for i, l := range strings.Split(text, "\n") {
+		line := 0
+		for rest := text; rest != ""; {
+			l, r, _ := strings.Cut(rest, "\n")
+			rest = r
+			line++
 			t := strings.TrimSpace(l)
 			if t == "" || strings.HasPrefix(t, "#") {
 				continue
 			}
-			out = append(out, record{line: i + 1, fields: strings.Fields(t)})
+			if err := fn(line, strings.Fields(t)); err != nil {
+				return err
+			}
 		}
-		return out, nil
+		return nil
 	}
 	cr := csv.NewReader(strings.NewReader(text))
 	cr.Comma = comma
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
-	cr.TrimLeadingSpace = true
+	// A tab is white space to encoding/csv: trimming leading space there
+	// would swallow an empty cell between two tabs and shift the columns.
+	cr.TrimLeadingSpace = comma != '\t'
+	cr.ReuseRecord = true
 	for {
 		rec, err := cr.Read()
 		if err == io.EOF {
-			break
+			return nil
 		}
 		if err != nil {
 			var pe *csv.ParseError
 			if errors.As(err, &pe) {
-				return nil, &ParseError{File: name, Line: pe.Line, Field: "quoting",
+				return &ParseError{File: name, Line: pe.Line, Field: "quoting",
 					Msg: csvMessage(pe) + fmt.Sprintf(" (near character %d)", pe.Column), Err: err}
 			}
-			return nil, &ParseError{File: name, Msg: "cannot read: " + err.Error(), Err: err}
+			return &ParseError{File: name, Msg: "cannot read: " + err.Error(), Err: err}
 		}
 		line, _ := cr.FieldPos(0)
 		empty := true
@@ -204,9 +277,10 @@ func readRecords(text, name string, comma rune) ([]record, error) {
 		if empty {
 			continue
 		}
-		out = append(out, record{line: line, fields: rec})
+		if err := fn(line, rec); err != nil {
+			return err
+		}
 	}
-	return out, nil
 }
 
 func csvMessage(pe *csv.ParseError) string {
@@ -266,4 +340,48 @@ func ratUnits(r *big.Rat, per int64) (int64, bool) {
 		return -q.Int64(), true
 	}
 	return q.Int64(), true
+}
+
+// fastUnits converts a plain non-negative decimal (digits, at most one
+// '.' or, when commaDecimal, ','; at most 15 digits) to internal units
+// with per units per input unit, rounding half up, as ratUnits does. It
+// reports false for anything else, which the exact reader then handles:
+// travel matrices hold millions of such cells, and big.Rat for each is
+// slow.
+func fastUnits(s string, per int64, commaDecimal bool) (int64, bool) {
+	if len(s) == 0 || len(s) > 16 {
+		return 0, false
+	}
+	var m int64
+	dec, dot, digits := 0, false, 0
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		switch {
+		case c >= '0' && c <= '9':
+			m = m*10 + int64(c-'0')
+			digits++
+			if dot {
+				dec++
+			}
+		case (c == '.' || c == ',' && commaDecimal) && !dot:
+			dot = true
+		default:
+			return 0, false
+		}
+	}
+	if digits == 0 || digits > 15 {
+		return 0, false
+	}
+	p := int64(1)
+	for i := 0; i < dec; i++ {
+		p *= 10
+	}
+	if m > (1<<62)/per {
+		return 0, false
+	}
+	v := (2*m*per + p) / (2 * p)
+	if v >= horizon {
+		return 0, false
+	}
+	return v, true
 }

@@ -21,7 +21,7 @@ func TestReadTextErrors(t *testing.T) {
 	maxInput = 10
 	defer func() { maxInput = old }()
 	_, err = ReadSites(strings.NewReader("id,name\nA,abcdefgh\n"), "s.csv")
-	assert.EqualError(t, err, "s.csv: input is larger than 256 MiB; want a text file of sites or travel times")
+	assert.EqualError(t, err, "s.csv: input is larger than 256 MiB, the most a sites file or travel matrix may be (see Size limits in the README)")
 }
 
 func TestReadTextUTF16Errors(t *testing.T) {

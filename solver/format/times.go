@@ -143,6 +143,9 @@ func parseDuration(s string, commaDecimal bool) (int64, string) {
 		}
 		return (h*3600 + m*60 + sec) * perSecond, ""
 	}
+	if v, ok := fastUnits(s, SitesScale, commaDecimal); ok {
+		return v, ""
+	}
 	r, ok := parseDecimal(s, commaDecimal)
 	if !ok {
 		return 0, fmt.Sprintf("%q is not a duration; want minutes (15 or 7.5) or hours and minutes H:MM (1:30)", s)
@@ -159,12 +162,19 @@ func parseDuration(s string, commaDecimal bool) (int64, string) {
 
 // parseMinutesTime reads a time in Minutes mode: minutes from the reference.
 func parseMinutesTime(s string, commaDecimal bool) (int64, string) {
+	if v, ok := fastUnits(s, SitesScale, commaDecimal); ok {
+		return v, ""
+	}
 	r, ok := parseDecimal(s, commaDecimal)
 	if !ok {
-		return 0, fmt.Sprintf("%q is not a number of minutes; want minutes from the start of the day's reference (0, 90, 612.5)", s)
+		if len(s) >= 10 && s[4] == '-' && s[7] == '-' {
+			_, msg := parseClock(s)
+			return 0, msg
+		}
+		return 0, fmt.Sprintf("%s is not a time; want a clock time such as 08:00 (or 2026-12-01 08:00), or minutes from the day's reference (0, 90, 612.5)", clipQ(s))
 	}
 	if r.Sign() < 0 {
-		return 0, fmt.Sprintf("%q is negative; want minutes from the reference, 0 or more", s)
+		return 0, fmt.Sprintf("%s is negative; want minutes from the reference, 0 or more", clipQ(s))
 	}
 	v, ok := ratUnits(r, SitesScale)
 	if !ok {
@@ -227,9 +237,9 @@ func (tb TimeBase) Parse(s string) (int64, error) {
 // Format writes internal time v as the file wrote its times: minutes, a
 // clock time (with +Nd past midnight of the day), or a date and clock time.
 // Seconds show only when they are not zero; hundredths are rounded away.
-// A time at or past solver.Horizon/2 is "open".
+// An absent bound (solver.Horizon, see OpenBound) is "open".
 func (tb TimeBase) Format(v int64) string {
-	if v >= horizon/2 {
+	if OpenBound(v) {
 		return "open"
 	}
 	if tb.Mode == Minutes || v < 0 {
@@ -253,8 +263,5 @@ func (tb TimeBase) Format(v int64) string {
 // FormatMinutes writes a duration or minute-mode time of a sites file in
 // minutes, rounded to two decimals for reading.
 func FormatMinutes(v int64) string {
-	if v >= horizon/2 {
-		return "open"
-	}
 	return strconv.FormatFloat(math.Round(float64(v)/float64(SitesScale)*100)/100, 'f', -1, 64)
 }

@@ -1,4 +1,4 @@
-package main
+package lab
 
 import (
 	"bytes"
@@ -13,9 +13,6 @@ import (
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
-
-	"visitline/solver"
-	"visitline/solver/format"
 )
 
 func TestBudgetForParsesFamilies(t *testing.T) {
@@ -111,7 +108,7 @@ func TestSummariseCountsAndMedians(t *testing.T) {
 
 func TestBenchFromJSONRewritesReadmeAndChart(t *testing.T) {
 	dir := t.TempDir()
-	rep := benchReport{Budget: "10s", Workers: 1, Machine: "test machine", Command: "visitline bench x",
+	rep := benchReport{Budget: "10s", Workers: 1, Machine: "test machine", Command: "visitline-lab bench x",
 		Runs: []benchRow{{Family: "A", Instance: "a1", HasBest: true, Feasible: true, Checked: true, AtBest: true, SecondsToBestKnown: 0.2, CPUToBestKnown: 0.1, Seconds: 10, CPUSeconds: 10, Budget: 10}}}
 	js := filepath.Join(dir, "r.json")
 	require.NoError(t, rep.write(js))
@@ -195,29 +192,6 @@ func TestScaleCaseChecksItsPlan(t *testing.T) {
 	assert.Greater(t, row.PeakSysMB, 0.0)
 	table := scaleTable(scaleReport{Command: "c", Machine: "m", Rows: []scaleRow{row}})
 	assert.Contains(t, table, "| 40 | tight |")
-}
-
-func TestGenCommandWritesReadableInstance(t *testing.T) {
-	var out, errb bytes.Buffer
-	code := run([]string{"gen", "--n", "25", "--tightness", "tight", "--seed", "4"}, &out, &errb)
-	require.Equal(t, 0, code, errb.String())
-	in, err := format.ReadBenchmark(bytes.NewReader(out.Bytes()), "gen.txt")
-	require.NoError(t, err)
-	assert.Equal(t, 25, in.N)
-	res, err := solver.Solve(t.Context(), in, solver.Settings{Iterations: 100, Seed: 1})
-	require.NoError(t, err)
-	assert.True(t, solver.Evaluate(in, res.Best.Route).Feasible)
-
-	var again bytes.Buffer
-	require.Equal(t, 0, run([]string{"gen", "--n", "25", "--tightness", "tight", "--seed", "4"}, &again, &errb))
-	assert.Equal(t, out.String(), again.String(), "a seed gives the same file")
-
-	errb.Reset()
-	assert.Equal(t, 2, run([]string{"gen", "--tightness", "snug"}, &out, &errb))
-	assert.Contains(t, errb.String(), "want none, wide, medium or tight")
-	errb.Reset()
-	assert.Equal(t, 2, run([]string{"gen", "--n", "1"}, &out, &errb))
-	assert.Contains(t, errb.String(), "--n 1: want 2 to")
 }
 
 func TestBenchRejectsBadWorkersAndBudgets(t *testing.T) {

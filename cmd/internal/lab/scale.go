@@ -1,4 +1,4 @@
-package main
+package lab
 
 import (
 	"bufio"
@@ -89,9 +89,9 @@ func runScale(args []string, stdout, stderr io.Writer) error {
 	jsonOut := fs.String("json", "", "write the rows as JSON to this file")
 	appendJSON := fs.Bool("append", false, "add to the rows already in the --json file instead of replacing them")
 	from := fs.String("from", "", "render the rows of an earlier --json file instead of running")
-	readme := fs.String("readme", "", "rewrite this README between its scale markers")
+	readme := fs.String("readme", "", "rewrite this Markdown file (docs/results.md) between its scale markers")
 	chart := fs.String("chart", "", "draw the time per iteration against n as SVG into this file")
-	section := fs.String("section", "scale", "README markers: <!-- SECTION:start --> and <!-- SECTION:end -->")
+	section := fs.String("section", "scale", "markers of --readme: <!-- SECTION:start --> and <!-- SECTION:end -->")
 	cpuBudget := fs.Bool("cpu-budget", false, "count the budget in CPU time of the process instead of wall-clock time (fairer on a shared machine)")
 	wasm := fs.String("wasm", "", "run each case in this program built for js/wasm, under --runner, in a fresh process")
 	runner := fs.String("runner", defaultWasmRunner(), "with --wasm: the command that runs a js/wasm program")
@@ -122,7 +122,7 @@ func runScale(args []string, stdout, stderr io.Writer) error {
 		fmt.Fprintln(stdout, string(data))
 		return nil
 	}
-	rep := scaleReport{Command: "visitline scale " + strings.Join(args, " "), Machine: machine()}
+	rep := scaleReport{Command: "visitline-lab scale " + strings.Join(args, " "), Machine: machine()}
 	if *from != "" {
 		data, err := os.ReadFile(*from)
 		if err != nil {

@@ -1,6 +1,6 @@
 //go:build !unix && !js
 
-package main
+package lab
 
 import "os"
 

@@ -1,4 +1,4 @@
-package main
+package lab
 
 import (
 	"encoding/json"
@@ -87,10 +87,10 @@ func median(xs []float64) float64 {
 }
 
 func benchCommand(args []string) string {
-	return "visitline bench " + strings.Join(args, " ")
+	return "visitline-lab bench " + strings.Join(args, " ")
 }
 
-// benchReport is what bench writes as JSON and renders into the README.
+// benchReport is what bench writes as JSON and renders into docs/results.md.
 type benchReport struct {
 	// CPUBudget: the budgets were CPU time, not wall-clock time.
 	CPUBudget  bool            `json:"cpu_budget,omitempty"`
@@ -157,7 +157,7 @@ func (r *benchReport) table() string {
 	return b.String()
 }
 
-// publish rewrites the README table and draws the chart, where asked.
+// publish rewrites the results table and draws the chart, where asked.
 func (r *benchReport) publish(readme, chart string) error {
 	if chart != "" {
 		if err := os.WriteFile(chart, []byte(drawChart(r.Runs)), 0o644); err != nil {

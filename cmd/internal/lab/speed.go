@@ -1,4 +1,4 @@
-package main
+package lab
 
 import (
 	"encoding/json"
@@ -48,12 +48,12 @@ type speedReport struct {
 func runSpeed(args []string, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("wasm-speed", flag.ContinueOnError)
 	fs.SetOutput(stderr)
-	wasm := fs.String("wasm", "bin/visitline.wasm", "this program built with GOOS=js GOARCH=wasm")
+	wasm := fs.String("wasm", "bin/visitline-lab.wasm", "this program built with GOOS=js GOARCH=wasm")
 	runner := fs.String("runner", defaultWasmRunner(), "command that runs a js/wasm program (its arguments follow)")
 	iters := fs.Int("iterations", 1000, "N: each side runs N and 2N iterations")
 	repeats := fs.Int("repeats", 3, "runs of each side per instance (alternating; the median counts)")
 	jsonOut := fs.String("json", "", "write the rows as JSON to this file")
-	readme := fs.String("readme", "", "rewrite this README between its wasm-speed markers")
+	readme := fs.String("readme", "", "rewrite this Markdown file (docs/results.md) between its wasm-speed markers")
 	from := fs.String("from", "", "render the rows of an earlier --json file instead of running")
 	if err := fs.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
@@ -61,7 +61,7 @@ func runSpeed(args []string, stdout, stderr io.Writer) error {
 		}
 		return usageError{err.Error()}
 	}
-	rep := speedReport{Command: "visitline wasm-speed " + strings.Join(args, " "), Machine: machine(), Runner: *runner}
+	rep := speedReport{Command: "visitline-lab wasm-speed " + strings.Join(args, " "), Machine: machine(), Runner: *runner}
 	if *from != "" {
 		data, err := os.ReadFile(*from)
 		if err != nil {
@@ -73,13 +73,13 @@ func runSpeed(args []string, stdout, stderr io.Writer) error {
 		return publishSpeed(rep, *readme, stdout)
 	}
 	if fs.NArg() == 0 {
-		return usageError{"want instance files (see visitline wasm-speed -h)"}
+		return usageError{"want instance files (see visitline-lab wasm-speed -h)"}
 	}
 	if *iters < 1 || *repeats < 1 {
 		return usageError{"--iterations and --repeats must be 1 or more"}
 	}
 	if _, err := os.Stat(*wasm); err != nil {
-		return fmt.Errorf("%s: %w (build it with GOOS=js GOARCH=wasm go build -o %s ./cmd/visitline)", *wasm, unwrapPath(err), *wasm)
+		return fmt.Errorf("%s: %w (build it with GOOS=js GOARCH=wasm go build -o %s ./cmd/visitline-lab)", *wasm, unwrapPath(err), *wasm)
 	}
 	self, err := os.Executable()
 	if err != nil {

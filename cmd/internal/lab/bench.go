@@ -1,8 +1,7 @@
-package main
+package lab
 
 import (
 	"context"
-	"encoding/csv"
 	"errors"
 	"flag"
 	"fmt"
@@ -18,6 +17,7 @@ import (
 	"time"
 
 	"visitline/solver"
+	"visitline/solver/benchdata"
 )
 
 type benchRow struct {
@@ -83,11 +83,11 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 	seeds := fs.Int("seeds", 1, "seeds per instance (1, 2, ...)")
 	bounds := fs.String("bounds", "", "best-known values: CSV with family,instance,best_known")
 	jsonOut := fs.String("json", "", "write every run as JSON to this file")
-	readme := fs.String("readme", "", "rewrite the results table of this README between its bench markers")
+	readme := fs.String("readme", "", "rewrite the results table of this Markdown file (docs/results.md) between its bench markers")
 	quiet := fs.Bool("quiet", false, "print only the family summary")
 	workers := fs.Int("workers", 1, "searches side by side per run (1: one thread, reproducible at an iteration budget)")
 	chart := fs.String("chart", "", "draw the share of instances at best-known against time as SVG into this file")
-	from := fs.String("from", "", "re-render the summary, README table and chart from the JSON of an earlier run instead of solving")
+	from := fs.String("from", "", "re-render the summary, results table and chart from the JSON of an earlier run instead of solving")
 	cpuBudget := fs.Bool("cpu-budget", false, "count the budgets in CPU time of this process instead of wall-clock time (fairer on a shared machine; needs a system that reports CPU time)")
 	stopAtBest := fs.Bool("stop-at-best", false, "end a run as soon as it reaches the best-known value (for time-to-target measurements)")
 	baseline := fs.String("baseline", "", "with --from: compare the time to best-known per instance against this earlier JSON (e.g. one worker)")
@@ -107,13 +107,17 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 		return benchFromJSON(*from, *readme, *chart, stdout)
 	}
 	if fs.NArg() == 0 {
-		return usageError{"want instance files or folders (see visitline bench -h)"}
+		return usageError{"want instance files or folders (see visitline-lab bench -h)"}
 	}
 	if *workers < 1 {
 		return usageError{fmt.Sprintf("--workers %d: want 1 or more", *workers)}
 	}
 	if *budget <= 0 && *iterations <= 0 {
 		return usageError{"set a --budget above 0 or an --iterations count"}
+	}
+	if files, err := collectFiles(fs.Args()); err == nil && isFleetBench(files) {
+		return benchFleet(files, fleetBenchOptions{budget: *budget, iterations: *iterations, seeds: *seeds, bounds: *bounds, jsonOut: *jsonOut,
+			quiet: *quiet, cpuBudget: *cpuBudget, command: benchCommand(args)}, stdout)
 	}
 	known := map[string]bestKnown{}
 	if *bounds != "" {
@@ -347,30 +351,13 @@ func machine() string {
 }
 
 func readBestKnown(path string) (map[string]bestKnown, error) {
-	fh, err := os.Open(path)
+	ks, err := benchdata.Load(path)
 	if err != nil {
 		return nil, fmt.Errorf("%s: cannot open: %w", path, unwrapPath(err))
 	}
-	defer fh.Close()
-	r := csv.NewReader(fh)
-	r.FieldsPerRecord = -1
-	recs, err := r.ReadAll()
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
 	out := map[string]bestKnown{}
-	for i, rec := range recs {
-		if i == 0 && len(rec) > 0 && rec[0] == "family" {
-			continue
-		}
-		if len(rec) < 3 {
-			return nil, fmt.Errorf("%s:%d: want family,instance,best_known", path, i+1)
-		}
-		v, err := strconv.ParseFloat(rec[2], 64)
-		if err != nil {
-			return nil, fmt.Errorf("%s:%d:3: best_known %q is not a number", path, i+1, rec[2])
-		}
-		out[rec[0]+"/"+rec[1]] = bestKnown{v}
+	for _, k := range ks {
+		out[k.Key()] = bestKnown{k.Best}
 	}
 	return out, nil
 }

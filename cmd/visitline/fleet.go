@@ -1,0 +1,160 @@
+package main
+
+import (
+	"context"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"strings"
+
+	"visitline/solver"
+	"visitline/solver/fleet"
+	"visitline/solver/format"
+)
+
+// fleetFlags are the flags of a day with several vehicles.
+type fleetFlags struct {
+	vehicles string
+	count    int
+	minimize string
+}
+
+func (ff *fleetFlags) register(fs *flag.FlagSet) {
+	fs.StringVar(&ff.vehicles, "vehicles", "", "vehicles CSV (id, name, start, end, shift start, shift end, capacity, max duration): plan a day for several vehicles")
+	fs.IntVar(&ff.count, "fleet", 0, "plan for N identical vehicles from the start site, with its window as their shift")
+	fs.StringVar(&ff.minimize, "minimize", "", "with several vehicles: vehicles (use as few vehicles as possible, before the travel)")
+}
+
+// wanted says whether solve plans a fleet day: a vehicles file, a fleet
+// size, or an input in Solomon's format (read by content).
+func (ff *fleetFlags) wanted(path string) bool {
+	if ff.vehicles != "" || ff.count > 0 || ff.minimize != "" {
+		return true
+	}
+	fh, err := os.Open(path)
+	if err != nil {
+		return false
+	}
+	defer fh.Close()
+	head := make([]byte, 4096)
+	n, _ := io.ReadFull(fh, head)
+	return format.IsSolomon(string(head[:n]))
+}
+
+// loadFleet reads the fleet day of path: a Solomon file, or a sites file
+// (with its matrix) and a vehicles file or a fleet size.
+func loadFleet(path string, f *solveFlags) (*format.FleetDataset, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, fmt.Errorf("%s: cannot open: %w", path, unwrapPath(err))
+	}
+	if format.IsSolomon(string(data)) {
+		if f.fleet.vehicles != "" {
+			return nil, usageError{"--vehicles: " + path + " is in Solomon's format, which gives its own vehicles; leave --vehicles out"}
+		}
+		p, err := format.ReadSolomon(strings.NewReader(string(data)), path)
+		if err != nil {
+			return nil, err
+		}
+		if f.fleet.count > 0 {
+			for len(p.Vehicles) > f.fleet.count {
+				p.Vehicles = p.Vehicles[:f.fleet.count]
+			}
+			for len(p.Vehicles) < f.fleet.count {
+				v := p.Vehicles[0]
+				v.ID = fmt.Sprint(len(p.Vehicles) + 1)
+				p.Vehicles = append(p.Vehicles, v)
+			}
+		}
+		return format.SolomonDataset(p), nil
+	}
+	if f.fleet.vehicles == "" && f.fleet.count <= 0 {
+		return nil, usageError{"--minimize vehicles needs a fleet: give --vehicles FILE or --fleet N"}
+	}
+	opt, err := f.load.options()
+	if err != nil {
+		return nil, err
+	}
+	d, err := loadDataset(path, opt)
+	if err != nil {
+		return nil, err
+	}
+	fo := format.FleetOptions{Count: f.fleet.count, SitesText: string(data)}
+	if f.fleet.vehicles != "" {
+		if f.fleet.count > 0 {
+			return nil, usageError{"give --vehicles FILE or --fleet N, not both"}
+		}
+		vh, err := os.Open(f.fleet.vehicles)
+		if err != nil {
+			return nil, fmt.Errorf("%s: cannot open: %w", f.fleet.vehicles, unwrapPath(err))
+		}
+		defer vh.Close()
+		if fo.Vehicles, err = format.ReadVehicles(vh, f.fleet.vehicles); err != nil {
+			return nil, err
+		}
+	}
+	fd, err := format.FleetFromDataset(d, fo)
+	var oe *format.OptionError
+	if asOptionError(err, &oe) {
+		return nil, usageError{"--" + oe.Error()}
+	}
+	return fd, err
+}
+
+// solveFleet is solve for a day with several vehicles.
+func solveFleet(path string, f *solveFlags, stdout, stderr io.Writer) error {
+	switch f.fleet.minimize {
+	case "", "vehicles":
+	default:
+		return usageError{fmt.Sprintf("--minimize %q: want vehicles (the cost after them is --objective)", f.fleet.minimize)}
+	}
+	if f.format != "table" && f.format != "json" {
+		return usageError{fmt.Sprintf("--format %s: a day with several vehicles is written as table or json", f.format)}
+	}
+	if f.fleet.count < 0 {
+		return usageError{fmt.Sprintf("--fleet %d: want 1 or more vehicles", f.fleet.count)}
+	}
+	obj, err := solver.ParseObjective(f.objective)
+	if err != nil {
+		return usageError{err.Error()}
+	}
+	fd, err := loadFleet(path, f)
+	if err != nil {
+		return err
+	}
+	for _, w := range fd.Warnings {
+		fmt.Fprintf(stderr, "warning: %s\n", w)
+	}
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	defer stop()
+	minVeh := f.fleet.minimize == "vehicles"
+	s := fleet.Settings{Budget: f.budget, Iterations: f.iterations, Seed: f.seed, Objective: obj, MinimizeVehicles: minVeh}
+	if !f.quiet {
+		s.OnImprove = func(p fleet.Progress) {
+			fmt.Fprintf(stderr, "%8.3fs  iter %-8d vehicles %-4d unserved %-4d cost %-12s (%s)\n", p.Elapsed.Seconds(), p.Iteration, p.Value.Vehicles,
+				p.Value.Unserved, fd.FormatDuration(p.Value.Cost), p.Phase)
+		}
+	}
+	res, err := fleet.Solve(ctx, fd.Problem, s)
+	if err != nil {
+		return err
+	}
+	j := fd.PlanJSON(obj, minVeh, &res)
+	if f.format == "json" {
+		return format.WriteFleetJSON(stdout, j)
+	}
+	return format.WriteFleetTable(stdout, j)
+}
+
+func asOptionError(err error, oe **format.OptionError) bool {
+	if err == nil {
+		return false
+	}
+	e, ok := err.(*format.OptionError)
+	if ok {
+		*oe = e
+	}
+	return ok
+}

@@ -1,0 +1,96 @@
+package main
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// An invented day: two vans from one hub, sites on a line.
+const vanSites = `id,name,earliest,latest,service,x,y,demand
+HUB,Hub,08:00,18:00,0,0,0,
+P1,Florist,08:30,10:00,10,10,0,3
+P2,Pharmacy,09:00,12:00,10,20,0,3
+P3,Library,08:30,11:00,10,0,15,3
+P4,Garage,13:00,15:00,10,0,25,3
+`
+
+const vanFleet = `id,name,start,end,shift start,shift end,capacity
+V1,Ada,HUB,,08:00,17:00,6
+V2,Bo,HUB,,08:00,17:00,6
+`
+
+func writeFiles(t *testing.T, files map[string]string) string {
+	dir := t.TempDir()
+	for name, text := range files {
+		require.NoError(t, os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644))
+	}
+	return dir
+}
+
+func TestSolveVehiclesJSON(t *testing.T) {
+	dir := writeFiles(t, map[string]string{"sites.csv": vanSites, "vans.csv": vanFleet})
+	code, out, errOut := runCmd(solveArgs("--format", "json", "--speed", "60", "--vehicles", filepath.Join(dir, "vans.csv"), filepath.Join(dir, "sites.csv"))...)
+	require.Equal(t, 0, code, errOut)
+	var j map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &j))
+	assert.Equal(t, true, j["feasible"])
+	assert.Equal(t, float64(2), j["vehicles_used"], "12 units of demand on vans of 6")
+	assert.Empty(t, j["unserved"])
+	routes := j["routes"].([]any)
+	require.Len(t, routes, 2)
+	assert.Equal(t, "V1", routes[0].(map[string]any)["vehicle"])
+	assert.Nil(t, j["route"], "route is for a fleet of one")
+}
+
+func TestSolveFleetOfOneKeepsRoute(t *testing.T) {
+	dir := writeFiles(t, map[string]string{"sites.csv": vanSites})
+	code, out, errOut := runCmd(solveArgs("--format", "json", "--speed", "60", "--fleet", "1", filepath.Join(dir, "sites.csv"))...)
+	require.Equal(t, 0, code, errOut)
+	var j map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &j))
+	ids := j["route_ids"].([]any)
+	assert.Equal(t, "HUB", ids[0])
+	assert.Len(t, ids, 5)
+}
+
+func TestSolveSolomonByContent(t *testing.T) {
+	dir := writeFiles(t, map[string]string{"day.txt": "tiny\n\nVEHICLE\nNUMBER CAPACITY\n 3 10\n\nCUSTOMER\nCUST NO. XCOORD. YCOORD. DEMAND READY TIME DUE DATE SERVICE TIME\n" +
+		" 0 0 0 0 0 100 0\n 1 3 4 6 0 50 1\n 2 -3 -4 6 0 50 1\n"})
+	code, out, errOut := runCmd(solveArgs("--format", "json", "--minimize", "vehicles", filepath.Join(dir, "day.txt"))...)
+	require.Equal(t, 0, code, errOut)
+	var j map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &j))
+	// Worked by hand: demands 6 + 6 exceed one capacity of 10, so two
+	// routes out and back, 2 × 5 + 2 × 5 = 20.
+	assert.Equal(t, float64(2), j["vehicles_used"])
+	assert.InDelta(t, 20, j["cost"], 1e-9)
+}
+
+func TestSolveFleetErrors(t *testing.T) {
+	dir := writeFiles(t, map[string]string{"sites.csv": vanSites, "bad.csv": "id,start,capacity\nV1,DEPOT,5\n", "neg.csv": "id,start,capacity\nV1,HUB,-5\n"})
+	cases := []struct {
+		name string
+		args []string
+		code int
+		want string
+	}{
+		{"start not a site", []string{"--vehicles", filepath.Join(dir, "bad.csv")}, 1, "bad.csv:2:2: start: \"DEPOT\" is not a site"},
+		{"negative capacity", []string{"--vehicles", filepath.Join(dir, "neg.csv")}, 1, "neg.csv:2:3: capacity:"},
+		{"csv output", []string{"--fleet", "2", "--format", "csv"}, 2, "--format csv: a day with several vehicles"},
+		{"minimize what", []string{"--fleet", "2", "--minimize", "travel"}, 2, "--minimize \"travel\""},
+		{"minimize without fleet", []string{"--minimize", "vehicles"}, 2, "needs a fleet"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			args := solveArgs(append(c.args, "--speed", "60", filepath.Join(dir, "sites.csv"))...)
+			code, _, errOut := runCmd(args...)
+			assert.Equal(t, c.code, code, errOut)
+			assert.Contains(t, errOut, c.want)
+		})
+	}
+}

@@ -1,0 +1,36 @@
+package benchdata
+
+import (
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+func TestReadRowsWithAndWithoutBounds(t *testing.T) {
+	in := "family,instance,best_known,lower_bound,bound_from\n" +
+		"Dumas,n20w20.001.txt,378,378,Dumas et al. (1995)\n" +
+		"OhlmannThomas,n150w120.001.txt,734,,\n" +
+		"Mine,a.txt,12.5\n"
+	ks, err := Read(strings.NewReader(in), "bk.csv")
+	require.NoError(t, err)
+	require.Len(t, ks, 3)
+	assert.Equal(t, Known{Family: "Dumas", Instance: "n20w20.001.txt", Best: 378, Lower: 378, HasLower: true, Source: "Dumas et al. (1995)", Line: 2}, ks[0])
+	assert.Equal(t, Known{Family: "OhlmannThomas", Instance: "n150w120.001.txt", Best: 734, Line: 3}, ks[1])
+	assert.Equal(t, Known{Family: "Mine", Instance: "a.txt", Best: 12.5, Line: 4}, ks[2])
+	m := ByKey(ks)
+	assert.Equal(t, 734.0, m["OhlmannThomas/n150w120.001.txt"].Best)
+	assert.Len(t, m, 3)
+}
+
+func TestReadErrorsNameLineAndField(t *testing.T) {
+	for _, c := range []struct{ in, want string }{
+		{"family,instance,best_known\nDumas,a,x\n", "bk.csv:2:3: best_known \"x\" is not a number"},
+		{"Dumas,a,1,y,src\n", "bk.csv:1:4: lower_bound \"y\" is not a number"},
+		{"Dumas,a\n", "bk.csv:1: want family,instance,best_known"},
+	} {
+		_, err := Read(strings.NewReader(c.in), "bk.csv")
+		assert.ErrorContains(t, err, c.want, c.in)
+	}
+}

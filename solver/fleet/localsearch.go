@@ -1,0 +1,301 @@
+package fleet
+
+import "visitline/solver"
+
+// polish improves the plan by first-improvement local search until no
+// move helps: relocate a visit (within its route or to another), exchange
+// two visits of different routes, and 2-opt* (swap the tails of two routes
+// that end at the same place). Every move is judged in constant time (or,
+// for a relocation within a route, by one incremental scan) with the
+// routes' segment summaries; only moves that keep every route feasible
+// are made.
+//
+// Only moves that touch a route changed since the last polish (the routes
+// the repair changed, then those the polish changed) are tried.
+func (s *state) polish() {
+	active := make([]bool, len(s.routes))
+	for round := 0; round < 50; round++ {
+		any := false
+		for r := range s.routes {
+			active[r] = s.dirty[r]
+			s.dirty[r] = false
+			any = any || active[r]
+		}
+		if !any {
+			return
+		}
+		s.active = active
+		for r := range s.routes {
+			if !active[r] {
+				continue
+			}
+			for k := 0; k < len(s.routes[r]); k++ {
+				s.relocate(r, k)
+			}
+		}
+		s.exchange()
+		s.twoOptStar()
+		if s.m.types > 1 {
+			s.swapVehicles()
+		}
+	}
+}
+
+// without is route a's summary and cost with its k-th visit taken out.
+func (s *state) without(a, k int) (solver.Seg, int64, bool) {
+	m := s.m
+	if len(s.routes[a]) == 1 {
+		return solver.Seg{}, 0, true
+	}
+	x := solver.JoinSeg(s.fwd[a][k], s.bwd[a][k+1], m.tt(s.prevNode(a, k), s.nextNode(a, k+1)))
+	return x, m.routeCost(x), m.ok(a, x)
+}
+
+// relocate moves the k-th visit of route a to its best place, if that
+// lowers the cost.
+func (s *state) relocate(a, k int) bool {
+	m := s.m
+	v := s.routes[a][k]
+	_, costA, okA := s.without(a, k)
+	if !okA {
+		return false
+	}
+	gain := s.rcost[a] - costA // saved by taking v out
+	bestD, bestR, bestPos := int64(0), -1, -1
+	// Other routes: before or after one of v's nearest visits.
+	for _, w := range m.near[v] {
+		b := s.where[w]
+		if b < 0 || b == a {
+			continue
+		}
+		for _, j := range [2]int{s.pos[w], s.pos[w] + 1} {
+			if c, ok := s.insertCost(b, j, v); ok && c-gain < bestD {
+				bestD, bestR, bestPos = c-gain, b, j
+			}
+		}
+	}
+	// Within the route: the stretch between the old and the new place is
+	// summed incrementally.
+	rt := s.routes[a]
+	L := len(rt)
+	if L > 1 {
+		// Earlier places j < k: fwd[j] + v + rt[j..k-1] + bwd[k+1].
+		var mid solver.Seg
+		for j := k - 1; j >= 0; j-- {
+			if j == k-1 {
+				mid = m.unit[rt[j]]
+			} else {
+				mid = solver.JoinSeg(m.unit[rt[j]], mid, m.tt(rt[j], rt[j+1]))
+			}
+			x := solver.JoinSeg(s.fwd[a][j], m.unit[v], m.tt(s.prevNode(a, j), v))
+			x = solver.JoinSeg(x, mid, m.tt(v, rt[j]))
+			x = solver.JoinSeg(x, s.bwd[a][k+1], m.tt(rt[k-1], s.nextNode(a, k+1)))
+			if m.ok(a, x) {
+				if d := m.routeCost(x) - s.rcost[a]; d < bestD {
+					bestD, bestR, bestPos = d, a, j
+				}
+			}
+		}
+		// Later places j > k: fwd[k] + rt[k+1..j] + v + bwd[j+1].
+		var acc solver.Seg
+		for j := k + 1; j < L; j++ {
+			if j == k+1 {
+				acc = solver.JoinSeg(s.fwd[a][k], m.unit[rt[j]], m.tt(s.prevNode(a, k), rt[j]))
+			} else {
+				acc = solver.JoinSeg(acc, m.unit[rt[j]], m.tt(rt[j-1], rt[j]))
+			}
+			if acc.TW > 0 {
+				break
+			}
+			x := solver.JoinSeg(acc, m.unit[v], m.tt(rt[j], v))
+			x = solver.JoinSeg(x, s.bwd[a][j+1], m.tt(v, s.nextNode(a, j+1)))
+			if m.ok(a, x) {
+				if d := m.routeCost(x) - s.rcost[a]; d < bestD {
+					bestD, bestR, bestPos = d, a, j+1
+				}
+			}
+		}
+	}
+	if bestR < 0 {
+		return false
+	}
+	if bestR == a {
+		nr := make([]int, 0, L)
+		for j, w := range rt {
+			if j == bestPos && bestPos < k {
+				nr = append(nr, v)
+			}
+			if j != k {
+				nr = append(nr, w)
+			}
+			if j+1 == bestPos && bestPos > k {
+				nr = append(nr, v)
+			}
+		}
+		s.routes[a] = nr
+		s.refresh(a)
+		return true
+	}
+	s.routes[a] = append(rt[:k:k], rt[k+1:]...)
+	s.refresh(a)
+	if len(s.routes[a]) == 0 {
+		s.used--
+	}
+	s.insertAt(bestR, bestPos, v)
+	return true
+}
+
+// replaced is route a's summary with its k-th visit replaced by w.
+func (s *state) replaced(a, k, w int) solver.Seg {
+	m := s.m
+	x := solver.JoinSeg(s.fwd[a][k], m.unit[w], m.tt(s.prevNode(a, k), w))
+	return solver.JoinSeg(x, s.bwd[a][k+1], m.tt(w, s.nextNode(a, k+1)))
+}
+
+// exchange swaps a visit of a changed route with one of its nearest
+// visits in another route where that lowers the cost (first improvement).
+func (s *state) exchange() bool {
+	m := s.m
+	improved := false
+	for a := range s.routes {
+		if !s.active[a] {
+			continue
+		}
+		for i := 0; i < len(s.routes[a]); i++ {
+			v := s.routes[a][i]
+			for _, w := range m.near[v] {
+				b := s.where[w]
+				if b < 0 || b == a {
+					continue
+				}
+				j := s.pos[w]
+				if s.load[a]-m.dem[v]+m.dem[w] > m.veh[a].cap || s.load[b]-m.dem[w]+m.dem[v] > m.veh[b].cap {
+					continue
+				}
+				xa := s.replaced(a, i, w)
+				if !m.ok(a, xa) {
+					continue
+				}
+				xb := s.replaced(b, j, v)
+				if !m.ok(b, xb) {
+					continue
+				}
+				if m.routeCost(xa)+m.routeCost(xb) < s.rcost[a]+s.rcost[b] {
+					s.routes[a][i], s.routes[b][j] = w, v
+					s.refresh(a)
+					s.refresh(b)
+					improved = true
+					break
+				}
+			}
+		}
+	}
+	return improved
+}
+
+// twoOptStar exchanges the tails of two routes whose vehicles end at the
+// same place by the same time: for a visit v of a changed route and one of
+// its nearest visits w in another, v's route goes on with w and what
+// followed w, and w's route goes on with what followed v.
+func (s *state) twoOptStar() bool {
+	m := s.m
+	improved := false
+	for a := range s.routes {
+		if !s.active[a] {
+			continue
+		}
+		for i := 0; i < len(s.routes[a]); i++ {
+			v := s.routes[a][i]
+			for _, w := range m.near[v] {
+				b := s.where[w]
+				if b < 0 || b == a || m.veh[a].endSeg != m.veh[b].endSeg || m.veh[a].end != m.veh[b].end {
+					continue
+				}
+				j := s.pos[w]
+				ra, rb := s.routes[a], s.routes[b]
+				headA, headB := s.pload[a][i+1], s.pload[b][j]
+				if headA+(s.load[b]-headB) > m.veh[a].cap || headB+(s.load[a]-headA) > m.veh[b].cap {
+					continue
+				}
+				xa := solver.JoinSeg(s.fwd[a][i+1], s.bwd[b][j], m.tt(v, w))
+				if !m.ok(a, xa) {
+					continue
+				}
+				xb := solver.JoinSeg(s.fwd[b][j], s.bwd[a][i+1], m.tt(s.prevNode(b, j), s.nextNode(a, i+1)))
+				if !m.ok(b, xb) {
+					continue
+				}
+				ca, cb := m.routeCost(xa), m.routeCost(xb)
+				if j+len(ra)-(i+1) == 0 {
+					cb = 0 // b is left with nothing
+				}
+				if ca+cb < s.rcost[a]+s.rcost[b] {
+					na := append(append([]int{}, ra[:i+1]...), rb[j:]...)
+					nb := append(append([]int{}, rb[:j]...), ra[i+1:]...)
+					s.routes[a], s.routes[b] = na, nb
+					s.refresh(a)
+					s.refresh(b)
+					s.countUsed()
+					improved = true
+					break
+				}
+			}
+		}
+	}
+	return improved
+}
+
+// seqSeg is the summary of visits driven by vehicle r, and whether r can
+// drive them (windows, longest day, capacity).
+func (s *state) seqSeg(r int, visits []int) (solver.Seg, bool) {
+	m := s.m
+	x := m.veh[r].startSeg
+	prev := m.veh[r].start
+	var load int64
+	for _, v := range visits {
+		x = solver.JoinSeg(x, m.unit[v], m.tt(prev, v))
+		if x.TW > 0 {
+			return x, false
+		}
+		prev = v
+		load += m.dem[v]
+	}
+	x = solver.JoinSeg(x, m.veh[r].endSeg, m.tt(prev, m.veh[r].end))
+	return x, m.ok(r, x) && load <= m.veh[r].cap
+}
+
+// swapVehicles hands whole routes between vehicles of different kinds
+// (one of them may be idle) where that lowers the cost.
+func (s *state) swapVehicles() bool {
+	m := s.m
+	improved := false
+	for a := range s.routes {
+		if len(s.routes[a]) == 0 {
+			continue
+		}
+		for b := range s.routes {
+			if b == a || m.typeOf[a] == m.typeOf[b] || len(s.routes[b]) > 0 && b < a {
+				continue
+			}
+			xa, okA := s.seqSeg(b, s.routes[a])
+			if !okA {
+				continue
+			}
+			cb := int64(0)
+			if len(s.routes[b]) > 0 {
+				xb, okB := s.seqSeg(a, s.routes[b])
+				if !okB {
+					continue
+				}
+				cb = m.routeCost(xb)
+			}
+			if m.routeCost(xa)+cb < s.rcost[a]+s.rcost[b] {
+				s.routes[a], s.routes[b] = s.routes[b], s.routes[a]
+				s.refresh(a)
+				s.refresh(b)
+				improved = true
+			}
+		}
+	}
+	return improved
+}
