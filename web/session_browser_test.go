@@ -90,6 +90,7 @@ func TestShareLinksThatAreTooBigOrBadSayPlainlyWhy(t *testing.T) {
 	}{
 		{"inflates past the cap", deflateLink(t, []byte(`{"text":"`+strings.Repeat(" ", 20<<20)+`"}`)), "more than 8 MB"},
 		{"wrong types", deflateLink(t, []byte(`{"text":"x","name":{"a":1}}`)), ""},
+		{"wrong option types", deflateLink(t, []byte(`{"text":"3\n0 1 1\n1 0 1\n1 1 0\n0 100\n0 100\n0 100\n","options":{"speed":"fast","done":"A","end":7},"settings":{"seed":{"x":1}}}`)), "Loaded 2 visits"},
 		{"not JSON", deflateLink(t, []byte(`{"text":`)), "damaged"},
 		{"no data", deflateLink(t, []byte(`[1,2]`)), "does not hold Visitline data"},
 		{"cut short", shared.srv.URL + "/#data=AAAAx", "damaged"},
@@ -148,4 +149,12 @@ func TestOwnDataAfterAnExample(t *testing.T) {
 	require.NoError(t, chromedp.Do(ctx, chromedp.Click(chromedp.CSS(`[data-testid=errors] button`))))
 	sel := eval[string](t, ctx, `(() => { const t = document.querySelector('[data-testid=paste-input]'); return t.value.slice(t.selectionStart, t.selectionEnd); })()`)
 	assert.Equal(t, "9x", sel, "the place selects the field, not the line")
+
+	// Every problem is listed, each place selecting its own field.
+	paste(t, ctx, "id,name,open,close,service,x,y\nD,Depot,07:00,18:00,0,0,0\nA,Alpha,08:00,9x,10,3,4\nB,Beta,08:00,09:00,ten,3,4\n")
+	waitFor(t, ctx, `!document.querySelector('[data-testid=errors]').hidden && document.querySelectorAll('[data-testid=errors] li').length > 1`, 10*time.Second)
+	n := eval[int](t, ctx, `document.querySelectorAll('[data-testid=errors] li').length`)
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(chromedp.CSS(`[data-testid=errors] li:nth-child(2) button`))))
+	sel = eval[string](t, ctx, `(() => { const t = document.querySelector('[data-testid=paste-input]'); return t.value.slice(t.selectionStart, t.selectionEnd); })()`)
+	assert.Equal(t, "ten", sel, "the second of %d problems selects its own field", n)
 }

@@ -84,13 +84,25 @@ export async function unpack(payload, max) {
   return check(obj);
 }
 
+// cleanOptions keeps the route and travel options a link may carry, each
+// of the type the engine reads (anything else is dropped, so that a
+// tampered link cannot make the engine answer with a decoding error).
+export function cleanOptions(o) {
+  const out = {};
+  if (!o || typeof o !== "object") return out;
+  for (const k of ["end", "start", "shift_start", "matrix_unit", "now"]) if (typeof o[k] === "string") out[k] = o[k];
+  for (const k of ["speed", "road_factor"]) if (typeof o[k] === "number" && Number.isFinite(o[k])) out[k] = o[k];
+  if (Array.isArray(o.done)) out.done = o.done.filter((x) => typeof x === "string");
+  return out;
+}
+
 // check keeps only the fields a link may carry, each of the right type.
 function check(o) {
   const bad = () => new LinkError("This link does not hold Visitline data, so nothing was loaded from it.");
   if (!o || typeof o !== "object" || typeof o.text !== "string") throw bad();
   const str = (v) => (typeof v === "string" ? v : "");
   const out = { v: o.v, name: str(o.name) || "shared data", text: o.text, matrix: str(o.matrix), matrix_name: str(o.matrix_name),
-    options: o.options && typeof o.options === "object" ? o.options : {},
+    options: cleanOptions(o.options),
     settings: o.settings && typeof o.settings === "object" ? o.settings : {} };
   if (o.plan && typeof o.plan === "object" && Array.isArray(o.plan.route) && Array.isArray(o.plan.schedule)) {
     out.plan = o.plan;

@@ -30,3 +30,8 @@ test("damaged or foreign links fail with a plain message, no internals", async (
     await assert.rejects(unpack(p), (e) => e instanceof LinkError && !/struct|unmarshal|SyntaxError/.test(e.message), p);
   }
 });
+
+test("options of the wrong type are dropped, the rest kept", async () => {
+  const back = await unpack(await pack({ text: "x", options: { speed: "fast", road_factor: 1.2, done: ["A", 3], end: 7, start: "D" } }));
+  assert.deepEqual(back.options, { start: "D", road_factor: 1.2, done: ["A"] });
+});
