@@ -343,3 +343,37 @@ func TestThousandSites(t *testing.T) {
 		eval[string](t, ctx, `document.querySelector('[data-testid=plan-table]').dataset.drawMs`), eval[int](t, ctx, `document.documentElement.scrollHeight`))
 	view(t, ctx, "testout", "layout-1000-sites")
 }
+
+// Defects 6 and 7: the completion objective reads as a finishing time,
+// not as a cost in minutes; a weak bound reads as no verdict, with the
+// figures one click away.
+func TestDefectNumbersAndBoundInWords(t *testing.T) {
+	ctx, _ := tab(t)
+	openPage(t, ctx, "")
+	loadExample(t, ctx, "bakery/sites.csv")
+	setField(t, ctx, "objective", "completion")
+	run(t, ctx, "0.5")
+	rows := tableRows(t, ctx)
+	col := tableColumns(t, ctx)
+	best := eval[string](t, ctx, `document.querySelector('[data-testid=best-cost]').textContent`)
+	assert.True(t, strings.HasPrefix(best, "ends at "+rows[len(rows)-1][col["Arrival"]]), "%q: the finishing clock time, the return's arrival", best)
+	for _, r := range rows {
+		for _, c := range []string{"Wait", "Slack"} {
+			assert.Regexp(t, `^(–|open|\d+ min|\d+:\d\d h|late by .*)$`, r[col[c]], "%s in whole minutes or H:MM", c)
+		}
+	}
+
+	paste(t, ctx, sitesDay(200, 1))
+	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled && document.getElementById('summary').textContent.includes('200')`, 20*time.Second)
+	setField(t, ctx, "objective", "travel")
+	run(t, ctx, "1")
+	q := eval[string](t, ctx, `document.querySelector('[data-testid=quality]').textContent`)
+	details := eval[string](t, ctx, `document.querySelector('[data-testid=bound-details]').textContent`)
+	t.Logf("200 visits: %q; details: %q", q, details)
+	if !strings.HasPrefix(q, "within ") && q != "proven best" {
+		assert.NotContains(t, q, "%", "a gap of 5 %% or more is not shown as a verdict")
+	}
+	if strings.Contains(q, "yet") {
+		assert.Contains(t, details, "at most", "the exact figures stay in the details")
+	}
+}
