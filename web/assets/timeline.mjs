@@ -61,8 +61,10 @@ export function drawTimeline(p, model) {
   // About one tick per 80 px of track, so that the labels never overlap.
   const trackPx = Math.max(120, (tl.clientWidth || 800) - (dens === "full" ? 180 : 110));
   for (const t of ticks(t0, t1, model.clock, Math.max(2, Math.min(8, Math.floor(trackPx / 80))))) {
-    const s = el("span", "tick", clock(t, model));
-    s.style.left = x(t) + "%";
+    const at = x(t);
+    // Labels near an end of the track lean inwards, so none is cut off.
+    const s = el("span", "tick" + (at > 92 ? " at-end" : at < 8 ? " at-start" : ""), clock(t, model));
+    s.style.left = at + "%";
     tk.appendChild(s);
   }
   axis.appendChild(tk);
