@@ -257,7 +257,11 @@ func TestDefectTimelineAt200And500Visits(t *testing.T) {
 	  return document.querySelector('[data-testid=visit-detail]').textContent; })()`), "(Site 100)", "names on hover")
 	eval[bool](t, ctx, `(() => { const tl = document.querySelector('[data-testid=timeline]'); window.scrollTo(0, tl.getBoundingClientRect().top + scrollY + tl.offsetHeight / 2); return true; })()`)
 	top := eval[float64](t, ctx, `document.querySelector('[data-testid=timeline] .axis').getBoundingClientRect().top`)
-	assert.InDelta(t, 0, top, 2, "the axis sticks to the top of the screen while the rows scroll")
+	bar := eval[float64](t, ctx, `document.querySelector('.runbar').getBoundingClientRect().bottom`)
+	assert.InDelta(t, bar, top, 2, "the axis sticks under the run bar while the rows scroll")
+	assert.Greater(t, bar, 0.0, "and the run bar (Start, Stop, the best plan) stays in view")
+	assert.Less(t, bar, 150.0)
+	view(t, ctx, "testout", "layout-200-visits-scrolled")
 	if d := os.Getenv("VISITLINE_DOCS_SHOTS"); d != "" {
 		for _, w := range []int64{390, 1366, 1920} {
 			viewport(t, ctx, w, map[int64]int64{390: 844, 1366: 768, 1920: 1080}[w])

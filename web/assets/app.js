@@ -754,6 +754,11 @@ function wire() {
   $("cores").value = String(defaultCores(navigator.hardwareConcurrency));
   $("cores").max = String(MAX_CORES);
   wireTimeline();
+  // The axis sticks under the run bar, whatever its height.
+  const bar = document.querySelector(".runbar");
+  const barHeight = () => document.documentElement.style.setProperty("--runbar-h", (innerWidth > 900 ? bar.offsetHeight : 0) + "px");
+  if (typeof ResizeObserver === "function") new ResizeObserver(barHeight).observe(bar);
+  barHeight();
   // The axis' ticks follow the width: draw again when it changes.
   let lastWidth = innerWidth;
   window.addEventListener("resize", () => {
