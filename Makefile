@@ -6,7 +6,7 @@ BENCH_DIR ?= ../shared/benchmarks/tsptw
 BENCH_BUDGETS ?= --budget 10s --budget-for OhlmannThomas=30s
 BENCH_FLAGS = --workers 1 --bounds $(BENCH_DIR)/best-known.csv
 
-.PHONY: all build lab wasm-cli test bench bench-kernels bench-quick bench-scale bench-wasm bench-workers pgo bound-report demo demo-cli vet fmt site clean
+.PHONY: all build lab wasm-cli test bench-browser bench bench-kernels bench-quick bench-scale bench-wasm bench-workers pgo bound-report demo demo-cli vet fmt site clean
 PORT ?= 8080
 
 all: build
@@ -87,6 +87,16 @@ PGO_FILES ?= $(BENCH_DIR)/Dumas/n100w40.001.txt $(BENCH_DIR)/GendreauDumasExtend
 pgo: lab bin/gen/n300-tight.txt
 	./bin/visitline-lab bench --budget 0 --iterations 1500 --quiet --cpuprofile cmd/visitline/default.pgo $(PGO_FILES)
 	cp cmd/visitline/default.pgo cmd/visitline-lab/default.pgo
+
+# The page in headless Chromium: Stop and weight changes at 60 to 2,000
+# sites with the bound on (BENCH_TRIES tries each), the engine's ready time,
+# the per-worker rate against native by CPU time, and (BENCH_BEST=1) the time
+# to the best-known value with 1 and 2 search workers against native.
+BENCH_TRIES ?= 10
+BENCH_BEST ?= 1
+bench-browser:
+	VISITLINE_BENCH_BROWSER=1 VISITLINE_BENCH_TRIES=$(BENCH_TRIES) VISITLINE_BENCH_BEST=$(BENCH_BEST) \
+		$(GO) test -count=1 -timeout 0 -run '^TestBenchBrowser$$' -v ./web | tee bench-browser.txt
 
 bound-report:
 	VISITLINE_BOUND_REPORT=Dumas,GendreauDumasExtended VISITLINE_BOUND_BUDGET=10s GOMAXPROCS=1 $(GO) test -count=1 -timeout 0 -run TestBoundReport -v ./solver/bound

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"sort"
+
+	"visitline/solver/turn"
 )
 
 // model is the engine's working copy of an instance: the driven prefix folded
@@ -35,6 +37,9 @@ type model struct {
 	infeas  bool       // tightening proved that no plan meets every window
 	fewest  bool       // rank late plans by late visits first
 	arcOK   []bool     // arc i→j can be in a feasible plan
+	// free: no window can bind (windowsFree), and the day is searched as an
+	// open day (open.go); arcOK and before are then left out.
+	free bool
 }
 
 func (m *model) T(i, j int) int64 { return m.t[i*m.n+j] }
@@ -180,6 +185,12 @@ func newModel(in *Instance, obj Objective) (*model, error) {
 	}
 	m.origE = append([]int64(nil), m.e...)
 	m.origL = append([]int64(nil), m.l...)
+	if len(m.movable) >= openMin && m.windowsFree() {
+		// No window can bind: nothing to tighten, no arc or order to
+		// rule out; the open-day search needs none of it (open.go).
+		m.free = true
+		return m, nil
+	}
 	if debugMode != "notight" {
 		m.tighten()
 	}
@@ -215,6 +226,7 @@ func (m *model) tighten() {
 	for round := 0; round < 8; round++ {
 		changed := false
 		for _, j := range nodes {
+			turn.Due()
 			lo := Horizon
 			for _, i := range preds {
 				if i == j {
@@ -272,6 +284,7 @@ func (m *model) buildArcs() {
 	n := m.n
 	m.arcOK = make([]bool, n*n)
 	for i := 0; i < n; i++ {
+		turn.Due()
 		for j := 0; j < n; j++ {
 			m.arcOK[i*n+j] = i != j && m.e[i]+m.s[i]+m.t[i*n+j] <= m.l[j]
 		}
@@ -295,6 +308,7 @@ func (m *model) buildPrecedence() {
 		return
 	}
 	for _, u := range m.movable {
+		turn.Due()
 		for _, k := range m.movable {
 			if u != k && m.e[k]+m.s[k]+m.t[k*n+u] > m.l[u] {
 				m.before[u][k>>6] |= 1 << (k & 63)
@@ -315,6 +329,34 @@ func (m *model) external(r []int32) []int {
 		out = append(out, m.in.End)
 	}
 	return out
+}
+
+// internal turns an instance route into a model route, or nil when the
+// route does not keep the prefix and suffix the model folds away.
+func (m *model) internal(route []int) []int32 {
+	k := len(route) - len(m.suffix)
+	if m.in.Shape == OpenFixed && m.in.N > 1 {
+		k--
+	}
+	if k < len(m.prefix) {
+		return nil
+	}
+	for i, v := range m.prefix {
+		if route[i] != v {
+			return nil
+		}
+	}
+	for i, v := range m.suffix {
+		if route[k+i] != v {
+			return nil
+		}
+	}
+	r := make([]int32, 0, k-len(m.prefix)+2)
+	r = append(r, int32(m.start))
+	for _, v := range route[len(m.prefix):k] {
+		r = append(r, int32(v))
+	}
+	return append(r, int32(m.end))
 }
 
 var errNoNodes = errors.New("nothing to plan")

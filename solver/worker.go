@@ -3,6 +3,8 @@ package solver
 import (
 	"context"
 	"math"
+
+	"visitline/solver/turn"
 )
 
 // Adaptive weights (Ropke and Pisinger, Transportation Science 40(4), 2006):
@@ -23,8 +25,13 @@ const (
 func (e *engine) work(ctx context.Context, id int, seed int64) {
 	m := e.m
 	s := newSearch(m, seed)
-	if len(m.movable) > 150 {
+	if len(m.movable) > 150 || turn.Enabled {
 		s.pol.halt = func() bool { return e.interrupted(ctx) }
+	}
+	if m.free {
+		// No window can bind: a travelling salesman day.
+		s.openSearch(ctx, e)
+		return
 	}
 	e.mu.Lock()
 	s.weights = append([]float64(nil), e.weights...)
@@ -50,9 +57,15 @@ func (e *engine) work(ctx context.Context, id int, seed int64) {
 
 	// Construction: windows by latest start, then drive time warp to zero.
 	s.cur = newRoute(m, constructOrder(m))
-	if alt := newRoute(m, greedyOrder(m)); alt.total().tw < s.cur.total().tw ||
-		alt.total().tw == s.cur.total().tw && m.cost(alt.total()) < m.cost(s.cur.total()) {
-		s.cur = alt
+	starts := [][]int32{greedyOrder(m)}
+	if len(m.movable) >= nearestStartMin {
+		starts = append(starts, nearestOrder(m))
+	}
+	for _, r := range starts {
+		if alt := newRoute(m, r); alt.total().tw < s.cur.total().tw ||
+			alt.total().tw == s.cur.total().tw && m.cost(alt.total()) < m.cost(s.cur.total()) {
+			s.cur = alt
+		}
 	}
 	s.lam = 1000
 	s.pol.x, s.pol.lam = s.cur, s.lam
@@ -273,6 +286,34 @@ func constructOrder(m *model) []int32 {
 	return append(r, int32(m.end))
 }
 
+// nearestStartMin is the fewest movable visits for which the nearest
+// neighbour tour is tried as a start: on big days with loose windows the
+// orders by window are long zigzags, far from any plan that meets them.
+const nearestStartMin = 500
+
+// nearestOrder is the nearest-neighbour route by travel alone, windows
+// ignored: a start fit for days whose windows are loose.
+func nearestOrder(m *model) []int32 {
+	n := m.n
+	used := make([]bool, n)
+	r := make([]int32, 0, len(m.movable)+2)
+	r = append(r, int32(m.start))
+	cur := m.start
+	for len(r) <= len(m.movable) {
+		next := -1
+		row := m.t[cur*n : cur*n+n]
+		for _, v := range m.movable {
+			if !used[v] && (next < 0 || row[v] < row[next]) {
+				next = v
+			}
+		}
+		used[next] = true
+		r = append(r, int32(next))
+		cur = next
+	}
+	return append(r, int32(m.end))
+}
+
 // warpPositions lists the route positions where time warp arises.
 func warpPositions(x *route) []int {
 	var out []int
@@ -297,6 +338,7 @@ func greedyOrder(m *model) []int32 {
 	r = append(r, int32(m.start))
 	cur, t := m.start, m.startAt+m.s[m.start]
 	for len(left) > 0 {
+		turn.Due()
 		bi, bs := -1, int64(0)
 		ui, us := -1, int64(0)
 		for i, v := range left {

@@ -21,10 +21,10 @@ import (
 	"github.com/stretchr/testify/require"
 )
 
-// sitesDay is an invented day of n visits as a sites CSV with x,y
+// clockDay is an invented day of n visits as a sites CSV with x,y
 // coordinates in km and clock windows built around one random tour at
 // 40 km/h, so that it is feasible.
-func sitesDay(n int, seed uint64) string {
+func clockDay(n int, seed uint64) string {
 	rng := rand.New(rand.NewPCG(seed, 3))
 	var b strings.Builder
 	b.WriteString("id,name,x,y,earliest,latest,service\n")
@@ -246,7 +246,7 @@ func TestDefectTimelineAt200And500Visits(t *testing.T) {
 	ctx, _ := tab(t)
 	viewport(t, ctx, 1366, 768)
 	openPage(t, ctx, "")
-	paste(t, ctx, sitesDay(200, 1))
+	paste(t, ctx, clockDay(200, 1))
 	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 20*time.Second)
 	run(t, ctx, "1")
 	require.Equal(t, 201, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] [data-visit]').length`))
@@ -273,7 +273,7 @@ func TestDefectTimelineAt200And500Visits(t *testing.T) {
 		screenshot(t, ctx, "layout-200-visits")
 	}
 
-	paste(t, ctx, sitesDay(500, 2))
+	paste(t, ctx, clockDay(500, 2))
 	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled && document.getElementById('summary').textContent.includes('500')`, 30*time.Second)
 	run(t, ctx, "1")
 	require.Equal(t, 501, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] [data-visit]').length`))
@@ -367,7 +367,7 @@ func TestDefectNumbersAndBoundInWords(t *testing.T) {
 		}
 	}
 
-	paste(t, ctx, sitesDay(200, 1))
+	paste(t, ctx, clockDay(200, 1))
 	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled && document.getElementById('summary').textContent.includes('200')`, 20*time.Second)
 	setField(t, ctx, "objective", "travel")
 	run(t, ctx, "1")

@@ -34,3 +34,19 @@ func TestReadErrorsNameLineAndField(t *testing.T) {
 		assert.ErrorContains(t, err, c.want, c.in)
 	}
 }
+
+// The TSPLIB folder's optimal.csv has another layout; its family is the
+// folder's name. pcb442's optimal tour length 50778 is TSPLIB's published
+// value (Reinelt 1991, TSPLIB; the shared folder's README).
+func TestReadTSPLIBOptimalTable(t *testing.T) {
+	in := "instance,type,nodes,optimal,source\n" +
+		"pcb442,TSP,442,50778,TSPLIB (Reinelt 1991)\n" +
+		"ft70,ATSP,70,38673,TSPLIB (Reinelt 1991)\n"
+	ks, err := Read(strings.NewReader(in), "benchmarks/tsplib/optimal.csv")
+	require.NoError(t, err)
+	require.Len(t, ks, 2)
+	assert.Equal(t, Known{Family: "tsplib", Instance: "pcb442", Best: 50778, Lower: 50778, HasLower: true, Source: "TSPLIB (Reinelt 1991)", Line: 2}, ks[0])
+	assert.Equal(t, "tsplib/ft70", ks[1].Key())
+	_, err = Read(strings.NewReader("instance,type,nodes,optimal\npcb442,TSP,442,x\n"), "tsplib/optimal.csv")
+	assert.ErrorContains(t, err, `tsplib/optimal.csv:2:4: optimal "x" is not a number`)
+}

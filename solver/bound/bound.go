@@ -33,11 +33,6 @@ type Options struct {
 	// HistoryLabels caps the labels kept over all stages for rebuilding the
 	// route (default 2^25, about 270 MB).
 	HistoryLabels int
-	// Yield is called about every 20 ms of work (the bound also calls
-	// runtime.Gosched every thousand or so steps). In the WebAssembly worker
-	// it should block until the event loop has had a turn, as the engine's
-	// Settings.Pause does, so that messages get in while the bound runs.
-	Yield func()
 	// RelaxShare is the share of the context's remaining time that the
 	// penalty ascent may use before the exact search starts (default 0.3).
 	RelaxShare float64
@@ -173,8 +168,8 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 		b.Notes = append(b.Notes, "invalid instance: "+err.Error())
 		return b
 	}
-	y := &yielder{hook: o.Yield}
-	p := newProb(in)
+	y := &yielder{}
+	p := newProbCtx(ctx, in)
 	obj := o.Objective
 	kind := dpTravel
 	if obj == solver.CompletionTime {

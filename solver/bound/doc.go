@@ -34,7 +34,7 @@
 //
 // The package never prints, never reads files and imports only the engine
 // and the standard library. Long work takes a context.Context, checks it
-// about every thousand steps and gives other goroutines a turn then
-// (runtime.Gosched and Options.Yield), so that it shares the single thread
-// of the WebAssembly build with the engine.
+// about every thousand steps, and under GOOS=js gives the worker's event
+// loop a turn about every 20 ms (package solver/turn), so that a stop or a
+// weight change gets in while it runs.
 package bound

@@ -775,6 +775,7 @@ function wire() {
   const params = new URLSearchParams(location.search);
   if (params.get("example")) state.pendingExample = params.get("example");
   state.engine = connectEngine(onEngine, defaultCores(navigator.hardwareConcurrency), (why) => setStatus("The engine could not start in this browser: " + why, "error"));
+  if (state.engine && state.engine.cores) $("cores").value = String(state.engine.cores);
 }
 
 wire();
