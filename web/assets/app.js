@@ -388,19 +388,25 @@ function showPlan(m) {
 // than the page can draw them are skipped, not queued.
 // A timer, not an animation frame: frames do not come to a tab in the
 // background, and the plan must be there when the user comes back.
+// The wait grows with the drawing time (twice the last one), so that a big
+// day's plans, each taking a good part of a second to draw, leave the page
+// free for the user most of the time.
 let drawTimer = 0;
+let lastDrawMs = 0;
 function drawSoon() {
-  if (!drawTimer) drawTimer = setTimeout(drawNow, 30);
+  if (!drawTimer) drawTimer = setTimeout(drawNow, Math.max(30, 2 * lastDrawMs));
 }
 function drawNow() {
   clearTimeout(drawTimer);
   drawTimer = 0;
   if (!state.plan) return;
-  drawTimeline(state.plan, state.model);
   const t0 = performance.now();
+  drawTimeline(state.plan, state.model);
+  const t1 = performance.now();
   drawTable(state.plan, state.model);
-  $("plan-table").dataset.drawMs = String(Math.round(performance.now() - t0));
+  $("plan-table").dataset.drawMs = String(Math.round(performance.now() - t1));
   chart();
+  lastDrawMs = Math.min(2000, performance.now() - t0);
 }
 
 function chart() {
