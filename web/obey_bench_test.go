@@ -99,6 +99,16 @@ func longTab(t *testing.T, d time.Duration) context.Context {
 	return ctx
 }
 
+// benchOpen is openPage that waits for the document first (a poll begun
+// while the previous page is still being replaced can lose its context).
+func benchOpen(t *testing.T, ctx context.Context) {
+	t.Helper()
+	require.NoError(t, chromedp.Do(ctx, chromedp.Navigate(shared.srv.URL+"/")))
+	require.NoError(t, chromedp.Do(ctx, chromedp.WaitReady("body")))
+	time.Sleep(200 * time.Millisecond)
+	waitFor(t, ctx, `document.body.dataset.engine === "ready"`, 60*time.Second)
+}
+
 func TestBenchBrowser(t *testing.T) {
 	if os.Getenv("VISITLINE_BENCH_BROWSER") == "" {
 		t.Skip("set VISITLINE_BENCH_BROWSER=1 (make bench-browser)")
@@ -112,7 +122,7 @@ func TestBenchBrowser(t *testing.T) {
 	t.Logf("engine.wasm: %d bytes raw", len(files["engine.wasm"]))
 	var ready stats
 	for i := 0; i < 3; i++ {
-		openPage(t, ctx, "")
+		benchOpen(t, ctx)
 		ready.add(eval[float64](t, ctx, `Number(document.body.dataset.readyMs)`))
 	}
 	t.Logf("engine ready after page start: %v", ready)
@@ -139,7 +149,7 @@ func TestBenchBrowser(t *testing.T) {
 		sizes = keep
 	}
 	for _, c := range sizes {
-		openPage(t, ctx, "")
+		benchOpen(t, ctx)
 		loadPaste(t, ctx, c.text())
 		var stop, mix, stopEng, mixEng stats
 		ended := 0
@@ -172,7 +182,7 @@ func TestBenchBrowser(t *testing.T) {
 
 	// Memory at 2,000 sites with 4 search workers and the bound worker.
 	if os.Getenv("VISITLINE_BENCH_MEMORY") != "0" {
-		openPage(t, ctx, "")
+		benchOpen(t, ctx)
 		_, _, fin := engineRun(t, ctx, map[string]any{"type": "load", "text": sitesDay(2000, 6)},
 			map[string]any{"type": "start", "budget": 20, "seed": 1}, 4)
 		total := 0.0
@@ -211,7 +221,7 @@ func TestBenchBrowser(t *testing.T) {
 		_, err = app.Run(context.Background(), d, app.RunOptions{Iterations: rc.iters, Seed: 1, NoBound: true}, app.Hooks{})
 		require.NoError(t, err)
 		native := selfCPU() - c0
-		openPage(t, ctx, "")
+		benchOpen(t, ctx)
 		b0 := browserCPU(t)
 		w0 := time.Now()
 		_, _, fin := engineRun(t, ctx, map[string]any{"type": "load", "text": rc.text},
@@ -247,7 +257,7 @@ func TestBenchBrowser(t *testing.T) {
 		cancel()
 		line := fmt.Sprintf("%s (best known %g): native --workers 1 %s", f, target, secondsOr(reached, limit))
 		for _, cores := range []int{1, 2} {
-			openPage(t, ctx, "")
+			benchOpen(t, ctx)
 			got := eval[float64](t, ctx, fmt.Sprintf(`new Promise(res => {
 			  let t0 = 0, done = false;
 			  const c = VisitlineEngine.create({ cores: %d, onMessage: m => {
