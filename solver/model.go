@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"visitline/solver/turn"
 )
 
 // model is the engine's working copy of an instance: the driven prefix folded
@@ -258,6 +260,7 @@ func (m *model) tighten() {
 	for round := 0; round < 8; round++ {
 		changed := false
 		for _, j := range nodes {
+			turn.Due()
 			lo := Horizon
 			for _, i := range preds {
 				if i == j {
@@ -315,6 +318,7 @@ func (m *model) buildArcs() {
 	n := m.n
 	m.arcOK = make([]bool, n*n)
 	for i := 0; i < n; i++ {
+		turn.Due()
 		for j := 0; j < n; j++ {
 			m.arcOK[i*n+j] = i != j && m.e[i]+m.s[i]+m.tk(i*n+j) <= m.l[j]
 		}
@@ -338,6 +342,7 @@ func (m *model) buildPrecedence() {
 		return
 	}
 	for _, u := range m.movable {
+		turn.Due()
 		for _, k := range m.movable {
 			if u != k && m.e[k]+m.s[k]+m.tk(k*n+u) > m.l[u] {
 				m.before[u][k>>6] |= 1 << (k & 63)
@@ -358,6 +363,34 @@ func (m *model) external(r []int32) []int {
 		out = append(out, m.in.End)
 	}
 	return out
+}
+
+// internal turns an instance route into a model route, or nil when the
+// route does not keep the prefix and suffix the model folds away.
+func (m *model) internal(route []int) []int32 {
+	k := len(route) - len(m.suffix)
+	if m.in.Shape == OpenFixed && m.in.N > 1 {
+		k--
+	}
+	if k < len(m.prefix) {
+		return nil
+	}
+	for i, v := range m.prefix {
+		if route[i] != v {
+			return nil
+		}
+	}
+	for i, v := range m.suffix {
+		if route[k+i] != v {
+			return nil
+		}
+	}
+	r := make([]int32, 0, k-len(m.prefix)+2)
+	r = append(r, int32(m.start))
+	for _, v := range route[len(m.prefix):k] {
+		r = append(r, int32(v))
+	}
+	return append(r, int32(m.end))
 }
 
 var errNoNodes = errors.New("nothing to plan")

@@ -3,6 +3,8 @@ package solver
 import (
 	"context"
 	"math"
+
+	"visitline/solver/turn"
 )
 
 // Adaptive weights (Ropke and Pisinger, Transportation Science 40(4), 2006):
@@ -23,7 +25,7 @@ const (
 func (e *engine) work(ctx context.Context, id int, seed int64) {
 	m := e.m
 	s := newSearch(m, seed)
-	if len(m.movable) > 150 {
+	if len(m.movable) > 150 || turn.Enabled {
 		s.pol.halt = func() bool { return e.interrupted(ctx) }
 	}
 	if m.free {
@@ -298,6 +300,7 @@ func nearestOrder(m *model) []int32 {
 	r = append(r, int32(m.start))
 	cur := m.start
 	for len(r) <= len(m.movable) {
+		turn.Due()
 		next := -1
 		for _, v := range m.movable {
 			if !used[v] && (next < 0 || m.tk(cur*n+v) < m.tk(cur*n+next)) {
@@ -335,6 +338,7 @@ func greedyOrder(m *model) []int32 {
 	r = append(r, int32(m.start))
 	cur, t := m.start, m.startAt+m.s[m.start]
 	for len(left) > 0 {
+		turn.Due()
 		bi, bs := -1, int64(0)
 		ui, us := -1, int64(0)
 		for i, v := range left {

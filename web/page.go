@@ -59,7 +59,7 @@ func Page(d PageData) g.Node {
 		}
 	} else {
 		styleNode = h.Link(h.Rel("stylesheet"), h.Href("style.css"))
-		appNode = h.Script(h.Src("app.js"), h.Defer())
+		appNode = g.Group{h.Script(h.Src("engine-client.js"), h.Defer()), h.Script(h.Src("app.js"), h.Defer())}
 	}
 	exJSON, _ := json.Marshal(d.Examples)
 	return h.Doctype(h.HTML(h.Lang("en"),
@@ -204,6 +204,8 @@ func searchPanel() g.Node {
 				h.Input(h.Type("number"), h.ID("budget"), testid("budget"), h.Min("0.1"), h.Max("3600"), h.Step("any"), h.Value("10"), g.Attr("inputmode", "decimal"))),
 			h.Div(h.Label(h.For("seed"), h.Class("field-label"), g.Text("Seed")),
 				h.Input(h.Type("number"), h.ID("seed"), testid("seed"), h.Min("0"), h.Step("1"), h.Value("1"), g.Attr("inputmode", "numeric"))),
+			h.Div(h.Label(h.For("cores"), h.Class("field-label"), g.Text("Cores to search with")),
+				h.Input(h.Type("number"), h.ID("cores"), testid("cores"), h.Min("1"), h.Max("8"), h.Step("1"), g.Attr("inputmode", "numeric"))),
 		),
 		h.Label(h.For("objective"), h.Class("field-label"), g.Text("Make as small as possible")),
 		h.Select(h.ID("objective"),
@@ -318,12 +320,12 @@ func sha(s string) string {
 // worker and engine inside, for opening from disk with no network.
 func SingleFile(opts Options, ex []Example) ([]byte, error) {
 	worker := string(opts.WasmExec) + "\n;\n" + string(asset("worker.js"))
-	for name, s := range map[string]string{"wasm_exec.js and worker.js": worker, "app.js": string(asset("app.js")), "style.css": string(asset("style.css"))} {
+	for name, s := range map[string]string{"wasm_exec.js and worker.js": worker, "app.js": string(asset("app.js")), "engine-client.js": string(asset("engine-client.js")), "style.css": string(asset("style.css"))} {
 		if strings.Contains(strings.ToLower(s), "</script") || strings.Contains(strings.ToLower(s), "</style") {
 			return nil, fmt.Errorf("web: %s holds a closing tag and cannot be inlined", name)
 		}
 	}
-	app, css := string(asset("app.js")), string(asset("style.css"))
+	app, css := string(asset("engine-client.js"))+"\n;\n"+string(asset("app.js")), string(asset("style.css"))
 	parts := &inlineParts{css: css, app: app, worker: worker,
 		engineB64: base64.StdEncoding.EncodeToString(opts.Engine), csp: singleCSP(sha(app), sha(css))}
 	var b bytes.Buffer

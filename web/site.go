@@ -107,11 +107,12 @@ func Files(opts Options) (map[string][]byte, error) {
 		return nil, fmt.Errorf("web: reading the examples: %w", err)
 	}
 	files := map[string][]byte{
-		"app.js":       asset("app.js"),
-		"worker.js":    asset("worker.js"),
-		"style.css":    asset("style.css"),
-		"engine.wasm":  opts.Engine,
-		"wasm_exec.js": opts.WasmExec,
+		"app.js":           asset("app.js"),
+		"worker.js":        asset("worker.js"),
+		"engine-client.js": asset("engine-client.js"),
+		"style.css":        asset("style.css"),
+		"engine.wasm":      opts.Engine,
+		"wasm_exec.js":     opts.WasmExec,
 	}
 	for _, e := range ex {
 		files["examples/"+e.Key] = []byte(e.Text)

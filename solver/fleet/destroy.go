@@ -103,30 +103,43 @@ func (s *state) related(rng *rand.Rand, q int, sv []int, sc *scratch) []int {
 		seed = sv[rng.Intn(len(sv))]
 		chosen = append(chosen, seed)
 	}
-	pool := append([]int(nil), sv...)
 	refs := []int{seed}
+	var cand []int
+	type rv struct {
+		v int
+		r float64
+	}
+	var list []rv
 	for len(chosen) < q {
-		ref := refs[rng.Intn(len(refs))]
-		var cand []int
-		for _, v := range pool {
-			if s.where[v] >= 0 && v != ref && !contains(chosen, v) {
-				cand = append(cand, v)
+		// The candidates are sorted by relatedness to a reference chosen
+		// at random among the visits taken so far, again every few picks.
+		if len(cand) == 0 || len(chosen)%4 == 0 {
+			ref := refs[rng.Intn(len(refs))]
+			list = list[:0]
+			for _, v := range sv {
+				if v != ref && !contains(chosen, v) {
+					list = append(list, rv{v, rel(ref, v)})
+				}
+			}
+			sort.Slice(list, func(a, b int) bool {
+				if list[a].r != list[b].r {
+					return list[a].r < list[b].r
+				}
+				return list[a].v < list[b].v
+			})
+			cand = cand[:0]
+			for _, e := range list {
+				cand = append(cand, e.v)
 			}
 		}
 		if len(cand) == 0 {
 			break
 		}
-		sort.Slice(cand, func(a, b int) bool {
-			ra, rb := rel(ref, cand[a]), rel(ref, cand[b])
-			if ra != rb {
-				return ra < rb
-			}
-			return cand[a] < cand[b]
-		})
 		// Randomised choice, skewed to the most related (p = 6).
 		x := int(math.Pow(rng.Float64(), 6) * float64(len(cand)))
 		chosen = append(chosen, cand[x])
 		refs = append(refs, cand[x])
+		cand = append(cand[:x], cand[x+1:]...)
 	}
 	return chosen
 }

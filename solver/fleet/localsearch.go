@@ -35,11 +35,20 @@ func (s *state) polish() {
 		}
 		s.exchange()
 		s.twoOptStar()
+		for r := range s.routes {
+			if active[r] {
+				s.twoOpt(r)
+			}
+		}
 		if s.m.types > 1 {
 			s.swapVehicles()
 		}
 	}
 }
+
+// intraReach bounds how far along its own route a visit is moved, so
+// that a polish round stays linear in the route's length.
+const intraReach = 12
 
 // without is route a's summary and cost with its k-th visit taken out.
 func (s *state) without(a, k int) (solver.Seg, int64, bool) {
@@ -81,7 +90,7 @@ func (s *state) relocate(a, k int) bool {
 	if L > 1 {
 		// Earlier places j < k: fwd[j] + v + rt[j..k-1] + bwd[k+1].
 		var mid solver.Seg
-		for j := k - 1; j >= 0; j-- {
+		for j := k - 1; j >= 0 && k-j <= intraReach; j-- {
 			if j == k-1 {
 				mid = m.unit[rt[j]]
 			} else {
@@ -98,7 +107,7 @@ func (s *state) relocate(a, k int) bool {
 		}
 		// Later places j > k: fwd[k] + rt[k+1..j] + v + bwd[j+1].
 		var acc solver.Seg
-		for j := k + 1; j < L; j++ {
+		for j := k + 1; j < L && j-k <= intraReach; j++ {
 			if j == k+1 {
 				acc = solver.JoinSeg(s.fwd[a][k], m.unit[rt[j]], m.tt(s.prevNode(a, k), rt[j]))
 			} else {
@@ -294,6 +303,41 @@ func (s *state) swapVehicles() bool {
 				s.refresh(a)
 				s.refresh(b)
 				improved = true
+			}
+		}
+	}
+	return improved
+}
+
+// twoOpt reverses a stretch of route a (of up to intraReach visits) where
+// that lowers the cost; the reversed stretch is summed again as it grows,
+// so asymmetric travel is exact.
+func (s *state) twoOpt(a int) bool {
+	m := s.m
+	improved := false
+	rt := s.routes[a]
+	for i := 0; i+1 < len(rt); i++ {
+		if s.fwd[a][i].TW > 0 {
+			break
+		}
+		rev := m.unit[rt[i]]
+		for j := i + 1; j < len(rt) && j-i <= intraReach; j++ {
+			rev = solver.JoinSeg(m.unit[rt[j]], rev, m.tt(rt[j], rt[j-1]))
+			x := solver.JoinSeg(s.fwd[a][i], rev, m.tt(s.prevNode(a, i), rt[j]))
+			if x.TW > 0 {
+				continue
+			}
+			x = solver.JoinSeg(x, s.bwd[a][j+1], m.tt(rt[i], s.nextNode(a, j+1)))
+			if m.ok(a, x) && m.routeCost(x) < s.rcost[a] {
+				for l, r := i, j; l < r; l, r = l+1, r-1 {
+					rt[l], rt[r] = rt[r], rt[l]
+				}
+				s.refresh(a)
+				improved = true
+				rev = m.unit[rt[i]]
+				for k := i + 1; k <= j; k++ {
+					rev = solver.JoinSeg(m.unit[rt[k]], rev, m.tt(rt[k], rt[k-1]))
+				}
 			}
 		}
 	}

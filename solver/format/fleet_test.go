@@ -277,3 +277,33 @@ func TestSqrtUpMatchesRational(t *testing.T) {
 		}
 	}
 }
+
+func FuzzReadSolomon(f *testing.F) {
+	f.Add(tinySolomon)
+	f.Add("x\nVEHICLE\nNUMBER CAPACITY\n1 0\nCUSTOMER\n0 0 0 0 0 0 0\n")
+	f.Add("x\nVEHICLE\nNUMBER CAPACITY\n1 5\nCUSTOMER\nCUST\n0 1e9 -1e9 0 0 10 0\n1 0.5 0.25 3 1 2 0\n")
+	f.Fuzz(func(t *testing.T, src string) {
+		p, err := ReadSolomon(strings.NewReader(src), "fuzz")
+		if err == nil {
+			require.NoError(t, p.Validate())
+		}
+	})
+}
+
+func FuzzReadVehicles(f *testing.F) {
+	f.Add(fleetVehicles)
+	f.Add("id,capacity\nA,1.5\nB,\n")
+	f.Add("vehicle;max duration\nX;1:30\nY;7,5\n")
+	f.Fuzz(func(t *testing.T, src string) {
+		v, err := ReadVehicles(strings.NewReader(src), "fuzz")
+		if err != nil {
+			return
+		}
+		d, err := Load(strings.NewReader(fleetSites), nil, Options{SitesName: "s.csv", Speed: 60})
+		require.NoError(t, err)
+		fd, err := FleetFromDataset(d, FleetOptions{Vehicles: v, SitesText: fleetSites})
+		if err == nil {
+			require.NoError(t, fd.Problem.Validate())
+		}
+	})
+}

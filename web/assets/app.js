@@ -82,32 +82,22 @@
     return out;
   }
 
+  // The engine: search workers and a bound worker behind one client
+  // (engine-client.js), which finds the inline sources itself.
   function startWorker() {
-    const inline = $("worker-source");
-    let w;
     try {
-      if (inline) {
-        // Single-file page: a worker cannot be loaded by URL from file://,
-        // so it is made from a Blob and handed the engine's bytes.
-        const url = URL.createObjectURL(new Blob([inline.textContent], { type: "text/javascript" }));
-        w = new Worker(url);
-        const bytes = decodeBase64($("engine-base64").textContent);
-        w.postMessage({ type: "boot", wasm: bytes.buffer }, [bytes.buffer]);
-      } else {
-        w = new Worker("worker.js");
-        w.postMessage({ type: "boot", url: "engine.wasm" });
-      }
+      const cores = $("cores");
+      state.worker = VisitlineEngine.create({ onMessage: onEngine, cores: cores && cores.value ? Number(cores.value) : undefined });
+      if (cores) cores.value = String(state.worker.cores);
     } catch (e) {
       setStatus("The engine could not start in this browser: " + e.message, "error");
-      return;
     }
-    w.onmessage = (ev) => onEngine(ev.data);
-    w.onerror = (ev) => setStatus("The engine stopped with an error: " + (ev.message || "unknown"), "error");
-    state.worker = w;
   }
 
   function send(msg) {
-    if (state.worker) state.worker.postMessage(msg);
+    if (!state.worker) return;
+    if (msg.type === "start" && $("cores")) msg.cores = Number($("cores").value) || undefined;
+    state.worker.send(msg);
   }
 
   function onEngine(m) {
