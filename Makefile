@@ -6,7 +6,7 @@ BENCH_DIR ?= ../shared/benchmarks/tsptw
 BENCH_BUDGETS ?= --budget 10s --budget-for OhlmannThomas=30s
 BENCH_FLAGS = --workers 1 --bounds $(BENCH_DIR)/best-known.csv
 
-.PHONY: all build lab wasm-cli test bench bench-kernels bench-quick bench-scale bench-wasm bench-workers pgo bound-report demo demo-cli vet fmt site clean
+.PHONY: all build lab wasm-cli test bench-browser bench bench-kernels bench-quick bench-scale bench-wasm bench-workers pgo bound-report demo demo-cli vet fmt site clean
 PORT ?= 8080
 
 all: build
@@ -21,6 +21,7 @@ lab:
 test:
 	$(GO) vet ./...
 	$(GO) test -count=1 ./...
+	node --test web/jstest/
 
 # The full run takes about 80 minutes on one core: it writes
 # docs/bench-results.json after every instance, the README's results table and
@@ -87,8 +88,24 @@ pgo: lab bin/gen/n300-tight.txt
 	./bin/visitline-lab bench --budget 0 --iterations 1500 --quiet --cpuprofile cmd/visitline/default.pgo $(PGO_FILES)
 	cp cmd/visitline/default.pgo cmd/visitline-lab/default.pgo
 
+# The page in headless Chromium: Stop and weight changes at 60 to 2,000
+# sites with the bound on (BENCH_TRIES tries each), the engine's ready time,
+# the per-worker rate against native by CPU time, and (BENCH_BEST=1) the time
+# to the best-known value with 1 and 2 search workers against native.
+BENCH_TRIES ?= 10
+BENCH_BEST ?= 1
+bench-browser:
+	VISITLINE_BENCH_BROWSER=1 VISITLINE_BENCH_TRIES=$(BENCH_TRIES) VISITLINE_BENCH_BEST=$(BENCH_BEST) \
+		$(GO) test -count=1 -timeout 0 -run '^TestBenchBrowser$$' -v ./web | tee bench-browser.txt
+
+# The bound report: CPU-time budgets per instance, one thread. BOUND_FILTER
+# takes instance-name parts, comma-separated (e.g. .001,.002).
+BOUND_FAMILIES ?= Dumas,GendreauDumasExtended
+BOUND_BUDGET ?= 10s
+BOUND_FILTER ?=
 bound-report:
-	VISITLINE_BOUND_REPORT=Dumas,GendreauDumasExtended VISITLINE_BOUND_BUDGET=10s GOMAXPROCS=1 $(GO) test -count=1 -timeout 0 -run TestBoundReport -v ./solver/bound
+	VISITLINE_BOUND_REPORT=$(BOUND_FAMILIES) VISITLINE_BOUND_BUDGET=$(BOUND_BUDGET) VISITLINE_BOUND_FILTER=$(BOUND_FILTER) \
+		VISITLINE_BOUND_CPU=1 GOMAXPROCS=1 $(GO) test -count=1 -timeout 0 -run TestBoundReport -v ./solver/bound
 
 # The static site: dist/index.html, engine.wasm, wasm_exec.js, scripts,
 # styles, examples, and dist/visitline.html (one self-contained file).

@@ -7,6 +7,8 @@ package solver
 // stretch, the part between (grown one node at a time as the scan goes on),
 // and the part after.
 
+import "visitline/solver/turn"
+
 const improveEps = 1e-7
 
 type polisher struct {
@@ -16,8 +18,10 @@ type polisher struct {
 	maxScan int // how far a stretch may move, in positions
 	buf     []int32
 	moves   int
-	// halt, when set, is asked between passes whether to stop at once.
-	halt func() bool
+	// halt, when set, is asked between passes (and within them, see
+	// stopNow) whether to stop at once.
+	halt  func() bool
+	steps int
 	// active marks the nodes whose surroundings changed ("don't look
 	// bits"): a node stays quiet until a move touches an arc next to it.
 	active []bool
@@ -41,6 +45,21 @@ func (p *polisher) wakeAround(i int) {
 			p.active[r[k]] = true
 		}
 	}
+}
+
+// stopNow asks halt, within a pass, whether to stop at once: every 64
+// positions natively (so that a pass over a large route keeps the budget),
+// at every position under GOOS=js, where halt also gives the host its
+// turns when they are due.
+func (p *polisher) stopNow() bool {
+	if p.halt == nil {
+		return false
+	}
+	p.steps++
+	if !turn.Enabled && p.steps&63 != 0 {
+		return false
+	}
+	return p.halt()
 }
 
 // run improves x until no move helps or budget moves were made.
@@ -91,6 +110,9 @@ func (p *polisher) orOpt() bool {
 	x, m := p.x, p.m
 	improvedAny := false
 	for i := 1; i <= len(x.r)-2; i++ {
+		if p.stopNow() {
+			return improvedAny
+		}
 		if !p.active[x.r[i]] {
 			continue
 		}
@@ -213,6 +235,9 @@ func (p *polisher) twoOpt() bool {
 	improvedAny := false
 	feasible := x.total().tw == 0
 	for i := 1; i < len(x.r)-2; i++ {
+		if p.stopNow() {
+			return improvedAny
+		}
 		if !p.active[x.r[i]] && !p.active[x.r[i-1]] {
 			continue
 		}
@@ -250,6 +275,9 @@ func (p *polisher) swap() bool {
 	x, m := p.x, p.m
 	improvedAny := false
 	for i := 1; i < len(x.r)-2; i++ {
+		if p.stopNow() {
+			return improvedAny
+		}
 		if !p.active[x.r[i]] {
 			continue
 		}

@@ -3,7 +3,10 @@ package solver
 import (
 	"errors"
 	"fmt"
+	"math"
 	"sort"
+
+	"visitline/solver/turn"
 )
 
 // model is the engine's working copy of an instance: the driven prefix folded
@@ -13,8 +16,11 @@ import (
 type model struct {
 	in  *Instance
 	obj Objective
-	n   int     // nodes in the model: the instance's plus the sentinel
-	t   []int64 // n×n travel; row sentinel unused
+	n   int // nodes in the model: the instance's plus the sentinel
+	// t32 or t64 is the n×n travel (row sentinel unused), in int32 when
+	// every value fits (half the memory of the instance's own copy).
+	t32 []int32
+	t64 []int64
 	s   []int64 // service
 	e   []int64 // tightened earliest start
 	l   []int64 // tightened latest start
@@ -35,9 +41,29 @@ type model struct {
 	infeas  bool       // tightening proved that no plan meets every window
 	fewest  bool       // rank late plans by late visits first
 	arcOK   []bool     // arc i→j can be in a feasible plan
+	// free: no window can bind (windowsFree), and the day is searched as an
+	// open day (open.go); arcOK and before are then left out.
+	free bool
 }
 
-func (m *model) T(i, j int) int64 { return m.t[i*m.n+j] }
+func (m *model) T(i, j int) int64 { return m.tk(i*m.n + j) }
+
+// tk is entry k of the travel matrix.
+func (m *model) tk(k int) int64 {
+	if m.t32 != nil {
+		return int64(m.t32[k])
+	}
+	return m.t64[k]
+}
+
+// setT sets entry k of the travel matrix.
+func (m *model) setT(k int, v int64) {
+	if m.t32 != nil {
+		m.t32[k] = int32(v)
+	} else {
+		m.t64[k] = v
+	}
+}
 
 func (m *model) mustBefore(u, k int) bool { return m.before[u][k>>6]>>(k&63)&1 == 1 }
 
@@ -55,12 +81,25 @@ func newModel(in *Instance, obj Objective) (*model, error) {
 	N := in.N
 	n := N + 1
 	m := &model{in: in, obj: obj, n: n, end: N}
-	m.t = make([]int64, n*n)
+	fits := true
+	for _, v := range in.Travel {
+		if v > math.MaxInt32 {
+			fits = false
+			break
+		}
+	}
+	if fits {
+		m.t32 = make([]int32, n*n)
+	} else {
+		m.t64 = make([]int64, n*n)
+	}
 	m.s = make([]int64, n)
 	m.e = make([]int64, n)
 	m.l = make([]int64, n)
 	for i := 0; i < N; i++ {
-		copy(m.t[i*n:i*n+N], in.Travel[i*N:(i+1)*N])
+		for j, v := range in.Travel[i*N : (i+1)*N] {
+			m.setT(i*n+j, v)
+		}
 		m.s[i], m.e[i], m.l[i] = in.Service[i], in.Early[i], in.Late[i]
 	}
 	// Prefix: the driven visits, then visits pinned to the next positions.
@@ -157,10 +196,10 @@ func newModel(in *Instance, obj Objective) (*model, error) {
 		first = tail[0]
 		endSeg = seg{d: m.s[first], e: m.e[first], l: m.l[first]}
 		for k := 1; k < len(tail); k++ {
-			endSeg = join(endSeg, seg{d: m.s[tail[k]], e: m.e[tail[k]], l: m.l[tail[k]]}, m.t[tail[k-1]*n+tail[k]])
+			endSeg = join(endSeg, seg{d: m.s[tail[k]], e: m.e[tail[k]], l: m.l[tail[k]]}, m.tk(tail[k-1]*n+tail[k]))
 		}
 		if in.Shape == Closed {
-			endSeg = join(endSeg, seg{e: -Horizon, l: in.Late[in.Start]}, m.t[tail[len(tail)-1]*n+in.Start])
+			endSeg = join(endSeg, seg{e: -Horizon, l: in.Late[in.Start]}, m.tk(tail[len(tail)-1]*n+in.Start))
 		}
 		m.e[N], m.l[N] = endSeg.e, endSeg.l
 	case in.Shape == Closed:
@@ -175,11 +214,17 @@ func newModel(in *Instance, obj Objective) (*model, error) {
 	m.endSeg = endSeg
 	for i := 0; i < N; i++ {
 		if first >= 0 {
-			m.t[i*n+N] = in.Travel[i*N+first]
+			m.setT(i*n+N, in.Travel[i*N+first])
 		}
 	}
 	m.origE = append([]int64(nil), m.e...)
 	m.origL = append([]int64(nil), m.l...)
+	if len(m.movable) >= openMin && m.windowsFree() {
+		// No window can bind: nothing to tighten, no arc or order to
+		// rule out; the open-day search needs none of it (open.go).
+		m.free = true
+		return m, nil
+	}
 	if debugMode != "notight" {
 		m.tighten()
 	}
@@ -215,12 +260,13 @@ func (m *model) tighten() {
 	for round := 0; round < 8; round++ {
 		changed := false
 		for _, j := range nodes {
+			turn.Due()
 			lo := Horizon
 			for _, i := range preds {
 				if i == j {
 					continue
 				}
-				a := m.e[i] + m.s[i] + m.t[i*n+j]
+				a := m.e[i] + m.s[i] + m.tk(i*n+j)
 				if a <= m.l[j] && a < lo {
 					lo = a
 				}
@@ -237,10 +283,10 @@ func (m *model) tighten() {
 				if k == j {
 					continue
 				}
-				if m.e[j]+m.s[j]+m.t[j*n+k] > m.l[k] {
+				if m.e[j]+m.s[j]+m.tk(j*n+k) > m.l[k] {
 					continue
 				}
-				b := m.l[k] - m.s[j] - m.t[j*n+k]
+				b := m.l[k] - m.s[j] - m.tk(j*n+k)
 				if b > hi {
 					hi = b
 				}
@@ -272,8 +318,9 @@ func (m *model) buildArcs() {
 	n := m.n
 	m.arcOK = make([]bool, n*n)
 	for i := 0; i < n; i++ {
+		turn.Due()
 		for j := 0; j < n; j++ {
-			m.arcOK[i*n+j] = i != j && m.e[i]+m.s[i]+m.t[i*n+j] <= m.l[j]
+			m.arcOK[i*n+j] = i != j && m.e[i]+m.s[i]+m.tk(i*n+j) <= m.l[j]
 		}
 	}
 }
@@ -295,8 +342,9 @@ func (m *model) buildPrecedence() {
 		return
 	}
 	for _, u := range m.movable {
+		turn.Due()
 		for _, k := range m.movable {
-			if u != k && m.e[k]+m.s[k]+m.t[k*n+u] > m.l[u] {
+			if u != k && m.e[k]+m.s[k]+m.tk(k*n+u) > m.l[u] {
 				m.before[u][k>>6] |= 1 << (k & 63)
 			}
 		}
@@ -315,6 +363,34 @@ func (m *model) external(r []int32) []int {
 		out = append(out, m.in.End)
 	}
 	return out
+}
+
+// internal turns an instance route into a model route, or nil when the
+// route does not keep the prefix and suffix the model folds away.
+func (m *model) internal(route []int) []int32 {
+	k := len(route) - len(m.suffix)
+	if m.in.Shape == OpenFixed && m.in.N > 1 {
+		k--
+	}
+	if k < len(m.prefix) {
+		return nil
+	}
+	for i, v := range m.prefix {
+		if route[i] != v {
+			return nil
+		}
+	}
+	for i, v := range m.suffix {
+		if route[k+i] != v {
+			return nil
+		}
+	}
+	r := make([]int32, 0, k-len(m.prefix)+2)
+	r = append(r, int32(m.start))
+	for _, v := range route[len(m.prefix):k] {
+		r = append(r, int32(v))
+	}
+	return append(r, int32(m.end))
 }
 
 var errNoNodes = errors.New("nothing to plan")

@@ -125,9 +125,12 @@ type Settings struct {
 	// MixUpdates, when set, is polled between iterations; a Mix received
 	// replaces the weights (and restarts their adaptation from it).
 	MixUpdates <-chan Mix
-	// Pause, when set, is called at every progress tick: the web worker uses
-	// it to give its event loop a turn.
-	Pause func()
+	// Adopt, when set, is polled between iterations: a route received
+	// (another search's best, as the page shares it between its workers)
+	// becomes this run's best when it is better, and the search restarts
+	// from it at its next restart, as workers of one run share their best.
+	// It is not reported to OnImprove: the sender has it already.
+	Adopt <-chan []int
 }
 
 // Plan is one route with its schedule and where it came from.
@@ -159,7 +162,11 @@ type Result struct {
 	Iterations   int
 	Elapsed      time.Duration
 	Improvements int
-	// Stop says why the search ended: "budget", "iterations", "cancelled"
-	// or "complete" (nothing left to search: proven best for tiny instances).
-	Stop string
+	// Stop says why the search ended (never StopError: Solve returns an
+	// error then).
+	Stop Stop
+	// FirstPlan is when the first plan was ready, from the call: when it
+	// is past the budget, the budget was too short for a first plan and
+	// the plan returned is the construction's.
+	FirstPlan time.Duration
 }

@@ -5,6 +5,8 @@ import (
 	"runtime"
 	"sync"
 	"time"
+
+	"visitline/solver/turn"
 )
 
 // Solve searches for the best plan of in within the limits of s and returns
@@ -13,6 +15,8 @@ import (
 // iteration budget (and no mix changes during the run) a run is
 // reproducible.
 func Solve(ctx context.Context, in *Instance, s Settings) (Result, error) {
+	// The budget counts from here: building the model is part of it.
+	start := time.Now()
 	if err := in.Validate(); err != nil {
 		return Result{}, err
 	}
@@ -21,7 +25,7 @@ func Solve(ctx context.Context, in *Instance, s Settings) (Result, error) {
 		return Result{}, err
 	}
 	m.fewest = s.FewestLate
-	e := &engine{m: m, set: s, start: time.Now()}
+	e := &engine{m: m, set: s, start: start}
 	if e.set.ProgressEvery <= 0 {
 		e.set.ProgressEvery = 50 * time.Millisecond
 	}
@@ -60,7 +64,11 @@ func Solve(ctx context.Context, in *Instance, s Settings) (Result, error) {
 		}
 		wg.Wait()
 	}
-	res := Result{Best: e.best, Iterations: e.iters, Elapsed: time.Since(e.start), Improvements: e.improvements, Stop: e.stop}
+	res := Result{Best: e.best, Iterations: e.iters, Elapsed: time.Since(e.start), Improvements: e.improvements, Stop: e.stop, FirstPlan: e.first}
+	if !e.done {
+		// A worker ended on its own (nothing left to search).
+		res.Stop = StopComplete
+	}
 	if res.Best.Route == nil { // nothing found: cannot happen with ≥ 1 construction
 		res.Best = e.planOf(identityRoute(m), 0, "construct")
 	}
@@ -103,8 +111,9 @@ type engine struct {
 	bestRoute    []int32
 	iters        int
 	improvements int
-	stop         string
+	stop         Stop
 	done         bool
+	first        time.Duration // when the first plan was offered
 	weights      []float64
 	lastTick     time.Time
 }
@@ -142,6 +151,9 @@ func (e *engine) offerExternal(route []int, op string) bool {
 	if e.haveBest && !e.better(p, e.best) {
 		return false
 	}
+	if !e.haveBest {
+		e.first = time.Since(e.start)
+	}
 	e.haveBest = true
 	e.best = p
 	e.bestTW = 1 // not from a model route: workers keep their own
@@ -172,6 +184,9 @@ func (e *engine) better(a, b Plan) bool {
 }
 
 func (e *engine) take(r []int32, t seg, p Plan) {
+	if !e.haveBest {
+		e.first = time.Since(e.start)
+	}
 	e.haveBest = true
 	e.bestTW, e.bestVal = t.tw, e.m.cost(t)
 	e.bestRoute = append(e.bestRoute[:0], r...)
@@ -205,16 +220,16 @@ func (e *engine) tick(ctx context.Context) (goOn bool, mixChanged []float64) {
 	}
 	e.iters++
 	if e.set.Iterations > 0 && e.iters >= e.set.Iterations {
-		e.finish("iterations")
+		e.finish(StopIterations)
 		return false, nil
 	}
 	if ctx.Err() != nil {
-		e.finish("cancelled")
+		e.finish(StopOf(ctx))
 		return false, nil
 	}
 	now := time.Now()
 	if !e.deadline.IsZero() && !now.Before(e.deadline) {
-		e.finish("budget")
+		e.finish(StopBudget)
 		return false, nil
 	}
 	if e.set.MixUpdates != nil {
@@ -232,23 +247,61 @@ func (e *engine) tick(ctx context.Context) (goOn bool, mixChanged []float64) {
 		default:
 		}
 	}
+	if e.set.Adopt != nil {
+		select {
+		case r := <-e.set.Adopt:
+			e.adopt(r)
+		default:
+		}
+	}
 	e.heartbeat(now)
 	return true, mixChanged
+}
+
+// adopt takes an instance route from outside as the best when it is better
+// (a route that does not fit is ignored). Call with e.mu held.
+func (e *engine) adopt(route []int) {
+	if CheckRoute(e.m.in, route) != nil {
+		return
+	}
+	r := e.m.internal(route)
+	if r == nil {
+		return
+	}
+	t := newRoute(e.m, r).total()
+	p := e.planOf(r, e.iters, "shared")
+	if e.haveBest && !e.better(p, e.best) {
+		return
+	}
+	if !e.haveBest {
+		e.first = time.Since(e.start)
+	}
+	e.haveBest = true
+	e.bestTW, e.bestVal = t.tw, e.m.cost(t)
+	e.bestRoute = append(e.bestRoute[:0], r...)
+	e.best = p
 }
 
 // heartbeat reports progress and gives the host a turn when due. Call with
 // e.mu held.
 func (e *engine) heartbeat(now time.Time) {
 	if now.Sub(e.lastTick) < e.set.ProgressEvery {
+		e.giveTurn()
 		return
 	}
 	e.lastTick = now
 	if e.set.OnProgress != nil {
 		e.set.OnProgress(Progress{Iteration: e.iters, Elapsed: now.Sub(e.start), BestCost: e.best.Cost, Feasible: e.best.Feasible, Weights: normalised(e.weights)})
 	}
-	if e.set.Pause != nil {
+	e.giveTurn()
+}
+
+// giveTurn lets the host's event loop run when it is due (under GOOS=js;
+// natively it compiles to nothing). Call with e.mu held.
+func (e *engine) giveTurn() {
+	if turn.Enabled {
 		e.mu.Unlock()
-		e.set.Pause()
+		turn.Due()
 		e.mu.Lock()
 	}
 }
@@ -262,19 +315,19 @@ func (e *engine) interrupted(ctx context.Context) bool {
 		return true
 	}
 	if ctx.Err() != nil {
-		e.finish("cancelled")
+		e.finish(StopOf(ctx))
 		return true
 	}
 	now := time.Now()
 	if !e.deadline.IsZero() && !now.Before(e.deadline) {
-		e.finish("budget")
+		e.finish(StopBudget)
 		return true
 	}
 	e.heartbeat(now)
 	return false
 }
 
-func (e *engine) finish(why string) {
+func (e *engine) finish(why Stop) {
 	if !e.done {
 		e.done, e.stop = true, why
 	}

@@ -182,7 +182,7 @@ func TestSolveDeterministicForSeed(t *testing.T) {
 	assert.Equal(t, a.Best.Route, b.Best.Route)
 	assert.Equal(t, a.Best.Cost, b.Best.Cost)
 	assert.Equal(t, a.Improvements, b.Improvements)
-	assert.Equal(t, "iterations", a.Stop)
+	assert.Equal(t, StopIterations, a.Stop)
 }
 
 func TestSolveInfeasibleLeastLateness(t *testing.T) {
@@ -213,7 +213,7 @@ func TestSolveStopsOnCancel(t *testing.T) {
 		}
 	}})
 	require.NoError(t, err)
-	assert.Equal(t, "cancelled", res.Stop)
+	assert.Equal(t, StopStopped, res.Stop)
 	checkPlan(t, in, TravelTime, res.Best)
 }
 

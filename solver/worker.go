@@ -3,6 +3,8 @@ package solver
 import (
 	"context"
 	"math"
+
+	"visitline/solver/turn"
 )
 
 // Adaptive weights (Ropke and Pisinger, Transportation Science 40(4), 2006):
@@ -23,8 +25,13 @@ const (
 func (e *engine) work(ctx context.Context, id int, seed int64) {
 	m := e.m
 	s := newSearch(m, seed)
-	if len(m.movable) > 150 {
+	if len(m.movable) > 150 || turn.Enabled {
 		s.pol.halt = func() bool { return e.interrupted(ctx) }
+	}
+	if m.free {
+		// No window can bind: a travelling salesman day.
+		s.openSearch(ctx, e)
+		return
 	}
 	e.mu.Lock()
 	s.weights = append([]float64(nil), e.weights...)
@@ -39,7 +46,7 @@ func (e *engine) work(ctx context.Context, id int, seed int64) {
 	arcN := 0
 	for i := 0; i < m.n*m.n && arcN < 200000; i++ {
 		if m.arcOK[i] {
-			arcSum += float64(m.t[i])
+			arcSum += float64(m.tk(i))
 			arcN++
 		}
 	}
@@ -50,9 +57,15 @@ func (e *engine) work(ctx context.Context, id int, seed int64) {
 
 	// Construction: windows by latest start, then drive time warp to zero.
 	s.cur = newRoute(m, constructOrder(m))
-	if alt := newRoute(m, greedyOrder(m)); alt.total().tw < s.cur.total().tw ||
-		alt.total().tw == s.cur.total().tw && m.cost(alt.total()) < m.cost(s.cur.total()) {
-		s.cur = alt
+	starts := [][]int32{greedyOrder(m)}
+	if len(m.movable) >= nearestStartMin {
+		starts = append(starts, nearestOrder(m))
+	}
+	for _, r := range starts {
+		if alt := newRoute(m, r); alt.total().tw < s.cur.total().tw ||
+			alt.total().tw == s.cur.total().tw && m.cost(alt.total()) < m.cost(s.cur.total()) {
+			s.cur = alt
+		}
 	}
 	s.lam = 1000
 	s.pol.x, s.pol.lam = s.cur, s.lam
@@ -273,6 +286,34 @@ func constructOrder(m *model) []int32 {
 	return append(r, int32(m.end))
 }
 
+// nearestStartMin is the fewest movable visits for which the nearest
+// neighbour tour is tried as a start: on big days with loose windows the
+// orders by window are long zigzags, far from any plan that meets them.
+const nearestStartMin = 500
+
+// nearestOrder is the nearest-neighbour route by travel alone, windows
+// ignored: a start fit for days whose windows are loose.
+func nearestOrder(m *model) []int32 {
+	n := m.n
+	used := make([]bool, n)
+	r := make([]int32, 0, len(m.movable)+2)
+	r = append(r, int32(m.start))
+	cur := m.start
+	for len(r) <= len(m.movable) {
+		turn.Due()
+		next := -1
+		for _, v := range m.movable {
+			if !used[v] && (next < 0 || m.tk(cur*n+v) < m.tk(cur*n+next)) {
+				next = v
+			}
+		}
+		used[next] = true
+		r = append(r, int32(next))
+		cur = next
+	}
+	return append(r, int32(m.end))
+}
+
 // warpPositions lists the route positions where time warp arises.
 func warpPositions(x *route) []int {
 	var out []int
@@ -297,10 +338,11 @@ func greedyOrder(m *model) []int32 {
 	r = append(r, int32(m.start))
 	cur, t := m.start, m.startAt+m.s[m.start]
 	for len(left) > 0 {
+		turn.Due()
 		bi, bs := -1, int64(0)
 		ui, us := -1, int64(0)
 		for i, v := range left {
-			arr := t + m.t[cur*n+v]
+			arr := t + m.tk(cur*n+v)
 			st := max(arr, m.e[v])
 			if bi < 0 || st < bs {
 				bi, bs = i, st
@@ -312,11 +354,11 @@ func greedyOrder(m *model) []int32 {
 		pick := bi
 		// Going to the soonest first would make the most urgent late.
 		v := left[bi]
-		if ui != bi && bs+m.s[v]+m.t[v*n+left[ui]] > m.l[left[ui]] {
+		if ui != bi && bs+m.s[v]+m.tk(v*n+left[ui]) > m.l[left[ui]] {
 			pick = ui
 		}
 		v = left[pick]
-		arr := t + m.t[cur*n+v]
+		arr := t + m.tk(cur*n+v)
 		t = max(arr, m.e[v]) + m.s[v]
 		cur = v
 		r = append(r, int32(v))

@@ -12,23 +12,26 @@ import (
 	"time"
 
 	"visitline/solver"
+	"visitline/solver/app"
 	"visitline/solver/bound"
 	"visitline/solver/format"
 )
 
-// solve is the search the engine runs (a variable so that tests can watch
-// the engine's side of the contract with a search of their own).
-var solve = solver.Solve
+// planEvery is the least time between two plans posted to the page, for a
+// day of n nodes: 50 ms, longer for large days, whose plans are large
+// messages for the page to take in.
+func planEvery(n int) time.Duration {
+	return max(50*time.Millisecond, time.Duration(n)*time.Millisecond/2)
+}
 
-// planEvery is the least time between two plans posted to the page.
-const planEvery = 50 * time.Millisecond
+// maxBudget is the longest budget the page may ask for, in seconds.
+const maxBudget = 3600
 
 // Engine is the worker's state: the loaded instance and the running search.
 // Handle must be called from one goroutine at a time; post may be called
 // from the search's goroutine too.
 type Engine struct {
-	post  func([]byte)
-	pause func()
+	post func([]byte)
 
 	mu  sync.Mutex
 	d   *format.Dataset
@@ -40,17 +43,18 @@ type run struct {
 	id     int
 	cancel context.CancelFunc
 	mix    chan solver.Mix
+	adopt  chan []int
 	done   chan struct{}
 	start  time.Time
 }
 
-// NewEngine makes an engine that sends its messages (JSON text) with post
-// and gives the host a turn with pause while a search runs.
-func NewEngine(post func([]byte), pause func()) *Engine {
-	return &Engine{post: post, pause: pause}
+// NewEngine makes an engine that sends its messages (JSON text) with post.
+// While a search runs, the host gets its turns through package turn.
+func NewEngine(post func([]byte)) *Engine {
+	return &Engine{post: post}
 }
 
-func (e *Engine) send(msg map[string]any) {
+func (e *Engine) send(msg any) {
 	var b bytes.Buffer
 	enc := json.NewEncoder(&b)
 	enc.SetEscapeHTML(false)
@@ -63,18 +67,23 @@ func (e *Engine) send(msg map[string]any) {
 }
 
 func (e *Engine) fail(format string, a ...any) {
-	e.send(map[string]any{"type": "failed", "message": fmt.Sprintf(format, a...)})
+	e.send(failedMsg{Type: "failed", Message: fmt.Sprintf(format, a...)})
 }
 
 // Ready announces the engine to the page.
 func (e *Engine) Ready() {
-	e.send(map[string]any{"type": "ready", "operators": solver.Operators})
+	e.send(readyMsg{Type: "ready", Operators: solver.Operators})
 }
 
 // Handle acts on one message from the page (JSON text).
 func (e *Engine) Handle(raw string) {
 	var m inbound
 	if err := json.Unmarshal([]byte(raw), &m); err != nil {
+		var te *json.UnmarshalTypeError
+		if errors.As(err, &te) {
+			// The start options are embedded: name the field as the page does.
+			te.Field = strings.TrimPrefix(te.Field, "RunOptions.")
+		}
 		e.fail("message is not valid JSON: %s", format.JSONError(err))
 		return
 	}
@@ -87,12 +96,14 @@ func (e *Engine) Handle(raw string) {
 		e.start(m)
 	case "mix":
 		e.changeMix(m)
+	case "adopt":
+		e.adoptPlan(m)
 	case "stop":
 		e.stopRun()
 	case "export":
 		e.export(m)
 	default:
-		e.fail("unknown message type %q; want load, start, mix, stop or export", m.Type)
+		e.fail("unknown message type %q; want load, start, mix, adopt, stop or export", m.Type)
 	}
 }
 
@@ -102,23 +113,32 @@ func (e *Engine) load(m inbound) {
 		name = "pasted text"
 	}
 	if strings.TrimSpace(m.Text) == "" {
-		e.send(map[string]any{"type": "errors", "errors": []InputError{{File: name, Line: 1, Message: "there is no data: paste a matrix or CSV, or choose a file",
+		e.send(errorsMsg{Type: "errors", Errors: []InputError{{File: name, Line: 1, Message: "there is no data: paste a matrix or CSV, or choose a file",
 			Text: name + ":1: there is no data: paste a matrix or CSV, or choose a file"}}})
 		return
 	}
-	m.Name = name
-	d, err := loadDataset(m)
+	var matrix *strings.Reader
+	if strings.TrimSpace(m.Matrix) != "" {
+		matrix = strings.NewReader(m.Matrix)
+	}
+	var d *format.Dataset
+	var err error
+	if matrix != nil {
+		d, err = app.Load(strings.NewReader(m.Text), matrix, name, m.MatrixName, m.Options)
+	} else {
+		d, err = app.Load(strings.NewReader(m.Text), nil, name, m.MatrixName, m.Options)
+	}
 	if err != nil {
 		e.mu.Lock()
 		e.d = nil
 		e.mu.Unlock()
-		e.send(map[string]any{"type": "errors", "errors": inputErrors(err, name)})
+		e.send(errorsMsg{Type: "errors", Errors: inputErrors(err, name)})
 		return
 	}
 	e.mu.Lock()
 	e.d = d
 	e.mu.Unlock()
-	e.send(map[string]any{"type": "loaded", "summary": SummariseDataset(d)})
+	e.send(loadedMsg{Type: "loaded", Summary: SummariseDataset(d)})
 }
 
 func (e *Engine) start(m inbound) {
@@ -129,16 +149,25 @@ func (e *Engine) start(m inbound) {
 		e.fail("no data is loaded: load a file, a paste or an example first")
 		return
 	}
-	if !(m.Budget > 0 && m.Budget <= 3600) {
-		e.fail("budget %s s: want seconds above 0 and at most 3600", strconv.FormatFloat(m.Budget, 'g', -1, 64))
+	o := m.RunOptions
+	if !(o.Budget > 0 && o.Budget <= maxBudget) && !(o.Budget == 0 && o.Iterations > 0) {
+		e.fail("budget %s s: want seconds above 0 and at most %d", strconv.FormatFloat(o.Budget, 'g', -1, 64), maxBudget)
 		return
 	}
-	mix, err := checkMix(m.Mix)
-	if err != nil {
-		e.fail("mix: %v", err)
+	if o.Workers > 1 {
+		o.Workers = 1 // one thread per worker: the page runs more workers instead
+	}
+	switch m.Role {
+	case "", "search", "bound":
+	default:
+		e.fail("role %q: want search, bound or nothing (both)", m.Role)
 		return
 	}
-	obj, err := solver.ParseObjective(m.Objective)
+	if m.Role == "search" {
+		o.NoBound = true
+		o.Seed += int64(m.Worker) * 7919
+	}
+	s, err := o.Settings()
 	if err != nil {
 		e.fail("%v", err)
 		return
@@ -146,12 +175,15 @@ func (e *Engine) start(m inbound) {
 	ctx, cancel := context.WithCancel(context.Background())
 	e.mu.Lock()
 	e.ids++
-	r := &run{id: e.ids, cancel: cancel, mix: make(chan solver.Mix, 1), done: make(chan struct{}), start: time.Now()}
+	r := &run{id: e.ids, cancel: cancel, mix: make(chan solver.Mix, 1), adopt: make(chan []int, 4), done: make(chan struct{}), start: time.Now()}
 	e.cur = r
 	e.mu.Unlock()
-	budget := time.Duration(m.Budget * float64(time.Second))
-	e.send(map[string]any{"type": "started", "run": r.id, "budget": m.Budget, "seed": m.Seed, "mix": mixOut(mix), "fixed": m.Fixed, "objective": obj.String()})
-	go e.search(ctx, r, d, solver.Settings{Budget: budget, Seed: m.Seed, Mix: mix, FixedMix: m.Fixed, Objective: obj, FewestLate: m.FewestLate}, !m.NoBound)
+	e.send(startedMsg{Type: "started", Run: r.id, Role: m.Role, Budget: o.Budget, Seed: o.Seed, Mix: mixOut(s.Mix), Fixed: o.Fixed, Objective: s.Objective.String()})
+	if m.Role == "bound" {
+		go e.boundSide(ctx, r, d, s)
+		return
+	}
+	go e.search(ctx, r, d, o)
 }
 
 // mixOut gives the weights the search starts from, for display.
@@ -167,149 +199,196 @@ func mixOut(m solver.Mix) map[string]float64 {
 	return out
 }
 
-func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, s solver.Settings, withBound bool) {
+// plans coalesces the plans of a run so that at most one is posted every
+// planEvery; it is safe for the engine's and the exact search's goroutines.
+type plans struct {
+	e        *Engine
+	r        *run
+	d        *format.Dataset
+	obj      solver.Objective
+	every    time.Duration
+	mu       sync.Mutex
+	pending  *solver.Plan
+	lastPost time.Time
+	iters    int
+	improved int
+}
+
+// exportsUpTo is the largest day whose every plan message carries the CSV
+// and JSON exports; above it only the last plan of a run does, since
+// writing them takes the worker a tenth of a second or more per plan.
+const exportsUpTo = 300
+
+func (p *plans) post(pl solver.Plan, res solver.Result, j *format.PlanJSON) {
+	p.postWith(pl, res, j, p.d.Instance.N <= exportsUpTo)
+}
+
+func (p *plans) postWith(pl solver.Plan, res solver.Result, j *format.PlanJSON, exports bool) {
+	if j == nil {
+		pj := p.d.PlanJSON(p.obj, pl, &res)
+		j = &pj
+	}
+	if !exports {
+		p.e.send(planMsg{Type: "plan", Run: p.r.id, Plan: *j})
+		return
+	}
+	var csv, js bytes.Buffer
+	if err := format.WriteCSV(&csv, p.d.Instance, *j); err != nil {
+		p.e.fail("cannot write the plan as CSV: %v", err)
+	}
+	if err := format.WriteJSON(&js, *j); err != nil {
+		p.e.fail("cannot write the plan as JSON: %v", err)
+	}
+	// The plan is encoded once: the JSON export is the plan object too.
+	p.e.send(planMsg{Type: "plan", Run: p.r.id, Plan: json.RawMessage(bytes.TrimSpace(js.Bytes())), CSV: csv.String(), JSON: js.String()})
+}
+
+// flush posts the pending plan. Call with p.mu held.
+func (p *plans) flush() {
+	if p.pending == nil {
+		return
+	}
+	pl := *p.pending
+	p.pending = nil
+	p.lastPost = time.Now()
+	p.iters = max(p.iters, pl.Iteration)
+	p.post(pl, solver.Result{Iterations: p.iters, Elapsed: time.Since(p.r.start), Improvements: p.improved}, nil)
+}
+
+func (p *plans) improve(pl solver.Plan) {
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	p.improved++
+	p.pending = &pl
+	if time.Since(p.lastPost) >= p.every {
+		p.flush()
+	}
+}
+
+// search runs the search (and, for role "", the bound beside it) through
+// the application layer, as `visitline solve` does.
+func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, o app.RunOptions) {
 	in := d.Instance
 	defer close(r.done)
 	defer r.cancel()
-	// With the bound, OnImprove may come from the exact search's goroutine
-	// too (never at the same time as from the engine's): mu keeps the
-	// coalescing state whole natively; in the browser there is one thread.
-	var (
-		mu           sync.Mutex
-		pending      *solver.Plan
-		lastPost     time.Time
-		iterations   int
-		improvements int
-	)
-	post := func(p solver.Plan, res solver.Result, extra func(*format.PlanJSON)) {
-		j := d.PlanJSON(s.Objective, p, &res)
-		if extra != nil {
-			extra(&j)
-		}
-		var csv, js bytes.Buffer
-		if err := format.WriteCSV(&csv, in, j); err != nil {
-			e.fail("cannot write the plan as CSV: %v", err)
-		}
-		if err := format.WriteJSON(&js, j); err != nil {
-			e.fail("cannot write the plan as JSON: %v", err)
-		}
-		e.send(map[string]any{"type": "plan", "run": r.id, "plan": j, "csv": csv.String(), "json": js.String()})
-	}
-	flush := func() {
-		if pending == nil {
-			return
-		}
-		p := *pending
-		pending = nil
-		lastPost = time.Now()
-		if p.Iteration > iterations {
-			iterations = p.Iteration
-		}
-		post(p, solver.Result{Iterations: iterations, Elapsed: time.Since(r.start), Improvements: improvements}, nil)
-	}
-	s.MixUpdates = r.mix
-	s.Pause = e.pause
-	s.ProgressEvery = 50 * time.Millisecond
-	s.OnImprove = func(p solver.Plan) {
-		mu.Lock()
-		defer mu.Unlock()
-		improvements++
-		pending = &p
-		if time.Since(lastPost) >= planEvery {
-			flush()
-		}
-	}
-	s.OnProgress = func(p solver.Progress) {
-		mu.Lock()
-		defer mu.Unlock()
-		flush()
-		iterations = p.Iteration
-		e.send(map[string]any{"type": "progress", "run": r.id, "iterations": p.Iteration, "elapsed": p.Elapsed.Seconds(),
-			"best_cost": in.Float(p.BestCost), "feasible": p.Feasible, "weights": p.Weights})
-	}
-	var (
-		res solver.Result
-		b   bound.Bound
-		err error
-	)
-	if withBound {
-		res, b, err = solveBound(ctx, in, s, bound.Options{Yield: e.pause})
-	} else {
-		res, err = solve(ctx, in, s)
-	}
-	mu.Lock()
-	defer mu.Unlock()
+	obj, _ := solver.ParseObjective(o.Objective)
+	pl := &plans{e: e, r: r, d: d, obj: obj, every: planEvery(in.N)}
+	h := app.Hooks{MixUpdates: r.mix, Adopt: r.adopt, ProgressEvery: 50 * time.Millisecond, OnImprove: pl.improve,
+		OnProgress: func(p solver.Progress) {
+			pl.mu.Lock()
+			defer pl.mu.Unlock()
+			pl.flush()
+			pl.iters = p.Iteration
+			e.send(progressMsg{Type: "progress", Run: r.id, Iterations: p.Iteration, Elapsed: p.Elapsed.Seconds(),
+				BestCost: in.Float(p.BestCost), Feasible: p.Feasible, Weights: p.Weights})
+		},
+		OnExplaining: func() {
+			pl.mu.Lock()
+			defer pl.mu.Unlock()
+			e.send(progressMsg{Type: "progress", Run: r.id, Iterations: pl.iters, Elapsed: time.Since(r.start).Seconds(), Explaining: true})
+		}}
+	out, err := app.Run(ctx, d, o, h)
+	pl.mu.Lock()
+	defer pl.mu.Unlock()
 	if err != nil {
-		flush()
-		e.send(map[string]any{"type": "finished", "run": r.id, "why": "error", "message": err.Error(),
-			"iterations": iterations, "elapsed": time.Since(r.start).Seconds(), "improvements": improvements})
+		pl.flush()
+		e.send(finishedMsg{Type: "finished", Run: r.id, Why: solver.StopError, Message: err.Error(),
+			Iterations: pl.iters, Elapsed: time.Since(r.start).Seconds(), Improvements: pl.improved})
 		return
 	}
-	pending = nil
+	pl.pending = nil
+	res := out.Result
+	fin := finishedMsg{Type: "finished", Run: r.id, Why: out.Why, Note: out.Note, Iterations: res.Iterations,
+		Elapsed: time.Since(r.start).Seconds(), Improvements: max(res.Improvements, pl.improved), Feasible: res.Best.Feasible}
 	if res.Best.Route != nil {
-		// The last word on the best plan, with what the bound says of it
-		// and, for a day that cannot be met, why: as `solve --format json`.
-		var report bound.Report
-		var ex *bound.Explanation
-		if withBound {
-			report = bound.ReportFor(b, res.Best)
-			if !res.Best.Feasible && ctx.Err() == nil {
-				e.send(map[string]any{"type": "progress", "run": r.id, "iterations": res.Iterations, "elapsed": time.Since(r.start).Seconds(),
-					"best_cost": in.Float(res.Best.Cost), "feasible": false, "explaining": true})
-				ex = explainDay(ctx, d, s.Budget, e.pause)
-			}
-		}
-		post(res.Best, res, func(j *format.PlanJSON) {
-			if report.HasBound {
-				lb := in.Float(report.LowerBound)
-				j.LowerBound = &lb
-			}
-			if report.HasGap {
-				g := report.GapPct
-				j.GapBoundPct = &g
-			}
-			j.ProvenOptimal = report.ProvenOptimal
-			if ex != nil {
-				j.Conflict, j.Reason = ex.ConflictIDs, ex.Reason
-			}
-		})
+		// The last word on the best plan, as `solve --format json` has it.
+		pl.postWith(res.Best, res, &out.Plan, true)
+		c := in.Float(res.Best.Cost)
+		fin.BestCost = &c
 	}
-	why := res.Stop
-	if why == "cancelled" || (ctx.Err() != nil && why == "") {
-		why = "stopped"
-	}
-	if why == "" {
-		why = "budget"
-	}
-	e.send(map[string]any{"type": "finished", "run": r.id, "why": why, "iterations": res.Iterations,
-		"elapsed": time.Since(r.start).Seconds(), "improvements": max(res.Improvements, improvements), "best_cost": in.Float(res.Best.Cost),
-		"feasible": res.Best.Feasible})
+	e.send(fin)
 }
 
-// solveBound is the search with the bound beside it (a variable, as solve).
-var solveBound = bound.SolveWith
-
-// explainLimit caps the time spent explaining a day that cannot be met
-// (the search yields to the event loop meanwhile, so a stop still lands).
-const explainLimit = 3 * time.Second
-
-// explainDay says why no plan meets every window, in the file's own times,
-// or returns nil when that cannot be decided in time.
-func explainDay(ctx context.Context, d *format.Dataset, budget time.Duration, yield func()) *bound.Explanation {
-	ctx, cancel := context.WithTimeout(ctx, min(max(budget/2, time.Second), explainLimit))
-	defer cancel()
-	dur := d.FormatDuration
-	if d.Unit != "" {
-		dur = func(v int64) string { return d.FormatDuration(v) + " " + d.Unit }
+// boundSide is the bound worker: the lower bound and the exact search,
+// pruned by the plans the search workers find (sent with "adopt"), and
+// for a day that cannot be met, the explanation.
+func (e *Engine) boundSide(ctx context.Context, r *run, d *format.Dataset, s solver.Settings) {
+	in := d.Instance
+	defer close(r.done)
+	defer r.cancel()
+	bctx := ctx
+	if s.Budget > 0 {
+		var cancel context.CancelFunc
+		bctx, cancel = context.WithTimeout(ctx, s.Budget-time.Since(r.start))
+		defer cancel()
 	}
-	ex, err := bound.ExplainWith(ctx, d.Instance, bound.ExplainOptions{FormatTime: d.FormatTime, FormatDuration: dur, Name: d.Name, Yield: yield})
-	if err != nil {
-		if errors.Is(err, bound.ErrUndecided) {
-			return &bound.Explanation{Reason: "No plan meets every window within the search limits, and no short explanation was found in time."}
+	var mu sync.Mutex
+	incCost, incOK := int64(0), false
+	take := func(route []int) {
+		if solver.CheckRoute(in, route) != nil {
+			return
 		}
-		return nil
+		sch := solver.Evaluate(in, route)
+		if c := sch.Cost(s.Objective); sch.Feasible && (!incOK || c < incCost) {
+			mu.Lock()
+			incCost, incOK = c, true
+			mu.Unlock()
+		}
 	}
-	return &ex
+	// Adopted plans arrive on r.adopt while the bound runs.
+	stopTaking := make(chan struct{})
+	taken := make(chan struct{})
+	go func() {
+		defer close(taken)
+		for {
+			select {
+			case route := <-r.adopt:
+				take(route)
+			case <-stopTaking:
+				return
+			}
+		}
+	}()
+	b := bound.Exact(bctx, in, bound.Options{Objective: s.Objective, Incumbent: func() (int64, bool) {
+		mu.Lock()
+		defer mu.Unlock()
+		return incCost, incOK
+	}})
+	close(stopTaking)
+	<-taken
+	for len(r.adopt) > 0 {
+		take(<-r.adopt)
+	}
+	why := solver.StopBudget
+	if ctx.Err() != nil {
+		why = solver.StopStopped
+	}
+	if b.Route != nil && (!incOK || b.Cost < incCost) {
+		sch := solver.Evaluate(in, b.Route)
+		p := solver.Plan{Route: append([]int(nil), b.Route...), Schedule: sch, Cost: sch.Cost(s.Objective), Feasible: sch.Feasible,
+			Elapsed: time.Since(r.start), Operator: "exact"}
+		(&plans{e: e, r: r, d: d, obj: s.Objective}).postWith(p, solver.Result{Best: p, Elapsed: p.Elapsed, Improvements: 1}, nil, true)
+		incCost, incOK = p.Cost, p.Feasible
+	}
+	msg := boundMsg{Type: "bound", Run: r.id, Infeasible: b.Infeasible}
+	if b.Valid {
+		lb := in.Float(b.Value)
+		msg.LowerBound, msg.Method = &lb, b.Method
+		if incOK && b.Value >= incCost {
+			msg.ProvenOptimal = true
+			why = solver.StopComplete
+		}
+	}
+	if !incOK && ctx.Err() == nil && (b.Infeasible || s.Budget > 0) {
+		// No plan meets every window (proven, or none found in the
+		// budget): say why, within the explanation's share.
+		e.send(progressMsg{Type: "progress", Run: r.id, Elapsed: time.Since(r.start).Seconds(), Explaining: true})
+		var j format.PlanJSON
+		app.Explain(ctx, &j, d, app.ExplainLimit(s.Budget))
+		msg.Conflict, msg.Reason = j.Conflict, j.Reason
+	}
+	e.send(msg)
+	e.send(finishedMsg{Type: "finished", Run: r.id, Why: why, Elapsed: time.Since(r.start).Seconds()})
 }
 
 func (e *Engine) changeMix(m inbound) {
@@ -344,7 +423,34 @@ func (e *Engine) changeMix(m inbound) {
 	if r != nil {
 		id = r.id
 	}
-	e.send(map[string]any{"type": "mix", "run": id, "mix": mixOut(mix), "running": running, "elapsed": elapsed})
+	e.send(mixMsg{Type: "mix", Run: id, Mix: mixOut(mix), Running: running, Elapsed: elapsed})
+}
+
+// adoptPlan hands a route found by another worker to the running search
+// (or the bound), keeping only the newest few.
+func (e *Engine) adoptPlan(m inbound) {
+	e.mu.Lock()
+	r := e.cur
+	e.mu.Unlock()
+	if r == nil || len(m.Route) == 0 {
+		return
+	}
+	select {
+	case <-r.done:
+		return
+	default:
+	}
+	for {
+		select {
+		case r.adopt <- m.Route:
+			return
+		default:
+			select {
+			case <-r.adopt:
+			default:
+			}
+		}
+	}
 }
 
 // stopRun cancels the running search and waits until it has said
@@ -368,7 +474,7 @@ func (e *Engine) export(m inbound) {
 	d := e.d
 	e.mu.Unlock()
 	reply := func(text, problem string) {
-		e.send(map[string]any{"type": "export", "format": m.Format, "text": text, "error": problem})
+		e.send(exportMsg{Type: "export", Format: m.Format, Text: text, Error: problem})
 	}
 	if d == nil {
 		reply("", "no data is loaded")

@@ -84,7 +84,7 @@ func example(t *testing.T) string {
 
 func TestEngineLoadSummary(t *testing.T) {
 	r := newRecorder()
-	e := NewEngine(r.post, func() {})
+	e := NewEngine(r.post)
 	e.Handle(msg(t, map[string]any{"type": "load", "name": "picks.txt", "text": example(t)}))
 	m := r.wait(t, "loaded")
 	s := m["summary"].(map[string]any)
@@ -99,7 +99,7 @@ func TestEngineLoadSummary(t *testing.T) {
 
 func TestEngineBadPasteNamesLineAndColumn(t *testing.T) {
 	r := newRecorder()
-	e := NewEngine(r.post, func() {})
+	e := NewEngine(r.post)
 	e.Handle(msg(t, map[string]any{"type": "load", "text": "2\n0 x\n1 0\n0 10\n0 10\n"}))
 	m := r.wait(t, "errors")
 	list := m["errors"].([]any)
@@ -115,7 +115,7 @@ func TestEngineBadPasteNamesLineAndColumn(t *testing.T) {
 
 func TestEngineEmptyPaste(t *testing.T) {
 	r := newRecorder()
-	e := NewEngine(r.post, func() {})
+	e := NewEngine(r.post)
 	e.Handle(msg(t, map[string]any{"type": "load", "text": "  \n"}))
 	list := r.wait(t, "errors")["errors"].([]any)
 	assert.Contains(t, list[0].(map[string]any)["message"], "there is no data")
@@ -123,7 +123,7 @@ func TestEngineEmptyPaste(t *testing.T) {
 
 func TestEngineRunSendsPlanAndFinished(t *testing.T) {
 	r := newRecorder()
-	e := NewEngine(r.post, func() {})
+	e := NewEngine(r.post)
 	e.Handle(msg(t, map[string]any{"type": "load", "name": "picks.txt", "text": example(t)}))
 	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0.3, "seed": 1}))
 	fin := r.wait(t, "finished")
@@ -151,7 +151,7 @@ func TestEngineRejectsBadStart(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			r := newRecorder()
-			e := NewEngine(r.post, func() {})
+			e := NewEngine(r.post)
 			e.Handle(msg(t, map[string]any{"type": "load", "text": example(t)}))
 			e.Handle(msg(t, c.msg))
 			assert.Contains(t, r.wait(t, "failed")["message"], c.want)
@@ -162,7 +162,7 @@ func TestEngineRejectsBadStart(t *testing.T) {
 
 func TestEngineMixChangeMidRun(t *testing.T) {
 	r := newRecorder()
-	e := NewEngine(r.post, func() {})
+	e := NewEngine(r.post)
 	e.Handle(msg(t, map[string]any{"type": "load", "text": example(t)}))
 	// Without the bound, which proves this small day optimal at once.
 	e.Handle(msg(t, map[string]any{"type": "start", "budget": 30, "seed": 3, "fixed": true, "no_bound": true}))
@@ -192,7 +192,7 @@ func TestEngineMixChangeMidRun(t *testing.T) {
 
 func TestEngineStopIsPrompt(t *testing.T) {
 	r := newRecorder()
-	e := NewEngine(r.post, func() {})
+	e := NewEngine(r.post)
 	e.Handle(msg(t, map[string]any{"type": "load", "text": example(t)}))
 	e.Handle(msg(t, map[string]any{"type": "start", "budget": 60, "seed": 1, "no_bound": true}))
 	r.wait(t, "progress")
@@ -234,7 +234,7 @@ func readExample(t *testing.T, path string) string {
 
 func TestEngineSitesAndMatrix(t *testing.T) {
 	r := newRecorder()
-	e := NewEngine(r.post, func() {})
+	e := NewEngine(r.post)
 	e.Handle(msg(t, map[string]any{"type": "load", "name": "sites.csv", "text": readExample(t, "bakery/sites.csv"),
 		"matrix_name": "travel.csv", "matrix": readExample(t, "bakery/travel.csv")}))
 	s := r.wait(t, "loaded")["summary"].(map[string]any)
@@ -266,7 +266,7 @@ func TestEngineSitesAndMatrix(t *testing.T) {
 
 func TestEngineRouteOptions(t *testing.T) {
 	r := newRecorder()
-	e := NewEngine(r.post, func() {})
+	e := NewEngine(r.post)
 	e.Handle(msg(t, map[string]any{"type": "load", "name": "sites.csv", "text": readExample(t, "art/sites.csv"),
 		"matrix_name": "travel.tsv", "matrix": readExample(t, "art/travel.tsv"), "options": map[string]any{"end": "SOUTH"}}))
 	s := r.wait(t, "loaded")["summary"].(map[string]any)
@@ -277,7 +277,7 @@ func TestEngineRouteOptions(t *testing.T) {
 
 func TestEngineBadOptionIsAnError(t *testing.T) {
 	r := newRecorder()
-	e := NewEngine(r.post, func() {})
+	e := NewEngine(r.post)
 	e.Handle(msg(t, map[string]any{"type": "load", "name": "sites.csv", "text": readExample(t, "bakery/sites.csv"),
 		"matrix": readExample(t, "bakery/travel.csv"), "options": map[string]any{"end": "NOWHERE"}}))
 	list := r.wait(t, "errors")["errors"].([]any)
@@ -286,7 +286,7 @@ func TestEngineBadOptionIsAnError(t *testing.T) {
 
 func TestEngineReplansAfterDoneVisits(t *testing.T) {
 	r := newRecorder()
-	e := NewEngine(r.post, func() {})
+	e := NewEngine(r.post)
 	e.Handle(msg(t, map[string]any{"type": "load", "name": "sites.csv", "text": readExample(t, "bakery/sites.csv"),
 		"matrix": readExample(t, "bakery/travel.csv"), "options": map[string]any{"done": []string{"C07"}, "now": "05:20"}}))
 	s := r.wait(t, "loaded")["summary"].(map[string]any)
@@ -310,7 +310,7 @@ func (r *recorder) lastPlan() map[string]any {
 
 func TestEngineBoundProvesSmallDay(t *testing.T) {
 	r := newRecorder()
-	e := NewEngine(r.post, func() {})
+	e := NewEngine(r.post)
 	e.Handle(msg(t, map[string]any{"type": "load", "text": example(t)}))
 	e.Handle(msg(t, map[string]any{"type": "start", "budget": 20, "seed": 1}))
 	fin := r.wait(t, "finished")
@@ -322,7 +322,7 @@ func TestEngineBoundProvesSmallDay(t *testing.T) {
 
 func TestEngineExplainsDayThatCannotBeMet(t *testing.T) {
 	r := newRecorder()
-	e := NewEngine(r.post, func() {})
+	e := NewEngine(r.post)
 	// 1 must start by 10 and 2 by 12, 5 from the start and 20 apart.
 	e.Handle(msg(t, map[string]any{"type": "load", "text": "3\n0 5 5\n5 0 20\n5 20 0\n0 100\n0 10\n0 12\n"}))
 	e.Handle(msg(t, map[string]any{"type": "start", "budget": 1, "seed": 1}))
@@ -331,4 +331,40 @@ func TestEngineExplainsDayThatCannotBeMet(t *testing.T) {
 	assert.Equal(t, false, p["feasible"])
 	assert.ElementsMatch(t, []any{"1", "2"}, p["conflict"])
 	assert.NotEmpty(t, p["reason"])
+}
+
+// TestEngineBoundRole: a worker with role "bound" runs the bound and the
+// exact search alone, takes the plans sent to it with "adopt", and ends
+// with its verdict: on this small day (examples/warehouse) it proves the
+// adopted plan optimal, or finds the optimum itself and sends it.
+func TestEngineBoundRole(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post)
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "picks.txt", "text": example(t)}))
+	r.wait(t, "loaded")
+	// The search's plan first, from a plain search worker.
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0, "iterations": 2000, "seed": 1, "role": "search"}))
+	fin := r.wait(t, "finished")
+	assert.Equal(t, "iterations", fin["why"])
+	route := r.wait(t, "plan")["plan"].(map[string]any)["route"]
+	r.mu.Lock()
+	r.msgs = nil
+	r.mu.Unlock()
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 20, "seed": 1, "role": "bound"}))
+	e.Handle(msg(t, map[string]any{"type": "adopt", "route": []int{0, 1}})) // does not fit: ignored
+	e.Handle(msg(t, map[string]any{"type": "adopt", "route": route}))
+	v := r.wait(t, "bound")
+	require.NotNil(t, v["lower_bound"])
+	assert.Equal(t, true, v["proven_optimal"])
+	assert.Equal(t, "complete", r.wait(t, "finished")["why"])
+	assert.Zero(t, r.count("progress"), "the bound worker does not search")
+	assert.Zero(t, r.count("plan"), "the adopted plan is optimal: the bound has none better to send")
+}
+
+func TestEngineRejectsUnknownRole(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post)
+	e.Handle(msg(t, map[string]any{"type": "load", "text": example(t)}))
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 1, "role": "helper"}))
+	assert.Contains(t, r.wait(t, "failed")["message"], `role "helper"`)
 }

@@ -17,7 +17,7 @@ func TestMalformedMessageInPlainWords(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			r := newRecorder()
-			e := NewEngine(r.post, func() {})
+			e := NewEngine(r.post)
 			e.Handle(c.raw)
 			m := r.wait(t, "failed")
 			msg, _ := m["message"].(string)

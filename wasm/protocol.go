@@ -31,8 +31,19 @@
 //	    lower bound and exact search that run beside the engine as with
 //	    `solve` (--bound=false). Stops a running search first. Replies "started", then "plan" and "progress" while it
 //	    runs, and "finished" at the end.
+//	    Also: "iterations" (an iteration budget; with it budget may be 0),
+//	    "role" ("" both the search and the bound in this worker; "search"
+//	    the search alone; "bound" the bound, the exact search and the
+//	    explanation alone) and "worker" (the number of a search worker
+//	    of one run: its seed is seed + 7919·worker, as with --workers).
+//	    The options are app.RunOptions, those of `visitline solve`, so the
+//	    same options, seed and iteration budget give solve's plan.
 //	{"type":"mix", "mix":{"random":2,"slice":0,...}}
 //	    Replace the operator weights of the running search. Replies "mix".
+//	{"type":"adopt", "route":[0,3,1,...]}
+//	    A better plan found by another worker: a search takes it as its
+//	    best and restarts from it at its next restart; the bound worker
+//	    prunes with its cost. No reply.
 //	{"type":"stop"}
 //	    Cancel the running search. Replies "finished" with why "stopped".
 //	{"type":"export", "format":"ics", "route":[0,3,1,...], "date":"2026-12-01", "objective":"travel"}
@@ -52,8 +63,10 @@
 //	{"type":"plan", "run":1, "plan":{...}, "csv":"...", "json":"..."}
 //	    A new best plan: plan is the object of `visitline solve --format
 //	    json`; csv and json are the exports, written by the same code as
-//	    the command line. Plans found in a burst are coalesced so that at most
-//	    one is sent every 50 ms. The best plan is sent once more just before
+//	    the command line (for days over 300 nodes only in the last plan of
+//	    a run: writing them takes a tenth of a second or more). Plans found
+//	    in a burst are coalesced so that at most one is sent every 50 ms
+//	    (every n/2 ms for n nodes above 100). The best plan is sent once more just before
 //	    "finished", with lower_bound, gap_bound_pct and proven_optimal from
 //	    the bound, and for a day that cannot be met conflict and reason.
 //	{"type":"progress", "run":1, "iterations":1234, "elapsed":1.5, "best_cost":812, "feasible":true, "weights":{...}}
@@ -63,18 +76,27 @@
 //	{"type":"mix", "run":1, "mix":{...}, "running":true, "elapsed":2.1}
 //	    Acknowledges a mix change: running says whether a search was
 //	    running to take it (if not, the page keeps it for the next start).
-//	{"type":"finished", "run":1, "why":"budget", "iterations":..., "elapsed":..., "improvements":..., "message":""}
+//	{"type":"bound", "run":1, "lower_bound":812.5, "method":"state-space", "proven_optimal":false, "infeasible":false,
+//	 "conflict":["C03","C07"], "reason":"..."}
+//	    The bound worker's verdict (role "bound"), just before its
+//	    "finished": lower_bound is null when unknown; proven_optimal says
+//	    the best plan it was given (or found, then sent as a "plan" first)
+//	    is proven best; conflict and reason explain a day that cannot be
+//	    met.
+//	{"type":"finished", "run":1, "why":"budget", "iterations":..., "elapsed":..., "improvements":..., "message":"", "note":""}
 //	    The search ended; why is one of budget, iterations, stopped,
-//	    complete or error (then message says what went wrong).
+//	    complete or error (then message says what went wrong): solver.Stop,
+//	    decided by the engine. note says, when it happened, that the budget
+//	    ended before the first plan was ready.
 //	{"type":"export", "format":"ics", "text":"BEGIN:VCALENDAR...", "error":""}
 //	    The file asked for, or in error why it cannot be written.
 //	{"type":"failed", "message":"..."}
 //	    A message the engine could not act on (no data loaded, bad budget).
 //
 // The engine runs solver.Solve on its own goroutine. Go's wasm runs on one
-// thread, so the search hands the event loop a turn through Settings.Pause
-// at every progress tick (about every 50 ms); a mix change or a stop is
-// taken at the next turn.
+// thread, so the search and the bound each block until the event loop has
+// had a turn about every 20 ms of work (package solver/turn; main_js.go
+// sets the host pause); a mix change or a stop is taken at the next turn.
 package main
 
 import (
@@ -82,37 +104,121 @@ import (
 	"math"
 
 	"visitline/solver"
+	"visitline/solver/app"
 	"visitline/solver/format"
 )
 
 // inbound is any message from the page; fields unused by a type stay zero.
 type inbound struct {
-	Type      string             `json:"type"`
-	Name      string             `json:"name"`
-	Text      string             `json:"text"`
-	Budget    float64            `json:"budget"`
-	Seed      int64              `json:"seed"`
-	Mix       map[string]float64 `json:"mix"`
-	Objective string             `json:"objective"`
-	Fixed     bool               `json:"fixed"`
-	// FewestLate ranks days that cannot be met by the number of late
-	// visits rather than the total lateness (--fewest-late).
-	FewestLate bool `json:"fewest_late"`
-	// NoBound leaves out the lower bound and the exact search that runs
-	// beside the engine (--bound=false): the engine then has the thread to
-	// itself.
-	NoBound bool `json:"no_bound"`
-	// load: an optional travel matrix for a sites file, and the route and
-	// travel options.
-	Matrix     string      `json:"matrix"`
-	MatrixName string      `json:"matrix_name"`
-	Options    loadOptions `json:"options"`
-	// export: the format (ics), the plan's route, and the day of the plan,
-	// YYYY-MM-DD, for sites files whose times carry no date.
+	Type string `json:"type"`
+	// load: the sites or benchmark text, an optional travel matrix, and
+	// the route and travel options (the command line's flags).
+	Name       string          `json:"name"`
+	Text       string          `json:"text"`
+	Matrix     string          `json:"matrix"`
+	MatrixName string          `json:"matrix_name"`
+	Options    app.LoadOptions `json:"options"`
+	// start: the search options (budget, iterations, seed, mix, fixed,
+	// objective, fewest_late, no_bound), as solve's flags.
+	app.RunOptions
+	// start: what this worker does: "" both the search and the bound (one
+	// worker), "search" the search alone, "bound" the bound, the exact
+	// search and the explanation alone. Worker numbers the search workers
+	// of one run (their seeds are seed + 7919·worker, as --workers).
+	Role   string `json:"role"`
+	Worker int    `json:"worker"`
+	// adopt, export: a plan's route, 0-based nodes as in a plan's "route".
+	Route []int `json:"route"`
+	// export: the format (ics) and the day of the plan, YYYY-MM-DD, for
+	// sites files whose times carry no date.
 	Format string `json:"format"`
-	Route  []int  `json:"route"`
 	Date   string `json:"date"`
 }
+
+// Worker-to-page messages, one type each.
+type (
+	readyMsg struct {
+		Type      string   `json:"type"`
+		Operators []string `json:"operators"`
+	}
+	loadedMsg struct {
+		Type    string  `json:"type"`
+		Summary Summary `json:"summary"`
+	}
+	errorsMsg struct {
+		Type   string       `json:"type"`
+		Errors []InputError `json:"errors"`
+	}
+	startedMsg struct {
+		Type      string             `json:"type"`
+		Run       int                `json:"run"`
+		Role      string             `json:"role,omitempty"`
+		Budget    float64            `json:"budget"`
+		Seed      int64              `json:"seed"`
+		Mix       map[string]float64 `json:"mix"`
+		Fixed     bool               `json:"fixed"`
+		Objective string             `json:"objective"`
+	}
+	planMsg struct {
+		Type string `json:"type"`
+		Run  int    `json:"run"`
+		Plan any    `json:"plan"` // a format.PlanJSON, or its JSON export as is
+		CSV  string `json:"csv,omitempty"`
+		JSON string `json:"json,omitempty"`
+	}
+	progressMsg struct {
+		Type       string     `json:"type"`
+		Run        int        `json:"run"`
+		Iterations int        `json:"iterations"`
+		Elapsed    float64    `json:"elapsed"`
+		BestCost   float64    `json:"best_cost"`
+		Feasible   bool       `json:"feasible"`
+		Weights    solver.Mix `json:"weights,omitempty"`
+		Explaining bool       `json:"explaining,omitempty"`
+	}
+	// boundMsg is the bound worker's verdict: a lower bound (absent when
+	// unknown), whether the plan it was given is proven best, whether no
+	// plan meets every window, and for such a day the conflict.
+	boundMsg struct {
+		Type          string   `json:"type"`
+		Run           int      `json:"run"`
+		LowerBound    *float64 `json:"lower_bound"`
+		Method        string   `json:"method,omitempty"`
+		ProvenOptimal bool     `json:"proven_optimal"`
+		Infeasible    bool     `json:"infeasible"`
+		Conflict      []string `json:"conflict,omitempty"`
+		Reason        string   `json:"reason,omitempty"`
+	}
+	mixMsg struct {
+		Type    string             `json:"type"`
+		Run     int                `json:"run"`
+		Mix     map[string]float64 `json:"mix"`
+		Running bool               `json:"running"`
+		Elapsed float64            `json:"elapsed"`
+	}
+	finishedMsg struct {
+		Type         string      `json:"type"`
+		Run          int         `json:"run"`
+		Why          solver.Stop `json:"why"`
+		Message      string      `json:"message,omitempty"`
+		Note         string      `json:"note,omitempty"`
+		Iterations   int         `json:"iterations"`
+		Elapsed      float64     `json:"elapsed"`
+		Improvements int         `json:"improvements"`
+		BestCost     *float64    `json:"best_cost,omitempty"`
+		Feasible     bool        `json:"feasible"`
+	}
+	exportMsg struct {
+		Type   string `json:"type"`
+		Format string `json:"format"`
+		Text   string `json:"text"`
+		Error  string `json:"error"`
+	}
+	failedMsg struct {
+		Type    string `json:"type"`
+		Message string `json:"message"`
+	}
+)
 
 // InputError is one problem with the input, placed for the page.
 type InputError struct {

@@ -80,8 +80,8 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	in := d.Instance
-	if err := claimedIDs(claims, d); err != nil {
-		fmt.Fprintf(stdout, "%s: refused: %s\n", args[1], err)
+	if err := d.RouteIDsProblem(claims, args[1]); err != nil {
+		fmt.Fprintf(stdout, "refused: %s\n", err)
 		return errSilent
 	}
 	if probs := d.RouteProblems(claims.Route); len(probs) > 0 {
@@ -122,24 +122,4 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		}
 	}
 	return errSilent
-}
-
-// claimedIDs checks that the plan's route_ids name the data's sites at
-// the same places: a plan made from other data, or with other options
-// (--done), is refused.
-func claimedIDs(c *format.Claims, d *format.Dataset) error {
-	in := d.Instance
-	if c.RouteIDs == nil {
-		return nil
-	}
-	if len(c.RouteIDs) != len(c.Route) {
-		return fmt.Errorf("route_ids has %d ids but route has %d nodes", len(c.RouteIDs), len(c.Route))
-	}
-	for k, v := range c.Route {
-		if v >= 0 && v < in.N && in.ID(v) != c.RouteIDs[k] {
-			return fmt.Errorf("route_ids: place %d is node %d, which is %s here, but the plan says %s: was the plan made from other data or other options (--done)?",
-				k, v, format.Printable(in.ID(v)), format.Printable(c.RouteIDs[k]))
-		}
-	}
-	return nil
 }

@@ -15,7 +15,7 @@ import (
 	"time"
 
 	"visitline/solver"
-	"visitline/solver/bound"
+	"visitline/solver/app"
 	"visitline/solver/format"
 )
 
@@ -69,19 +69,19 @@ func (l *loadFlags) validate() error {
 	return nil
 }
 
+// options gives the flags as the application layer's options (the same
+// type the page's load message carries), read as the readers want them.
 func (l *loadFlags) options() (format.Options, error) {
-	unit, err := format.ParseUnit(l.matrixUnit)
+	o := app.LoadOptions{MatrixUnit: l.matrixUnit, Speed: l.speed, RoadFactor: l.roadFactor,
+		Start: l.start, End: l.end, ShiftStart: l.shiftStart, Now: l.now}
+	if l.done != "" {
+		o.Done = strings.Split(l.done, ",")
+	}
+	f, err := o.Format("", l.matrix)
 	if err != nil {
 		return format.Options{}, usageError{"--" + err.Error()}
 	}
-	o := format.Options{MatrixName: l.matrix, MatrixUnit: unit, Speed: l.speed, RoadFactor: l.roadFactor,
-		Start: l.start, End: l.end, ShiftStart: l.shiftStart, Now: l.now}
-	if l.done != "" {
-		for _, id := range strings.Split(l.done, ",") {
-			o.Done = append(o.Done, strings.TrimSpace(id))
-		}
-	}
-	return o, nil
+	return f, nil
 }
 
 func runSolve(args []string, stdout, stderr io.Writer) error {
@@ -89,7 +89,7 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	fs.SetOutput(stderr)
 	var f solveFlags
 	f.budget = 10 * time.Second
-	fs.Var((*budgetFlag)(&f.budget), "budget", "time budget, e.g. 10s, 2m or 1m30s (0 for none: then --iterations must be set)")
+	fs.Var((*budgetFlag)(&f.budget), "budget", "time budget as a `duration`, e.g. 10s, 2m or 1m30s (0 for none: then --iterations must be set)")
 	fs.IntVar(&f.iterations, "iterations", 0, "iteration budget (0: none)")
 	fs.Int64Var(&f.seed, "seed", 1, "random seed; a seed with an iteration budget reproduces a run")
 	fs.StringVar(&f.mix, "mix", "", "starting weights of the destroy operators, e.g. random=1,slice=1,related=1,worst=1")
@@ -147,14 +147,16 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 			f.workers = 1
 		}
 	}
-	obj, err := solver.ParseObjective(f.objective)
-	if err != nil {
+	ro := app.RunOptions{Budget: f.budget.Seconds(), Iterations: f.iterations, Seed: f.seed, Fixed: f.fixedMix,
+		Objective: f.objective, FewestLate: f.fewestLate, NoBound: !f.bound, Workers: f.workers}
+	if _, err := solver.ParseObjective(f.objective); err != nil {
 		return usageError{err.Error()}
 	}
 	mix, err := solver.ParseMix(f.mix)
 	if err != nil {
 		return usageError{"--mix: " + err.Error()}
 	}
+	ro.Mix = mix
 	if f.fleet.wanted(pos[0]) {
 		return solveFleet(pos[0], &f, stdout, stderr)
 	}
@@ -172,9 +174,9 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	in := d.Instance
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
-	s := solver.Settings{Budget: f.budget, Iterations: f.iterations, Seed: f.seed, Mix: mix, FixedMix: f.fixedMix, FewestLate: f.fewestLate, Objective: obj, Workers: f.workers}
+	var hooks app.Hooks
 	if !f.quiet {
-		s.OnImprove = func(p solver.Plan) {
+		hooks.OnImprove = func(p solver.Plan) {
 			state := "feasible"
 			if !p.Feasible {
 				state = "lateness " + d.FormatDuration(p.Schedule.TotalLateness)
@@ -182,23 +184,14 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 			fmt.Fprintf(stderr, "%8.3fs  iter %-8d cost %-12s %s (%s)\n", p.Elapsed.Seconds(), p.Iteration, d.FormatDuration(p.Cost), state, p.Operator)
 		}
 	}
-	var res solver.Result
-	var b bound.Bound
-	if f.bound {
-		res, b, err = bound.Solve(ctx, in, s)
-	} else {
-		res, err = solver.Solve(ctx, in, s)
-	}
+	out, err := app.Run(ctx, d, ro, hooks)
 	if err != nil {
 		return err
 	}
-	j := d.PlanJSON(obj, res.Best, &res)
-	if f.bound {
-		fillBound(&j, in, b, res.Best)
-		if !res.Best.Feasible {
-			explain(ctx, &j, d, f.budget)
-		}
+	if out.Note != "" {
+		fmt.Fprintf(stderr, "note: %s\n", out.Note)
 	}
+	res, j := out.Result, out.Plan
 	switch f.format {
 	case "ics":
 		return format.WriteICS(stdout, d, res.Best, format.ICSOptions{Date: day, Stamp: time.Now()})
@@ -208,41 +201,6 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 		return format.WriteCSV(stdout, in, j)
 	}
 	return format.WriteTable(stdout, j)
-}
-
-// fillBound adds the bound side's verdict to the plan's JSON.
-func fillBound(j *format.PlanJSON, in *solver.Instance, b bound.Bound, best solver.Plan) {
-	r := bound.ReportFor(b, best)
-	if r.HasBound {
-		lb := in.Float(r.LowerBound)
-		j.LowerBound = &lb
-	}
-	if r.HasGap {
-		g := r.GapPct
-		j.GapBoundPct = &g
-	}
-	j.ProvenOptimal = r.ProvenOptimal
-}
-
-// explain says why a day with no feasible plan is infeasible, in the
-// file's own times, within a share of the budget (at least a few seconds).
-func explain(ctx context.Context, j *format.PlanJSON, d *format.Dataset, budget time.Duration) {
-	limit := max(budget/2, 5*time.Second)
-	ctx, cancel := context.WithTimeout(ctx, limit)
-	defer cancel()
-	dur := d.FormatDuration
-	if d.Unit != "" {
-		dur = func(v int64) string { return d.FormatDuration(v) + " " + d.Unit }
-	}
-	ex, err := bound.ExplainWith(ctx, d.Instance, bound.ExplainOptions{FormatTime: d.FormatTime, FormatDuration: dur, Name: d.Name})
-	if err != nil {
-		if errors.Is(err, bound.ErrUndecided) {
-			j.Reason = "no plan meets every window within the search limits, and no short explanation was found in time"
-		}
-		return
-	}
-	j.Conflict = ex.ConflictIDs
-	j.Reason = ex.Reason
 }
 
 // loadDataset opens the instance file (a sites file or a benchmark file)

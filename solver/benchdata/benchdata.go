@@ -12,6 +12,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 	"strconv"
 	"strings"
 )
@@ -34,11 +35,15 @@ type Known struct {
 func (k Known) Key() string { return k.Family + "/" + k.Instance }
 
 // Read reads best-known rows from r; name is the file's name in errors.
-// A first row starting with "family" is the header.
+// A first row starting with "family" is the header. The TSPLIB folder's
+// optimal.csv (instance,type,nodes,optimal,source) is read too: its rows
+// belong to the family named by the folder the file lies in, and their
+// instances are named without the file extension.
 func Read(r io.Reader, name string) ([]Known, error) {
 	cr := csv.NewReader(r)
 	cr.FieldsPerRecord = -1
 	var out []Known
+	tsplib := false
 	for first := true; ; first = false {
 		rec, err := cr.Read()
 		if errors.Is(err, io.EOF) {
@@ -49,6 +54,24 @@ func Read(r io.Reader, name string) ([]Known, error) {
 		}
 		line, _ := cr.FieldPos(0)
 		if first && len(rec) > 0 && strings.EqualFold(strings.TrimSpace(rec[0]), "family") {
+			continue
+		}
+		if first && len(rec) >= 4 && strings.TrimSpace(rec[0]) == "instance" && strings.TrimSpace(rec[3]) == "optimal" {
+			tsplib = true
+			continue
+		}
+		if tsplib {
+			if len(rec) < 4 {
+				return nil, fmt.Errorf("%s:%d: want instance,type,nodes,optimal[,source], got %d fields", name, line, len(rec))
+			}
+			k := Known{Family: filepath.Base(filepath.Dir(name)), Instance: rec[0], Line: line}
+			if k.Best, err = strconv.ParseFloat(strings.TrimSpace(rec[3]), 64); err != nil {
+				return nil, fmt.Errorf("%s:%d:4: optimal %q is not a number", name, line, rec[3])
+			}
+			if len(rec) > 4 {
+				k.Source = rec[4]
+			}
+			out = append(out, k)
 			continue
 		}
 		if len(rec) < 3 {

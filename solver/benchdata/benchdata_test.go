@@ -34,3 +34,18 @@ func TestReadErrorsNameLineAndField(t *testing.T) {
 		assert.ErrorContains(t, err, c.want, c.in)
 	}
 }
+
+// The TSPLIB folder's optimal.csv has its own columns; its rows belong to
+// the family of the folder it lies in, named without file extensions.
+func TestReadTSPLIBOptimal(t *testing.T) {
+	src := "instance,type,nodes,optimal,source\npcb442,TSP,442,50778,TSPLIB\nft70,ATSP,70,38673,TSPLIB\n"
+	ks, err := Read(strings.NewReader(src), "bench/tsplib/optimal.csv")
+	require.NoError(t, err)
+	require.Len(t, ks, 2)
+	assert.Equal(t, "tsplib/pcb442", ks[0].Key())
+	assert.Equal(t, 50778.0, ks[0].Best)
+	assert.Equal(t, 38673.0, ks[1].Best)
+	_, err = Read(strings.NewReader("instance,type,nodes,optimal\npcb442,TSP,442,many\n"), "tsplib/optimal.csv")
+	require.Error(t, err)
+	assert.Contains(t, err.Error(), "tsplib/optimal.csv:2:4: optimal \"many\" is not a number")
+}

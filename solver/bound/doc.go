@@ -4,8 +4,10 @@
 //   - Lower: lower bounds on the optimal objective. The assignment relaxation
 //     (Hungarian method over the arcs that window reasoning leaves), and the
 //     state-space relaxation of Christofides, Mingozzi and Toth (1981) with
-//     time: paths of the right length that meet every window, with two-cycle
-//     elimination and Lagrangian node penalties fitted by subgradient ascent.
+//     time and ng-route memories (Baldacci, Mingozzi and Roberti 2011,
+//     2012): paths of the right length that meet every window and never
+//     return to a node of a small neighbourhood they still remember, with
+//     Lagrangian node penalties fitted by deflected subgradient ascent.
 //     For the completion objective, also a bound from the windows alone.
 //   - Exact: the bounds, then a dynamic programme over (visited set, last
 //     node, time) with (time, cost) dominance, window propagation,
@@ -34,7 +36,7 @@
 //
 // The package never prints, never reads files and imports only the engine
 // and the standard library. Long work takes a context.Context, checks it
-// about every thousand steps and gives other goroutines a turn then
-// (runtime.Gosched and Options.Yield), so that it shares the single thread
-// of the WebAssembly build with the engine.
+// about every thousand steps, and under GOOS=js gives the worker's event
+// loop a turn about every 20 ms (package solver/turn), so that a stop or a
+// weight change gets in while it runs.
 package bound

@@ -5,6 +5,7 @@ import (
 	"math/bits"
 
 	"visitline/solver"
+	"visitline/solver/turn"
 )
 
 // dpKind is what the forward dynamic programme minimises.
@@ -453,7 +454,7 @@ func runDP(ctx context.Context, p *prob, cfg dpConfig) dpResult {
 					} else {
 						g := int64(0)
 						if cfg.rx != nil {
-							g = cfg.rx.togo(r, j, stj)
+							g = cfg.rx.togoSet(r, j, stj, words)
 							if g == inf {
 								continue
 							}
@@ -477,6 +478,7 @@ func runDP(ctx context.Context, p *prob, cfg dpConfig) dpResult {
 					st.insert(h^z[rj], int32(j), words, rj, stj, pc2, f, l)
 					if cfg.beam > 0 && st.live > 2*cfg.beam {
 						scratch = st.trim(cfg.beam, scratch)
+						turn.Due()
 					}
 				}
 				if cfg.kind == dpFeasible && final && st.live > 0 {
@@ -486,6 +488,7 @@ func runDP(ctx context.Context, p *prob, cfg dpConfig) dpResult {
 		}
 		if cfg.beam > 0 && st.live > cfg.beam && !final {
 			scratch = st.trim(cfg.beam, scratch)
+			turn.Due()
 		}
 		if st.drop < inf {
 			res.dropped = true

@@ -25,11 +25,11 @@ func FeasibleExists(ctx context.Context, in *solver.Instance) (feasible, proven 
 // decide is FeasibleExists with a stage cap; it also returns a feasible
 // route when it finds one.
 func decide(ctx context.Context, in *solver.Instance, stageCap int) (feasible, proven bool, route []int) {
-	p := newProb(in)
+	p := newProbCtx(ctx, in)
 	if p.infeasible {
 		return false, true, nil
 	}
-	y := &yielder{hook: yieldFrom(ctx)}
+	y := &yielder{}
 	if in.N == 1 {
 		return true, true, []int{in.Start}
 	}
@@ -38,7 +38,7 @@ func decide(ctx context.Context, in *solver.Instance, stageCap int) (feasible, p
 		return true, true, r.route
 	}
 	// No relaxed path at all proves infeasibility cheaply.
-	rx := buildRelax(ctx, p, solver.TravelTime, make([]int64, in.N), 4, 4<<20, y)
+	rx := buildRelax(ctx, p, solver.TravelTime, make([]int64, in.N), nil, 4, 4<<20, y)
 	if rx != nil && rx.z == inf {
 		return false, true, nil
 	}
@@ -119,17 +119,6 @@ type ExplainOptions struct {
 	FormatDuration func(int64) string
 	// Name names a node in the sentence (for example its site name).
 	Name func(int) string
-	// Yield, like Options.Yield, is called about every 20 ms of work, so
-	// that a single-threaded host (the web worker) keeps taking messages.
-	Yield func()
-}
-
-type yieldKey struct{}
-
-// yieldFrom is the hook ExplainWith put into ctx, or nil.
-func yieldFrom(ctx context.Context) func() {
-	h, _ := ctx.Value(yieldKey{}).(func())
-	return h
 }
 
 // ExplainWith is Explain with the Reason written the caller's way.
@@ -137,9 +126,6 @@ func ExplainWith(ctx context.Context, in *solver.Instance, eo ExplainOptions) (E
 	ex := Explanation{Widen: -1, Drop: -1}
 	if err := in.Validate(); err != nil {
 		return ex, err
-	}
-	if eo.Yield != nil {
-		ctx = context.WithValue(ctx, yieldKey{}, eo.Yield)
 	}
 	ok, proven := FeasibleExists(ctx, in)
 	if ok {
@@ -171,7 +157,7 @@ func ExplainWith(ctx context.Context, in *solver.Instance, eo ExplainOptions) (E
 	frame, cands := splitFrame(free)
 	// Order the candidates by tightened latest start: conflicts are mostly
 	// among visits with neighbouring deadlines.
-	p := newProb(free)
+	p := newProbCtx(ctx, free)
 	sort.SliceStable(cands, func(a, b int) bool {
 		if p.lt[cands[a]] != p.lt[cands[b]] {
 			return p.lt[cands[a]] < p.lt[cands[b]]
@@ -394,7 +380,7 @@ func widening(ctx context.Context, in *solver.Instance, v int) (by int64, exact,
 	if v == w.Start {
 		return 0, false, false
 	}
-	p := newProb(w)
+	p := newProbCtx(ctx, w)
 	if p.infeasible {
 		return 0, false, false
 	}

@@ -1,6 +1,7 @@
 package bound
 
 import (
+	"context"
 	"math"
 	"sort"
 
@@ -40,8 +41,12 @@ type prob struct {
 	pinned     bool       // some node other than the start is pinned (fixed prefix or positions)
 
 	mustBeforeTmp [][]bool
-	y             yielder // turns for other goroutines during the cubic steps
+	y             yielder         // turns for the host during the cubic steps
+	ctx           context.Context // preprocessing stops early (still valid, only weaker) when it ends
 }
+
+// halted steps the pacer and says whether preprocessing must stop now.
+func (p *prob) halted() bool { return p.y.tick() && p.ctx.Err() != nil }
 
 func (p *prob) t(i, j int) int64 { return p.in.Travel[i*p.n+j] }
 
@@ -49,9 +54,13 @@ func (p *prob) t(i, j int) int64 { return p.in.Travel[i*p.n+j] }
 // ones (Desrochers, Desrosiers and Solomon 1992; Dumas et al. 1995), written
 // so that they stay valid when travel times break the triangle inequality:
 // precedences use shortest paths, never single arcs.
-func newProb(in *solver.Instance) *prob {
+func newProb(in *solver.Instance) *prob { return newProbCtx(context.Background(), in) }
+
+// newProbCtx is newProb that stops tightening when ctx ends: every rule
+// applied so far holds, so the result is valid, only less tight.
+func newProbCtx(ctx context.Context, in *solver.Instance) *prob {
 	n := in.N
-	p := &prob{in: in, n: n, start: in.Start, end: -1, shape: in.Shape}
+	p := &prob{in: in, n: n, start: in.Start, end: -1, shape: in.Shape, ctx: ctx}
 	if in.Shape == solver.OpenFixed {
 		p.end = in.End
 	}
@@ -111,6 +120,7 @@ func newProb(in *solver.Instance) *prob {
 	p.et[p.start], p.lt[p.start] = p.e[p.start], p.e[p.start]
 	p.arc = make([]bool, n*n)
 	for i := 0; i < n; i++ {
+		p.y.tick()
 		for j := 0; j < n; j++ {
 			p.arc[i*n+j] = p.structural(i, j)
 		}
@@ -124,10 +134,12 @@ func newProb(in *solver.Instance) *prob {
 		if why := p.tighten(); why != "" {
 			return fail(why)
 		}
-		if n > spLimit {
+		if n > spLimit || ctx.Err() != nil {
 			break
 		}
-		p.shortestPaths()
+		if !p.shortestPaths() {
+			break
+		}
 		if !p.precedences() {
 			return fail("two visits must each come before the other")
 		}
@@ -159,6 +171,9 @@ func (p *prob) tighten() string {
 		changed = false
 		// Arc elimination by windows.
 		for i := 0; i < n; i++ {
+			if p.halted() {
+				return ""
+			}
 			for j := 0; j < n; j++ {
 				if !p.arc[i*n+j] {
 					continue
@@ -176,6 +191,9 @@ func (p *prob) tighten() string {
 		// Earliest start from the earliest predecessor; latest start from the
 		// latest successor.
 		for j := 0; j < n; j++ {
+			if p.halted() {
+				return ""
+			}
 			if j == p.start {
 				continue
 			}
@@ -196,6 +214,9 @@ func (p *prob) tighten() string {
 			}
 		}
 		for j := 0; j < n; j++ {
+			if p.halted() {
+				return ""
+			}
 			if j == p.start || p.shape == solver.OpenFree || j == p.end {
 				continue
 			}
@@ -275,7 +296,9 @@ func (p *prob) structural(i, j int) bool {
 // shortestPaths fills sp by Floyd–Warshall over the remaining arcs, with arc
 // i→j weighing s_i + t_ij: waiting only adds to it, so it bounds from below
 // the time from the start of service at i to the start of service at j.
-func (p *prob) shortestPaths() {
+// It reports false, leaving sp nil, when the context ended first (partial
+// paths would overestimate, and precedences need underestimates).
+func (p *prob) shortestPaths() bool {
 	n := p.n
 	sp := make([]int64, n*n)
 	for i := 0; i < n; i++ {
@@ -294,7 +317,9 @@ func (p *prob) shortestPaths() {
 		}
 		rowK := sp[k*n : k*n+n]
 		for i := 0; i < n; i++ {
-			p.y.tick()
+			if p.halted() {
+				return false
+			}
 			dik := sp[i*n+k]
 			if dik == inf {
 				continue
@@ -308,6 +333,7 @@ func (p *prob) shortestPaths() {
 		}
 	}
 	p.sp = sp
+	return true
 }
 
 // precedences derives "i must come before j" from shortest paths and
@@ -320,6 +346,7 @@ func (p *prob) precedences() bool {
 		before[j] = make([]bool, n)
 	}
 	for i := 0; i < n; i++ {
+		p.y.tick()
 		for j := 0; j < n; j++ {
 			if i == j || i == p.start || j == p.start {
 				continue
@@ -361,7 +388,11 @@ func (p *prob) precedences() bool {
 			if !p.arc[i*n+j] || j == p.start {
 				continue
 			}
-			p.y.tick()
+			if p.halted() {
+				// Stop removing arcs; the precedences found still hold.
+				p.mustBeforeTmp = before
+				return true
+			}
 			for k := 0; k < n; k++ {
 				if k != i && k != j && before[k][i] && before[j][k] {
 					p.arc[i*n+j] = false
@@ -398,6 +429,7 @@ func (p *prob) finishSets() {
 	if p.arc != nil {
 		p.succ = make([][]int32, n)
 		for i := 0; i < n; i++ {
+			p.y.tick()
 			for _, j := range p.byRank {
 				if p.arc[i*n+int(j)] {
 					p.succ[i] = append(p.succ[i], j)

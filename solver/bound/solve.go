@@ -140,7 +140,7 @@ func SolveWith(ctx context.Context, in *solver.Instance, s solver.Settings, o Op
 	if res.Best.Feasible && b.Valid && b.Value >= res.Best.Cost {
 		b.Value = res.Best.Cost
 		b.ProvenOptimal = true
-		res.Stop = "complete"
+		res.Stop = solver.StopComplete
 	} else {
 		b.ProvenOptimal = false
 	}

@@ -38,7 +38,7 @@ func TestSolveProvesSmallInstanceOptimal(t *testing.T) {
 		require.True(t, res.Best.Feasible)
 		require.Equal(t, wantCost, res.Best.Cost, "enumerated optimum %v", want)
 		require.True(t, b.ProvenOptimal)
-		require.Equal(t, "complete", res.Stop)
+		require.Equal(t, solver.StopComplete, res.Stop)
 		require.Equal(t, wantCost, b.Value)
 		r := ReportFor(b, res.Best)
 		require.True(t, r.ProvenOptimal)
@@ -86,17 +86,23 @@ func TestSolveInfeasibleDay(t *testing.T) {
 	require.True(t, proven)
 }
 
-func TestYieldHookIsCalled(t *testing.T) {
-	// A wide-window instance takes well over a thousand steps, and the hook
-	// runs at the first turn and then at most every 20 ms: at least once.
+func TestPrepStopsWhenContextEnds(t *testing.T) {
+	// With its context ended, preprocessing stops before the shortest
+	// paths (which could not be trusted half done) and claims nothing:
+	// the exact search on such a prob still agrees with enumeration
+	// through its own bound checks, and the full prob has the paths.
 	rng := rand.New(rand.NewSource(4))
 	in := randomInstance(rng, 10, 5000, solver.Closed)
-	calls := 0
-	b := Exact(context.Background(), in, Options{Yield: func() { calls++ }})
-	require.True(t, b.ProvenOptimal)
-	_, opt, _ := Enumerate(in, solver.TravelTime)
-	require.Equal(t, opt, b.Cost)
-	require.GreaterOrEqual(t, calls, 1)
+	require.NotNil(t, newProb(in).sp)
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	p := newProbCtx(ctx, in)
+	require.Nil(t, p.sp)
+	require.Nil(t, p.mustBefore)
+	require.False(t, p.infeasible)
+	b := Lower(ctx, in, Options{})
+	require.False(t, b.ProvenOptimal)
+	require.False(t, b.Infeasible)
 }
 
 func TestSearchWithoutShortestPaths(t *testing.T) {

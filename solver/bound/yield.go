@@ -1,44 +1,17 @@
 package bound
 
-import (
-	"runtime"
-	"time"
-)
+import "visitline/solver/turn"
 
-// yielder gives other goroutines a turn every so many steps of work, and
-// calls the host's hook every hookEvery. In the WebAssembly build goroutines
-// are cooperative and the JavaScript event loop only runs when every
-// goroutine is blocked: runtime.Gosched lets the engine's goroutine run, and
-// the hook (which should block until the event loop has had a turn) lets
-// the worker's messages in.
+// yielder paces the bound's long loops: tick counts one step (one label
+// expansion, one table row); under GOOS=js it gives the host a turn about
+// every turn.Every of work (so that the worker's messages get in while the
+// bound runs), and every thousand steps or so it returns true, so that the
+// caller checks its context then.
 type yielder struct {
-	n    int
-	hook func()
-	last time.Time
+	p turn.Pacer
 }
 
-// tickEvery is the number of steps between turns: a step is one label
-// expansion or one table row, a microsecond or so.
-const tickEvery = 1024
+func (y *yielder) tick() bool { return y.p.Step() }
 
-// hookEvery is how often the hook runs at most.
-const hookEvery = 20 * time.Millisecond
-
-// tick counts one step; every tickEvery steps it yields (and calls the hook
-// when hookEvery has passed) and returns true, so that the caller checks its
-// context then.
-func (y *yielder) tick() bool {
-	y.n++
-	if y.n < tickEvery {
-		return false
-	}
-	y.n = 0
-	if y.hook != nil {
-		if now := time.Now(); now.Sub(y.last) >= hookEvery {
-			y.last = now
-			y.hook()
-		}
-	}
-	runtime.Gosched()
-	return true
-}
+// ticks counts a step worth k small ones (say, one per candidate it sorts).
+func (y *yielder) ticks(k int) bool { return y.p.Add(k) }

@@ -56,6 +56,27 @@ func ReadClaims(r io.Reader, name string) (*Claims, error) {
 	return &c, nil
 }
 
+// RouteIDsProblem checks that the plan's route_ids name d's sites at the
+// same places (when the plan has them): a plan made from other data, or
+// with other options (--done), is refused. name is the plan's file name.
+func (d *Dataset) RouteIDsProblem(c *Claims, name string) error {
+	in := d.Instance
+	if c.RouteIDs == nil {
+		return nil
+	}
+	if len(c.RouteIDs) != len(c.Route) {
+		return &ParseError{File: name, Field: "route_ids", Msg: fmt.Sprintf("has %d ids but route has %d nodes", len(c.RouteIDs), len(c.Route))}
+	}
+	for k, v := range c.Route {
+		if v >= 0 && v < in.N && in.ID(v) != c.RouteIDs[k] {
+			return &ParseError{File: name, Field: "route_ids",
+				Msg: fmt.Sprintf("place %d is node %d, which is %s here, but the plan says %s: was the plan made from other data or other options (--done)?",
+					k, v, Printable(clip(in.ID(v))), Printable(clip(c.RouteIDs[k])))}
+		}
+	}
+	return nil
+}
+
 // RouteProblems names, by site id, what makes route no order of d's
 // sites: nodes out of range, sites visited twice, sites missing, a wrong
 // start or end. It says nothing of windows.

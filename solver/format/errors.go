@@ -117,7 +117,7 @@ func JSONError(err error) string {
 	var te *json.UnmarshalTypeError
 	switch {
 	case errors.As(err, &te):
-		field := te.Field
+		field := jsonPath(te.Field)
 		if field == "" {
 			field = "the message"
 		} else {
@@ -137,6 +137,21 @@ func JSONError(err error) string {
 		return "not a JSON object of the expected form"
 	}
 	return clip(msg)
+}
+
+// jsonPath drops from a field path the names of embedded Go structs
+// (encoding/json writes "RunOptions.budget" for a field of an embedded
+// struct); the JSON names of the messages are all lower case.
+func jsonPath(p string) string {
+	parts := strings.Split(p, ".")
+	keep := parts[:0]
+	for _, s := range parts {
+		if s != "" && s[0] >= 'A' && s[0] <= 'Z' {
+			continue
+		}
+		keep = append(keep, s)
+	}
+	return strings.Join(keep, ".")
 }
 
 func jsonKind(t reflect.Type) string {

@@ -84,6 +84,15 @@ func TestEveryDataErrorListed(t *testing.T) {
 	assert.Len(t, list, 4)
 }
 
+func TestEveryMissingCoordinateListed(t *testing.T) {
+	_, err := loadText(t, "id,x,y\nD,0,0\nA,,\nB,1,1\nC,,\n", Options{})
+	var list ErrorList
+	require.True(t, errors.As(err, &list), "%v", err)
+	require.Len(t, list, 2)
+	assert.Equal(t, 3, list[0].Line)
+	assert.Equal(t, 5, list[1].Line)
+}
+
 func TestErrorListIsBounded(t *testing.T) {
 	var b strings.Builder
 	b.WriteString("id,service\nD,0\n")
@@ -313,6 +322,14 @@ func TestCROnlyLineEndings(t *testing.T) {
 	require.Equal(t, 3, d.Instance.N)
 	assert.Equal(t, []int{2, 3, 4}, d.Lines)
 	assert.Equal(t, 5*SitesScale, d.Instance.T(1, 2))
+
+	// A benchmark file with CR line ends, through Load as the page and
+	// the command line read it.
+	b, err := Load(strings.NewReader("# two nodes\r2\r0 5\r7 0\r0 100\r0 90\r"), nil, Options{SitesName: "b.txt"})
+	require.NoError(t, err)
+	assert.Equal(t, "benchmark", b.Travel)
+	assert.Equal(t, int64(7), b.Instance.T(1, 0))
+	assert.Equal(t, int64(90), b.Instance.Late[1])
 }
 
 func TestMatrixMissingColumn(t *testing.T) {

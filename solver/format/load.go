@@ -168,8 +168,25 @@ const peekSize = 64 << 10
 func load(sites io.Reader, matrix io.Reader, opt Options) (*Dataset, error) {
 	br := bufio.NewReaderSize(sites, peekSize)
 	head, _ := br.Peek(peekSize)
-	bench, sure := benchmarkHead(head, len(head) < peekSize)
+	// A TSPLIB file says so in its first line; then it is neither of the
+	// other two formats.
+	tsp := IsTSPLIB(string(head))
+	bench, sure := false, true
+	if !tsp {
+		bench, sure = benchmarkHead(head, len(head) < peekSize)
+	}
 	var d *Dataset
+	if tsp {
+		if matrix != nil {
+			return nil, &ParseError{File: opt.MatrixName, Field: "travel matrix",
+				Msg: fmt.Sprintf("%s is a TSPLIB file, which holds its own travel; give no separate matrix", nameOr(opt.SitesName))}
+		}
+		in, err := ReadTSPLIB(br, opt.SitesName)
+		if err != nil {
+			return nil, err
+		}
+		d = &Dataset{Instance: in, Names: make([]string, in.N), Lines: make([]int, in.N), Travel: "TSPLIB"}
+	}
 	if !sure {
 		// The first line that says what the file is lies beyond the
 		// look-ahead: read it all to decide.
@@ -293,12 +310,23 @@ func fromSites(s *Sites, matrix io.Reader, opt Options) (*Dataset, error) {
 	if latlon {
 		a, b = "lat", "lon"
 	}
+	var missing ErrorList
 	for k, st := range s.Sites {
 		if latlon && !st.HasLatLon || !latlon && !st.HasXY {
 			line, col := s.pos(k, a)
-			return nil, &ParseError{File: s.Name, Line: line, Column: col, Field: s.colLabel(a),
-				Msg: fmt.Sprintf("missing; travel times come from %s,%s, so every site needs them (or give a travel matrix)", a, b)}
+			missing = append(missing, &ParseError{File: s.Name, Line: line, Column: col, Field: s.colLabel(a),
+				Msg: fmt.Sprintf("missing; travel times come from %s,%s, so every site needs them (or give a travel matrix)", a, b)})
+			if len(missing) == maxErrors {
+				break
+			}
 		}
+	}
+	switch len(missing) {
+	case 0:
+	case 1:
+		return nil, missing[0]
+	default:
+		return nil, missing
 	}
 	speed := opt.Speed
 	if speed == 0 {

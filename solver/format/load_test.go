@@ -265,20 +265,28 @@ func TestLoadErrors(t *testing.T) {
 
 func ptr(s string) *string { return &s }
 
-func TestReadPlanRouteFor(t *testing.T) {
+func TestRouteIDsOfAPlan(t *testing.T) {
 	d := loadFive(t, fiveSites, Options{})
-	route, err := ReadPlanRouteFor(strings.NewReader(`{"route":[0,1,2,3,4],"route_ids":["D","A","B","C","E"]}`), "p.json", d.Instance)
-	require.NoError(t, err)
-	assert.Equal(t, []int{0, 1, 2, 3, 4}, route)
-	route, err = ReadPlanRouteFor(strings.NewReader(`{"route":[0,2,1,3,4]}`), "p.json", d.Instance)
-	require.NoError(t, err, "route_ids are optional")
-	assert.Equal(t, []int{0, 2, 1, 3, 4}, route)
-	_, err = ReadPlanRouteFor(strings.NewReader(`{"route":[0,1],"route_ids":["D"]}`), "p.json", d.Instance)
-	assert.EqualError(t, err, "p.json: route_ids: has 1 ids but route has 2 nodes")
-	_, err = ReadPlanRouteFor(strings.NewReader(`{"route":[0,1],"route_ids":["D","B"]}`), "p.json", d.Instance)
-	assert.ErrorContains(t, err, `p.json: route_ids: place 1 is node 1, which is "A" here, but the plan says "B"`)
-	_, err = ReadPlanRouteFor(strings.NewReader(`{"route_ids":["D"]}`), "p.json", d.Instance)
-	assert.ErrorContains(t, err, `p.json: route: missing`)
+	cases := []struct{ name, plan, want string }{
+		{"ids agree", `{"route":[0,1,2,3,4],"route_ids":["D","A","B","C","E"]}`, ""},
+		{"route_ids are optional", `{"route":[0,2,1,3,4]}`, ""},
+		{"count differs", `{"route":[0,1],"route_ids":["D"]}`, "p.json: route_ids: has 1 ids but route has 2 nodes"},
+		{"other data", `{"route":[0,1],"route_ids":["D","B"]}`, `p.json: route_ids: place 1 is node 1, which is A here, but the plan says B`},
+		{"no route", `{"route_ids":["D"]}`, "p.json: route: missing"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			cl, err := ReadClaims(strings.NewReader(c.plan), "p.json")
+			if err == nil {
+				err = d.RouteIDsProblem(cl, "p.json")
+			}
+			if c.want == "" {
+				require.NoError(t, err)
+				return
+			}
+			assert.ErrorContains(t, err, c.want)
+		})
+	}
 }
 
 func TestLoadPastedText(t *testing.T) {

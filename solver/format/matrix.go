@@ -153,13 +153,13 @@ func parseMatrix(text, name string, comma rune, unit Unit, ids []string) (*Matri
 	}
 	// Spreadsheets may end every row with an empty cell: drop such
 	// trailing columns while the rows are wider than they need be.
-	trim := -1
+	trim := shapes[0].trailing
 	for _, r := range shapes {
 		k := r.trailing
 		if r.width-n < k {
 			k = r.width - n
 		}
-		if trim < 0 || k < trim {
+		if k < trim {
 			trim = k
 		}
 	}

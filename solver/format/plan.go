@@ -128,7 +128,7 @@ func NewPlanJSON(in *solver.Instance, obj solver.Objective, p solver.Plan, res *
 		}
 	}
 	if res != nil {
-		j.Iterations, j.Seconds, j.Improvements, j.Stop = res.Iterations, res.Elapsed.Seconds(), res.Improvements, res.Stop
+		j.Iterations, j.Seconds, j.Improvements, j.Stop = res.Iterations, res.Elapsed.Seconds(), res.Improvements, res.Stop.String()
 	}
 	return j
 }
@@ -189,53 +189,6 @@ func WriteJSON(w io.Writer, j PlanJSON) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	return enc.Encode(j)
-}
-
-// ReadPlanRoute reads the route of a plan written by WriteJSON (only
-// "route" is needed). name is used in errors.
-func ReadPlanRoute(r io.Reader, name string) ([]int, error) {
-	var j struct {
-		Route []int `json:"route"`
-	}
-	dec := json.NewDecoder(r)
-	if err := dec.Decode(&j); err != nil {
-		return nil, &ParseError{File: name, Field: "plan JSON", Msg: JSONError(err), Err: err}
-	}
-	if j.Route == nil {
-		return nil, &ParseError{File: name, Field: "route", Msg: `missing; want "route": [0, ...] with 0-based node numbers`}
-	}
-	return j.Route, nil
-}
-
-// ReadPlanRouteFor reads the route of a plan for in. When the plan also
-// has route_ids, they must name in's sites at the same places: a plan
-// made from other data, or with other options, is refused.
-func ReadPlanRouteFor(r io.Reader, name string, in *solver.Instance) ([]int, error) {
-	var j struct {
-		Route    []int    `json:"route"`
-		RouteIDs []string `json:"route_ids"`
-	}
-	data, err := io.ReadAll(io.LimitReader(r, MaxInputBytes))
-	if err != nil {
-		return nil, &ParseError{File: name, Msg: "cannot read: " + err.Error(), Err: err}
-	}
-	route, err := ReadPlanRoute(strings.NewReader(string(data)), name)
-	if err != nil {
-		return nil, err
-	}
-	if json.Unmarshal(data, &j) != nil || j.RouteIDs == nil {
-		return route, nil
-	}
-	if len(j.RouteIDs) != len(route) {
-		return nil, &ParseError{File: name, Field: "route_ids", Msg: fmt.Sprintf("has %d ids but route has %d nodes", len(j.RouteIDs), len(route))}
-	}
-	for k, v := range route {
-		if v >= 0 && v < in.N && in.ID(v) != j.RouteIDs[k] {
-			return nil, &ParseError{File: name, Field: "route_ids",
-				Msg: fmt.Sprintf("place %d is node %d, which is %q here, but the plan says %q: was the plan made from other data or other options (--start, --end, --done)?", k, v, in.ID(v), j.RouteIDs[k])}
-		}
-	}
-	return route, nil
 }
 
 // CSVHeader is the header row of WriteCSV.

@@ -1,14 +1,21 @@
 // Visitline's web worker: starts the Go engine (engine.wasm) and relays
-// messages between it and the page. The protocol is documented in
-// wasm/protocol.go. The served site loads wasm_exec.js here; the single-file
-// page puts wasm_exec.js in front of this script and sends the engine bytes.
+// messages between it and the page (through engine-client.js, which runs
+// several of these). The protocol is documented in wasm/protocol.go. The
+// served site loads wasm_exec.js here; the single-file page puts
+// wasm_exec.js in front of this script. The engine comes as a compiled
+// WebAssembly.Module (compiled once for every worker), as bytes, or as a URL.
 "use strict";
 if (typeof Go === "undefined") {
   importScripts("wasm_exec.js");
 }
 (function () {
   let ready = false;
+  let memory = null;
   const queue = [];
+
+  function memoryMB() {
+    return memory ? Math.round((memory.buffer.byteLength / 1048576) * 10) / 10 : 0;
+  }
 
   // The engine calls this with each reply as JSON text.
   self.visitlineReply = function (text) {
@@ -25,25 +32,28 @@ if (typeof Go === "undefined") {
         while (queue.length) self.visitlineEngine.handle(queue.shift());
       }, 0);
     }
+    if (msg.type === "progress" || msg.type === "finished" || msg.type === "bound") msg.memory_mb = memoryMB();
+    // When the worker sent it (ms since the epoch, as the page's clock):
+    // the page may take it in much later when it is busy drawing.
+    msg.sent_at = performance.timeOrigin + performance.now();
     self.postMessage(msg);
   };
 
   async function boot(m) {
     const go = new Go();
-    let result;
-    if (m.wasm) {
-      result = await WebAssembly.instantiate(m.wasm, go.importObject);
+    let instance;
+    if (m.module) {
+      instance = await WebAssembly.instantiate(m.module, go.importObject);
+    } else if (m.wasm) {
+      instance = (await WebAssembly.instantiate(m.wasm, go.importObject)).instance;
     } else {
       const resp = await fetch(m.url || "engine.wasm");
       if (!resp.ok) throw new Error("engine.wasm: " + resp.status + " " + resp.statusText);
-      if (WebAssembly.instantiateStreaming && (resp.headers.get("Content-Type") || "").indexOf("application/wasm") === 0) {
-        result = await WebAssembly.instantiateStreaming(resp, go.importObject);
-      } else {
-        result = await WebAssembly.instantiate(await resp.arrayBuffer(), go.importObject);
-      }
+      instance = (await WebAssembly.instantiate(await resp.arrayBuffer(), go.importObject)).instance;
     }
-    go.run(result.instance).then(function () {
-      self.postMessage({ type: "failed", message: "the engine stopped; reload the page to start it again" });
+    memory = instance.exports.mem || null;
+    go.run(instance).then(function () {
+      self.postMessage({ type: "failed", fatal: true, message: "the engine stopped; reload the page to start it again" });
     });
   }
 

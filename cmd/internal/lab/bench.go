@@ -161,6 +161,9 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 			var trace [][2]float64
 			s := solver.Settings{Budget: runBudget, Iterations: *iterations, Seed: int64(seed), Workers: *workers}
 			bk, hasBK := known[fam+"/"+name]
+			if !hasBK { // TSPLIB's optimal.csv names instances without the extension
+				bk, hasBK = known[fam+"/"+strings.TrimSuffix(name, filepath.Ext(name))]
+			}
 			ctx, cancel := context.WithCancel(context.Background())
 			cpu0 := processCPU()
 			var called time.Time

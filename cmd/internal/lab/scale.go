@@ -345,7 +345,7 @@ func scaleCase(n int, lvl gen.Tightness, seed int64, budget time.Duration, iters
 	}
 	row.Iterations = res.Iterations
 	row.Seconds = wall.Seconds()
-	row.Stop = res.Stop
+	row.Stop = res.Stop.String()
 	if row.Seconds > 0 {
 		row.ItersPerSecond = float64(res.Iterations) / row.Seconds
 	}
