@@ -98,8 +98,14 @@ bench-browser:
 	VISITLINE_BENCH_BROWSER=1 VISITLINE_BENCH_TRIES=$(BENCH_TRIES) VISITLINE_BENCH_BEST=$(BENCH_BEST) \
 		$(GO) test -count=1 -timeout 0 -run '^TestBenchBrowser$$' -v ./web | tee bench-browser.txt
 
+# The bound report: CPU-time budgets per instance, one thread. BOUND_FILTER
+# takes instance-name parts, comma-separated (e.g. .001,.002).
+BOUND_FAMILIES ?= Dumas,GendreauDumasExtended
+BOUND_BUDGET ?= 10s
+BOUND_FILTER ?=
 bound-report:
-	VISITLINE_BOUND_REPORT=Dumas,GendreauDumasExtended VISITLINE_BOUND_BUDGET=10s GOMAXPROCS=1 $(GO) test -count=1 -timeout 0 -run TestBoundReport -v ./solver/bound
+	VISITLINE_BOUND_REPORT=$(BOUND_FAMILIES) VISITLINE_BOUND_BUDGET=$(BOUND_BUDGET) VISITLINE_BOUND_FILTER=$(BOUND_FILTER) \
+		VISITLINE_BOUND_CPU=1 GOMAXPROCS=1 $(GO) test -count=1 -timeout 0 -run TestBoundReport -v ./solver/bound
 
 # The static site: dist/index.html, engine.wasm, wasm_exec.js, scripts,
 # styles, examples, and dist/visitline.html (one self-contained file).

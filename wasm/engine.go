@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"strconv"
 	"strings"
@@ -78,6 +79,11 @@ func (e *Engine) Ready() {
 func (e *Engine) Handle(raw string) {
 	var m inbound
 	if err := json.Unmarshal([]byte(raw), &m); err != nil {
+		var te *json.UnmarshalTypeError
+		if errors.As(err, &te) {
+			// The start options are embedded: name the field as the page does.
+			te.Field = strings.TrimPrefix(te.Field, "RunOptions.")
+		}
 		e.fail("message is not valid JSON: %s", format.JSONError(err))
 		return
 	}

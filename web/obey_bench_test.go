@@ -20,6 +20,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/chromedp/chromedp"
 	"github.com/stretchr/testify/require"
 
 	"visitline/solver"
@@ -86,6 +87,18 @@ func (s stats) String() string {
 	return out
 }
 
+// longTab is tab with a time limit for measurements (tab's is 90 s).
+func longTab(t *testing.T, d time.Duration) context.Context {
+	t.Helper()
+	tab(t) // starts the shared browser
+	ctx, cancel := chromedp.NewContext(shared.browser, chromedp.WithNewBrowserContext())
+	t.Cleanup(cancel)
+	ctx, cancel2 := context.WithTimeout(ctx, d)
+	t.Cleanup(cancel2)
+	require.NoError(t, chromedp.Do(ctx, chromedp.Navigate("about:blank")))
+	return ctx
+}
+
 func TestBenchBrowser(t *testing.T) {
 	if os.Getenv("VISITLINE_BENCH_BROWSER") == "" {
 		t.Skip("set VISITLINE_BENCH_BROWSER=1 (make bench-browser)")
@@ -94,7 +107,7 @@ func TestBenchBrowser(t *testing.T) {
 	if n, err := strconv.Atoi(os.Getenv("VISITLINE_BENCH_TRIES")); err == nil && n > 0 {
 		tries = n
 	}
-	ctx, _ := tab(t)
+	ctx := longTab(t, 3*time.Hour)
 	files := site(t)
 	t.Logf("engine.wasm: %d bytes raw", len(files["engine.wasm"]))
 	var ready stats
@@ -108,7 +121,7 @@ func TestBenchBrowser(t *testing.T) {
 		name string
 		text func() string
 	}{
-		{"60 sites", func() string { return longInstance(61, 11) }},
+		{"60 sites (GendreauDumasExtended n60w160.001)", func() string { return publishedOrSkip(t, "GendreauDumasExtended/n60w160.001.txt") }},
 		{"200 sites (OhlmannThomas n200w120.002)", func() string { return publishedOrSkip(t, "OhlmannThomas/n200w120.002.txt") }},
 		{"1000 sites", func() string { return sitesDay(1000, 5) }},
 		{"2000 sites", func() string { return sitesDay(2000, 6) }},
@@ -129,10 +142,16 @@ func TestBenchBrowser(t *testing.T) {
 		openPage(t, ctx, "")
 		loadPaste(t, ctx, c.text())
 		var stop, mix, stopEng, mixEng stats
+		ended := 0
 		for i := 0; i < tries; i++ {
-			startRun(t, ctx, "120", true)
+			clickStart(t, ctx, "120", true)
+			waitFor(t, ctx, `document.body.dataset.run === "finished" || document.body.dataset.run === "running" && Number(document.getElementById('iterations').textContent.replace(/[^0-9]/g,'')) > 0`, 60*time.Second)
 			eval[bool](t, ctx, `(VisitlineEngine.last.trace = [], true)`)
 			time.Sleep(time.Duration(500+100*i) * time.Millisecond)
+			if eval[string](t, ctx, `document.body.dataset.run`) != "running" {
+				ended++ // proven optimal before it could be steered
+				continue
+			}
 			mix.add(mixAck(t, ctx, []string{"0", "1"}[i%2], 20000))
 			time.Sleep(300 * time.Millisecond)
 			stop.add(stopRun(t, ctx, 20000))
@@ -144,8 +163,33 @@ func TestBenchBrowser(t *testing.T) {
 			}
 			stopEng.add(worst)
 		}
+		if ended > 0 {
+			t.Logf("%s: %d of %d runs ended with a proof before they could be steered", c.name, ended, tries)
+		}
 		t.Logf("%s, bound on, 1 search worker: Stop to finished on the page %v; by the workers' stamps %v", c.name, stop, stopEng)
 		t.Logf("%s, bound on, 1 search worker: weight change to acknowledgement on the page %v; by the worker's stamp %v", c.name, mix, mixEng)
+	}
+
+	// Memory at 2,000 sites with 4 search workers and the bound worker.
+	if os.Getenv("VISITLINE_BENCH_MEMORY") != "0" {
+		openPage(t, ctx, "")
+		_, _, fin := engineRun(t, ctx, map[string]any{"type": "load", "text": sitesDay(2000, 6)},
+			map[string]any{"type": "start", "budget": 20, "seed": 1}, 4)
+		total := 0.0
+		var per []string
+		for _, w := range fin["workers"].([]any) {
+			mb := w.(map[string]any)["memory_mb"].(float64)
+			total += mb
+			per = append(per, fmt.Sprintf("%.0f", mb))
+		}
+		bmb := 0.0
+		if b, ok := fin["bound"].(map[string]any); ok {
+			bmb, _ = b["memory_mb"].(float64)
+		}
+		total += bmb
+		heap := eval[float64](t, ctx, `performance.memory ? performance.memory.usedJSHeapSize / 1048576 : 0`)
+		t.Logf("2000 sites, 4 search workers + bound, 20 s: WebAssembly memory per search worker %s MB, bound worker %.0f MB; page heap %.0f MB; in all %.0f MB",
+			strings.Join(per, ", "), bmb, heap, total+heap)
 	}
 
 	// Per-worker rate against native, by CPU time: the same instance, seed

@@ -6,6 +6,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -77,7 +78,8 @@ func reportOptions(t *testing.T) Options {
 // per instance and prints the proven count and mean bound gap. It is a
 // measurement, not a test: it runs only with VISITLINE_BOUND_REPORT set, to
 // a comma-separated list of families (or "all"), and VISITLINE_BOUND_BUDGET
-// (default 10s). Run it with GOMAXPROCS=1 on a shared machine.
+// (default 10s), of CPU time with VISITLINE_BOUND_CPU=1. Run it with
+// GOMAXPROCS=1 on a shared machine.
 func TestBoundReport(t *testing.T) {
 	fams := os.Getenv("VISITLINE_BOUND_REPORT")
 	if fams == "" {
@@ -90,9 +92,14 @@ func TestBoundReport(t *testing.T) {
 		budget = d
 	}
 	filter := os.Getenv("VISITLINE_BOUND_FILTER")
+	// VISITLINE_BOUND_CPU=1: the budget is of CPU time (seconds reported
+	// are CPU seconds too), for a machine shared with other work.
+	cpu := os.Getenv("VISITLINE_BOUND_CPU") != ""
 	type sum struct {
 		runs, proven     int
 		gap, gapInc, sec float64
+		maxGap           float64
+		proofSec         []float64
 	}
 	sums := map[string]*sum{}
 	var order []string
@@ -100,15 +107,24 @@ func TestBoundReport(t *testing.T) {
 		if fams != "all" && !strings.Contains(","+fams+",", ","+k.family+",") {
 			continue
 		}
-		if filter != "" && !strings.Contains(k.instance, filter) {
+		if filter != "" && !slices.ContainsFunc(strings.Split(filter, ","), func(f string) bool { return strings.Contains(k.instance, f) }) {
 			continue
 		}
 		in := loadBench(t, k)
-		ctx, cancel := context.WithTimeout(context.Background(), budget)
-		start := time.Now()
+		var ctx context.Context
+		var cancel context.CancelFunc
+		if cpu {
+			ctx, cancel = WithCPUBudget(context.Background(), budget, processCPU)
+		} else {
+			ctx, cancel = context.WithTimeout(context.Background(), budget)
+		}
+		start, startCPU := time.Now(), processCPU()
 		b := Exact(ctx, in, reportOptions(t))
 		cancel()
 		el := time.Since(start).Seconds()
+		if cpu {
+			el = (processCPU() - startCPU).Seconds()
+		}
 		lb := in.Float(b.Value)
 		require.LessOrEqual(t, lb, k.best+0.01, "%s/%s: bound above best-known (%s)", k.family, k.instance, b.Method)
 		gap := 100 * (k.best - lb) / math.Max(lb, 1e-9)
@@ -119,26 +135,39 @@ func TestBoundReport(t *testing.T) {
 		if b.Route != nil {
 			gapInc = 100 * (in.Float(b.Cost) - lb) / math.Max(lb, 1e-9)
 		}
-		s := sums[k.family]
-		if s == nil {
-			s = &sum{}
-			sums[k.family] = s
-			order = append(order, k.family)
-		}
-		s.runs++
 		if b.ProvenOptimal {
-			s.proven++
 			require.InDelta(t, k.best, in.Float(b.Cost), 0.011, "%s/%s: proven optimum differs from best-known (%s)", k.family, k.instance, k.source)
 		}
-		s.gap += gap
-		s.sec += el
+		// One summary per family and one per family and size.
+		for _, key := range []string{k.family, fmt.Sprintf("%s n=%d", k.family, in.N)} {
+			s := sums[key]
+			if s == nil {
+				s = &sum{}
+				sums[key] = s
+				order = append(order, key)
+			}
+			s.runs++
+			if b.ProvenOptimal {
+				s.proven++
+				s.proofSec = append(s.proofSec, el)
+			}
+			s.gap += gap
+			s.maxGap = max(s.maxGap, gap)
+			s.sec += el
+		}
 		fmt.Printf("%-22s %-18s n=%3d best=%8.2f lb=%8.2f (%-11s) route=%8.2f gap=%6.2f%% proven=%-5v %5.2fs labels=%d %s\n",
 			k.family, k.instance, in.N, k.best, lb, b.Method, in.Float(b.Cost), gap, b.ProvenOptimal, el, b.Labels, strings.Join(b.Notes, "; "))
 		_ = gapInc
 	}
 	for _, f := range order {
 		s := sums[f]
-		fmt.Printf("SUMMARY %-22s runs=%d proven=%d mean-gap-to-best-known=%.3f%% mean-seconds=%.2f budget=%v\n", f, s.runs, s.proven, s.gap/float64(s.runs), s.sec/float64(s.runs), budget)
+		med := math.NaN()
+		if len(s.proofSec) > 0 {
+			slices.Sort(s.proofSec)
+			med = s.proofSec[len(s.proofSec)/2]
+		}
+		fmt.Printf("SUMMARY %-28s runs=%d proven=%d mean-gap-to-best-known=%.3f%% max-gap=%.2f%% mean-seconds=%.2f median-seconds-to-proof=%.2f budget=%v cpu=%v\n",
+			f, s.runs, s.proven, s.gap/float64(s.runs), s.maxGap, s.sec/float64(s.runs), med, budget, cpu)
 	}
 }
 
@@ -174,7 +203,7 @@ func BenchmarkRelaxation(b *testing.B) {
 	p := newProb(in)
 	lam := make([]int64, in.N)
 	for b.Loop() {
-		if rx := buildRelax(context.Background(), p, solver.TravelTime, lam, 24, 6<<20, &yielder{}); rx == nil {
+		if rx := buildRelax(context.Background(), p, solver.TravelTime, lam, nil, 24, 6<<20, &yielder{}); rx == nil {
 			b.Fatal("no table")
 		}
 	}

@@ -20,9 +20,15 @@ type Options struct {
 	// Iterations of the subgradient ascent on the node penalties (default 80).
 	Iterations int
 	// StateLabels caps the labels of one state of the relaxation; beyond it,
-	// neighbouring labels are merged into optimistic ones (default 24 up to
-	// 100 nodes, 8 above: larger tables converge too slowly to pay).
+	// neighbouring labels are merged into optimistic ones (default 128 up to
+	// 100 nodes, 32 above: larger tables converge too slowly to pay).
 	StateLabels int
+	// Neighbours is the size of the ng-route neighbourhoods of the
+	// relaxation, each node counted in its own (default 4, at most 12);
+	// NeighboursMax, when larger, lets them grow where the relaxed path
+	// cycles (decremental state-space relaxation). Larger neighbourhoods
+	// forbid more cycles but make each penalty step slower.
+	Neighbours, NeighboursMax int
 	// TableLabels caps the labels of the whole relaxation (default 6 million);
 	// a larger table is retried with fewer labels per state.
 	TableLabels int
@@ -34,7 +40,7 @@ type Options struct {
 	// route (default 2^25, about 270 MB).
 	HistoryLabels int
 	// RelaxShare is the share of the context's remaining time that the
-	// penalty ascent may use before the exact search starts (default 0.3).
+	// penalty ascent may use before the exact search starts (default 0.6).
 	RelaxShare float64
 }
 
@@ -43,8 +49,13 @@ func (o Options) withDefaults() Options {
 		o.Iterations = 80
 	}
 	if o.StateLabels <= 0 {
-		o.StateLabels = 24
+		o.StateLabels = 128
 	}
+	if o.Neighbours <= 0 {
+		o.Neighbours = defaultNG
+	}
+	o.Neighbours = min(o.Neighbours, maxNG)
+	o.NeighboursMax = min(max(o.NeighboursMax, o.Neighbours), maxNG)
 	if o.TableLabels <= 0 {
 		o.TableLabels = 6 << 20
 	}
@@ -55,7 +66,7 @@ func (o Options) withDefaults() Options {
 		o.HistoryLabels = 1 << 25
 	}
 	if o.RelaxShare <= 0 || o.RelaxShare > 1 {
-		o.RelaxShare = 0.3
+		o.RelaxShare = 0.6
 	}
 	return o
 }
@@ -160,7 +171,7 @@ func Exact(ctx context.Context, in *solver.Instance, o Options) Bound {
 // exact search under sctx (which ends no later than ctx).
 func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact bool) Bound {
 	if o.StateLabels <= 0 && in.N > 100 {
-		o.StateLabels = 8
+		o.StateLabels = 32
 	}
 	o = o.withDefaults()
 	var b Bound
@@ -222,7 +233,8 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 	// State-space relaxation with penalties.
 	var rx *relax
 	u0, _ := b.ub(o)
-	asc := newAscent(p, obj, lagrangeOpts{iters: o.Iterations, perState: o.StateLabels, maxTotal: o.TableLabels, ub: u0})
+	asc := newAscent(p, obj, lagrangeOpts{iters: o.Iterations, perState: o.StateLabels, maxTotal: o.TableLabels, ub: u0,
+		ngSize: o.Neighbours, ngMax: o.NeighboursMax})
 	asc.warm(apPot)
 	if ctx.Err() == nil {
 		lctx, cancel := shareOf(ctx, o.RelaxShare)
@@ -382,12 +394,59 @@ func windowBound(p *prob) int64 {
 }
 
 // shareOf returns a context that ends after share of ctx's remaining time
-// (or with ctx, when it has no deadline).
+// (or with ctx, when it has no deadline). Under a CPU-time budget
+// (WithCPUBudget) the share is of the CPU time left.
 func shareOf(ctx context.Context, share float64) (context.Context, context.CancelFunc) {
 	dl, ok := ctx.Deadline()
 	if !ok {
 		return context.WithCancel(ctx)
 	}
 	rem := time.Until(dl)
+	if clock, ok := ctx.Value(cpuClockKey{}).(func() time.Duration); ok {
+		return WithCPUBudget(ctx, time.Duration(float64(rem)*share), clock)
+	}
 	return context.WithTimeout(ctx, time.Duration(float64(rem)*share))
+}
+
+type cpuClockKey struct{}
+
+// cpuCtx ends once clock has advanced by budget. Its deadline moves with
+// the CPU time left, so that shares of it (shareOf) are shares of CPU time.
+type cpuCtx struct {
+	context.Context
+	end   time.Duration
+	clock func() time.Duration
+}
+
+func (c *cpuCtx) Deadline() (time.Time, bool) {
+	rem := c.end - c.clock()
+	if pd, ok := c.Context.Deadline(); ok && time.Until(pd) < rem {
+		return pd, true
+	}
+	return time.Now().Add(rem), true
+}
+
+// WithCPUBudget returns a context that ends when clock (the process's CPU
+// time, say) has advanced by budget, or with parent. It is for measuring on
+// a shared machine, where a wall-clock budget buys a varying amount of work;
+// the bound's internal time shares follow it.
+func WithCPUBudget(parent context.Context, budget time.Duration, clock func() time.Duration) (context.Context, context.CancelFunc) {
+	inner, cancel := context.WithCancel(context.WithValue(parent, cpuClockKey{}, clock))
+	c := &cpuCtx{Context: inner, end: clock() + budget, clock: clock}
+	go func() {
+		tk := time.NewTicker(2 * time.Millisecond)
+		defer tk.Stop()
+		for {
+			select {
+			case <-inner.Done():
+				return
+			case <-tk.C:
+				if clock() >= c.end {
+					cancel()
+					return
+				}
+			}
+		}
+	}()
+	return c, cancel
 }

@@ -4,8 +4,10 @@
 //   - Lower: lower bounds on the optimal objective. The assignment relaxation
 //     (Hungarian method over the arcs that window reasoning leaves), and the
 //     state-space relaxation of Christofides, Mingozzi and Toth (1981) with
-//     time: paths of the right length that meet every window, with two-cycle
-//     elimination and Lagrangian node penalties fitted by subgradient ascent.
+//     time and ng-route memories (Baldacci, Mingozzi and Roberti 2011,
+//     2012): paths of the right length that meet every window and never
+//     return to a node of a small neighbourhood they still remember, with
+//     Lagrangian node penalties fitted by deflected subgradient ascent.
 //     For the completion objective, also a bound from the windows alone.
 //   - Exact: the bounds, then a dynamic programme over (visited set, last
 //     node, time) with (time, cost) dominance, window propagation,

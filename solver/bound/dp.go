@@ -454,7 +454,7 @@ func runDP(ctx context.Context, p *prob, cfg dpConfig) dpResult {
 					} else {
 						g := int64(0)
 						if cfg.rx != nil {
-							g = cfg.rx.togo(r, j, stj)
+							g = cfg.rx.togoSet(r, j, stj, words)
 							if g == inf {
 								continue
 							}

@@ -38,7 +38,7 @@ func decide(ctx context.Context, in *solver.Instance, stageCap int) (feasible, p
 		return true, true, r.route
 	}
 	// No relaxed path at all proves infeasibility cheaply.
-	rx := buildRelax(ctx, p, solver.TravelTime, make([]int64, in.N), 4, 4<<20, y)
+	rx := buildRelax(ctx, p, solver.TravelTime, make([]int64, in.N), nil, 4, 4<<20, y)
 	if rx != nil && rx.z == inf {
 		return false, true, nil
 	}

@@ -10,51 +10,69 @@ import (
 )
 
 // relax is the state-space relaxation of Christofides, Mingozzi and Toth
-// (1981) with time: the visited set is relaxed to its size, so a relaxed path
-// is a sequence of n nodes that meets every window (and pin) and may visit a
-// node more than once, but never goes straight back (i→j→i; two-cycle
-// elimination). Node penalties λ turn "each node once" into a Lagrangian
-// term. The tables are computed backwards: for r nodes still to come after
-// node i, a set of labels (L, C) says that a relaxed completion with
-// penalised cost C exists when service at i starts no later than L.
+// (1981) with time, strengthened by ng-route memories (see ngSets): the
+// visited set is relaxed to its size and to the memory of a small
+// neighbourhood, so a relaxed path is a sequence of n nodes that meets every
+// window (and pin) and may visit a node more than once, but never returns to
+// a node it still remembers. Node penalties λ turn "each node once" into a
+// Lagrangian term. The tables are computed backwards: for r nodes still to
+// come after node i, a set of labels (L, C, M) says that a relaxed
+// completion with penalised cost C and memory M (the nodes of N(i) it
+// remembers, i among them) exists when service at i starts no later than L.
 //
-// Every number here is a valid bound for any λ: Z(λ) = min C at the start
-// plus Σλ is at most the optimum, and cost-to-go(i, t, r) + Σ_{unvisited} λ
-// is at most the cost of any true completion from i at time t.
+// Every number here is a valid bound for any λ and any neighbourhoods:
+// Z(λ) = min C at the start plus Σλ is at most the optimum, and
+// cost-to-go(i, t, r) + Σ_{unvisited} λ is at most the cost of any true
+// completion from i at time t (a true completion never remembers a node
+// visited before i, which togoSet uses).
 type relax struct {
 	p   *prob
 	obj solver.Objective
 	lam []int64
+	ng  *ngSets
 	// lamSum is Σλ over all nodes.
 	lamSum int64
 	// Per (r, i) at index r*n+i: the lookup envelope envL ascending with envC
 	// the least C among labels with that L or more.
 	envOff     []int32
 	envL, envC []int64
-	z          int64 // Z(λ): the bound, inf when no relaxed path exists
-	path       []int // a relaxed optimal path, the start first
-	merged     bool  // some labels were merged to fit the cap
+	// The same labels by C ascending, with their L and memory, for lookups
+	// that know the visited set (togoSet).
+	byCL, byCC []int64
+	byCM       []uint64
+	// nbRank[i][b] is the rank (bit of the visited sets) of list[i][b].
+	nbRank [][]int32
+	z      int64 // Z(λ): the bound, inf when no relaxed path exists
+	path   []int // a relaxed optimal path, the start first
+	merged bool  // some labels were merged to fit the cap
+	labels int   // labels in the table
 }
 
 // label arrays of one build.
 type rlabels struct {
-	L, C   []int64
-	sn, sl []int32 // successor node (-1: none or merged) and successor label (-1 at the end)
-	node   []int32
-	off    []int32 // per (r, i): first label; off[r*n+i+1] ends it
+	L, C []int64
+	M    []uint64
+	sl   []int32 // successor label (-1 at the end)
+	node []int32
+	off  []int32 // per (r, i): first label; off[r*n+i+1] ends it
 }
 
 type cand struct {
-	L, C   int64
-	sn, sl int32
+	L, C int64
+	M    uint64
+	sl   int32
 }
 
-// buildRelax computes the tables for penalties lam. perState caps the labels
-// of one (r, i) (merging keeps the bound valid); maxTotal caps the whole
-// table. It returns nil when the cap is hit or ctx is done.
-func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64, perState, maxTotal int, y *yielder) *relax {
+// buildRelax computes the tables for penalties lam and neighbourhoods ng
+// (nil: the default ones). perState caps the labels of one (r, i) (merging
+// keeps the bound valid); maxTotal caps the whole table. It returns nil when
+// the cap is hit or ctx is done.
+func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64, ng *ngSets, perState, maxTotal int, y *yielder) *relax {
 	n := p.n
-	rx := &relax{p: p, obj: obj, lam: lam, z: inf}
+	if ng == nil {
+		ng = newNGSets(p, defaultNG, defaultNG)
+	}
+	rx := &relax{p: p, obj: obj, lam: lam, ng: ng, z: inf}
 	for _, v := range lam {
 		rx.lamSum += v
 	}
@@ -77,11 +95,41 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 	}
 	var cands, sorted []cand
 	var counts []int32
-	bySucc := make([]int64, n)
-	for i := range bySucc {
-		bySucc[i] = inf
+	// Per state, indexed by memory without i's own bit (mask >> 1): the
+	// least C of a candidate whose L is capped by i's window (top, with its
+	// successor label), and the least C of a kept label (best).
+	const nm = 1 << (maxNG - 1)
+	topC, best := make([]int64, nm), make([]int64, nm)
+	topSl := make([]int32, nm)
+	for k := range topC {
+		topC[k], best[k] = inf, inf
 	}
-	var touched []int32
+	var topUsed, bestUsed []int32
+	// dominated says a kept label with L at least as large (by the order
+	// of processing), C at most c and a memory that is a subset of m
+	// exists; keep records c.
+	dominated := func(m uint64, c int64) bool {
+		for sub := m; ; sub = (sub - 1) & m {
+			if best[sub] <= c {
+				return true
+			}
+			if sub == 0 {
+				return false
+			}
+		}
+	}
+	var keep []cand
+	keepOne := func(c cand) {
+		m := c.M >> 1
+		if dominated(m, c.C) {
+			return
+		}
+		if best[m] == inf {
+			bestUsed = append(bestUsed, int32(m))
+		}
+		best[m] = c.C
+		keep = append(keep, c)
+	}
 	for r := 0; r < n; r++ {
 		idx := n - 1 - r
 		for i := 0; i < n; i++ {
@@ -99,7 +147,7 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 					if n > 1 && p.arc[i*n+p.start] {
 						L := min(p.lt[i], p.lateRet-p.s[i]-p.t(i, p.start))
 						if L >= p.et[i] {
-							cands = append(cands, cand{L, cost(i, p.start), -1, -1})
+							cands = append(cands, cand{L, cost(i, p.start), 1, -1})
 						}
 					}
 				default:
@@ -107,7 +155,7 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 					if obj == solver.CompletionTime {
 						c = p.s[i]
 					}
-					cands = append(cands, cand{p.lt[i], c, -1, -1})
+					cands = append(cands, cand{p.lt[i], c, 1, -1})
 				}
 			} else {
 				base := (r - 1) * n
@@ -120,80 +168,82 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 					if a == b {
 						continue
 					}
+					// One step per successor (up to a few hundred labels):
+					// turns for the host at least every few milliseconds.
+					if y.tick() && ctx.Err() != nil {
+						return nil
+					}
 					cij := cost(i, j) - lam[j]
-					// Labels are in L-descending order. Those late enough that
-					// L at i is capped by i's own window collapse into one
-					// candidate (the least C); the rest stop at i's earliest.
+					var block uint64
+					if q := ng.pos[j*n+i]; q >= 0 {
+						block = 1 << uint(q)
+					}
+					// Labels are in L-descending order; those late enough
+					// that L at i is capped by i's own window all get that L.
 					dt := p.s[i] + p.t(i, j)
-					k := a
-					bestK := int32(-1)
-					for ; k < b && lb.L[k]-dt >= p.lt[i]; k++ {
-						if lb.sn[k] != int32(i) && (bestK < 0 || lb.C[k] < lb.C[bestK]) {
-							bestK = k
-						}
-					}
-					if bestK >= 0 {
-						cands = append(cands, cand{p.lt[i], lb.C[bestK] + cij, int32(j), bestK})
-					}
-					for ; k < b; k++ {
+					tab := ng.table(j, i)
+					for k := a; k < b; k++ {
 						L := lb.L[k] - dt
 						if L < p.et[i] {
 							break
 						}
-						if lb.sn[k] == int32(i) {
+						if lb.M[k]&block != 0 {
 							continue
 						}
-						cands = append(cands, cand{L, lb.C[k] + cij, int32(j), k})
+						var m uint64
+						if tab != nil {
+							m = uint64(tab[lb.M[k]])
+						} else {
+							m = ng.translate(lb.M[k], j, i)
+						}
+						c := lb.C[k] + cij
+						if L >= p.lt[i] {
+							// Capped: only the least C per memory matters.
+							x := m >> 1
+							if topC[x] == inf {
+								topUsed = append(topUsed, int32(x))
+							}
+							if c < topC[x] {
+								topC[x], topSl[x] = c, k
+							}
+							continue
+						}
+						cands = append(cands, cand{L, c, m, k})
 					}
 				}
 			}
-			if len(cands) == 0 {
+			if len(cands) == 0 && len(topUsed) == 0 {
 				continue
 			}
-			// Pareto filter with two-cycle elimination: a label goes when a
-			// label with the same successor, or two labels with different
-			// successors, are at least as good in both L and C.
-			cands, sorted = sortCands(cands, sorted, p.lt[i]-p.et[i], p.lt[i], &counts)
-			keep := cands[:0]
-			anyC, b1, b2 := inf, inf, inf
-			var s1 int32 = -1
+			// Pareto filter: a label goes when a kept label (with L at least
+			// as large, by the order) has C at most as large and remembers
+			// no more. The capped candidates come first, by C ascending.
+			keep = keep[:0]
+			if len(topUsed) > 0 {
+				slices.SortFunc(topUsed, func(x, y int32) int { return cmp.Compare(topC[x], topC[y]) })
+				for _, x := range topUsed {
+					keepOne(cand{p.lt[i], topC[x], uint64(x)<<1 | 1, topSl[x]})
+					topC[x] = inf
+				}
+				topUsed = topUsed[:0]
+			}
+			cands, sorted = sortCands(cands, sorted, p.lt[i]-p.et[i], p.lt[i], &counts, true)
 			for _, c := range cands {
-				sn := c.sn
-				if anyC <= c.C || sn >= 0 && bySucc[sn] <= c.C || b1 <= c.C && b2 <= c.C {
-					continue
-				}
-				keep = append(keep, c)
-				if sn < 0 {
-					anyC = c.C // sorted by L then C: the first such label is the least
-					continue
-				}
-				if bySucc[sn] == inf {
-					touched = append(touched, sn)
-				}
-				bySucc[sn] = min(bySucc[sn], c.C)
-				// b1 and b2: least C of two labels with different successors.
-				switch {
-				case c.C < b1:
-					if sn != s1 {
-						b2 = b1
-					}
-					b1, s1 = c.C, sn
-				case sn != s1 && c.C < b2:
-					b2 = c.C
-				}
+				keepOne(c)
 			}
-			for _, t := range touched {
-				bySucc[t] = inf
+			for _, x := range bestUsed {
+				best[x] = inf
 			}
-			touched = touched[:0]
+			bestUsed = bestUsed[:0]
+			out := keep
 			if perState > 0 && len(keep) > perState {
-				keep = mergeLabels(keep, perState)
+				out = mergeLabels(keep, perState)
 				rx.merged = true
 			}
-			for _, c := range keep {
+			for _, c := range out {
 				lb.L = append(lb.L, c.L)
 				lb.C = append(lb.C, c.C)
-				lb.sn = append(lb.sn, c.sn)
+				lb.M = append(lb.M, c.M)
 				lb.sl = append(lb.sl, c.sl)
 				lb.node = append(lb.node, int32(i))
 			}
@@ -203,21 +253,22 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 		}
 	}
 	lb.off[n*n] = int32(len(lb.L))
+	rx.labels = len(lb.L)
 	// Z and a relaxed optimal path.
 	a, b := lb.off[(n-1)*n+p.start], lb.off[(n-1)*n+p.start+1]
-	best := int32(-1)
+	bestK := int32(-1)
 	for k := a; k < b; k++ {
-		if lb.L[k] >= p.e[p.start] && (best < 0 || lb.C[k] < lb.C[best]) {
-			best = k
+		if lb.L[k] >= p.e[p.start] && (bestK < 0 || lb.C[k] < lb.C[bestK]) {
+			bestK = k
 		}
 	}
-	if best >= 0 {
-		rx.z = lb.C[best] + rx.lamSum
+	if bestK >= 0 {
+		rx.z = lb.C[bestK] + rx.lamSum
 		if obj == solver.CompletionTime {
 			rx.z += p.e[p.start]
 		}
 		rx.path = append(rx.path, p.start)
-		for k := best; lb.sl[k] >= 0; k = lb.sl[k] {
+		for k := bestK; lb.sl[k] >= 0; k = lb.sl[k] {
 			rx.path = append(rx.path, int(lb.node[lb.sl[k]]))
 		}
 	}
@@ -225,6 +276,10 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 	rx.envOff = make([]int32, n*n+1)
 	rx.envL = make([]int64, 0, len(lb.L))
 	rx.envC = make([]int64, 0, len(lb.L))
+	rx.byCL = make([]int64, 0, len(lb.L))
+	rx.byCC = make([]int64, 0, len(lb.L))
+	rx.byCM = make([]uint64, 0, len(lb.L))
+	var ord []int
 	for st := 0; st < n*n; st++ {
 		rx.envOff[st] = int32(len(rx.envL))
 		a, b := int(lb.off[st]), int(lb.off[st+1])
@@ -241,17 +296,36 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 		for k := len(rx.envC) - 2; k >= first; k-- {
 			rx.envC[k] = min(rx.envC[k], rx.envC[k+1])
 		}
+		ord = ord[:0]
+		for k := a; k < b; k++ {
+			ord = append(ord, k)
+		}
+		slices.SortStableFunc(ord, func(x, y int) int { return cmp.Compare(lb.C[x], lb.C[y]) })
+		for _, k := range ord {
+			rx.byCL = append(rx.byCL, lb.L[k])
+			rx.byCC = append(rx.byCC, lb.C[k])
+			rx.byCM = append(rx.byCM, lb.M[k])
+		}
 	}
 	rx.envOff[n*n] = int32(len(rx.envL))
+	rx.nbRank = make([][]int32, n)
+	for i, l := range ng.list {
+		rx.nbRank[i] = make([]int32, len(l))
+		for b, v := range l {
+			rx.nbRank[i][b] = p.rank[v]
+		}
+	}
 	return rx
 }
 
-// sortCands orders candidates by L descending, then C ascending. All L lie
+// sortCands orders candidates by L descending, then C ascending (or, with
+// skipRuns and the counting sort, in any order among equal L: the filter
+// then keeps a few extra labels, which costs less than sorting). All L lie
 // in [top-width, top]; when that range is small (integer times of a few
 // thousand units), a counting sort by L and an insertion sort of each run of
 // equal L is much faster than a comparison sort. It returns the sorted
 // slice and the spare buffer.
-func sortCands(c, buf []cand, width, top int64, counts *[]int32) (sortedOut, spare []cand) {
+func sortCands(c, buf []cand, width, top int64, counts *[]int32, skipRuns bool) (sortedOut, spare []cand) {
 	if width < 0 || width > 1<<13 || len(c) < 48 {
 		slices.SortFunc(c, func(a, b cand) int {
 			if a.L != b.L {
@@ -284,11 +358,19 @@ func sortCands(c, buf []cand, width, top int64, counts *[]int32) (sortedOut, spa
 		out[cnt[k]] = x
 		cnt[k]++
 	}
+	if skipRuns {
+		return out, c
+	}
 	// Runs of equal L by C ascending.
 	for a := 0; a < len(out); {
 		b := a + 1
 		for b < len(out) && out[b].L == out[a].L {
 			b++
+		}
+		if b-a > 24 {
+			slices.SortFunc(out[a:b], func(x, y cand) int { return cmp.Compare(x.C, y.C) })
+			a = b
+			continue
 		}
 		for x := a + 1; x < b; x++ {
 			v := out[x]
@@ -305,11 +387,11 @@ func sortCands(c, buf []cand, width, top int64, counts *[]int32) (sortedOut, spa
 }
 
 // mergeLabels cuts a Pareto list (L descending) to k labels by replacing runs
-// of neighbours with one optimistic label: the largest L and the least C of
-// the run. The result is a relaxation of the list, so bounds stay valid.
+// of neighbours with one optimistic label: the largest L, the least C and
+// the common part of the memories. The result is a relaxation of the list,
+// so bounds stay valid.
 func mergeLabels(c []cand, k int) []cand {
-	out := c[:0:0]
-	out = make([]cand, 0, k)
+	out := make([]cand, 0, k)
 	per := (len(c) + k - 1) / k
 	for a := 0; a < len(c); a += per {
 		b := min(a+per, len(c))
@@ -317,12 +399,8 @@ func mergeLabels(c []cand, k int) []cand {
 		for _, x := range c[a+1 : b] {
 			if x.C < m.C {
 				m.C, m.sl = x.C, x.sl
-				if x.sn != m.sn {
-					m.sn = -1
-				}
-			} else if x.sn != m.sn {
-				m.sn = -1
 			}
+			m.M &= x.M
 		}
 		out = append(out, m)
 	}
@@ -350,13 +428,40 @@ func (rx *relax) togo(r, i int, t int64) int64 {
 	return rx.envC[lo]
 }
 
+// togoSet is togo for a search that knows the visited set (words, by rank,
+// without i): a true completion never remembers a visited node, so labels
+// whose memory holds one are skipped.
+func (rx *relax) togoSet(r, i int, t int64, words []uint64) int64 {
+	var vis uint64
+	for b, rk := range rx.nbRank[i][1:] {
+		if words[rk>>6]&(1<<(uint(rk)&63)) != 0 {
+			vis |= 2 << uint(b)
+		}
+	}
+	st := r*rx.p.n + i
+	a, b := int(rx.envOff[st]), int(rx.envOff[st+1])
+	for k := a; k < b; k++ {
+		if rx.byCL[k] >= t && rx.byCM[k]&vis == 0 {
+			return rx.byCC[k]
+		}
+	}
+	return inf
+}
+
 // lagrangeOpts steer the subgradient ascent.
 type lagrangeOpts struct {
 	iters    int
 	perState int
 	maxTotal int
 	ub       int64 // best known feasible cost; inf when none
+	// ngSize and ngMax: the neighbourhoods' first and largest size (grown
+	// where the relaxed path cycles); ngFull makes them the whole instance.
+	ngSize, ngMax int
+	ngFull        bool
 }
+
+// defaultNG is the neighbourhood size when none is set.
+const defaultNG = 4
 
 // ascent is the subgradient ascent on the node penalties (Polyak steps
 // towards the best known cost), resumable so that time left over by the
@@ -372,6 +477,9 @@ type ascent struct {
 	target int64
 	iters  int
 	best   *relax
+	dir    []float64 // last step direction
+	ng     *ngSets
+	grown  int // members added by grow
 	// route is set when a relaxed optimal path is a feasible route whose
 	// cost equals the bound: it is then optimal.
 	route []int
@@ -380,7 +488,18 @@ type ascent struct {
 }
 
 func newAscent(p *prob, obj solver.Objective, o lagrangeOpts) *ascent {
-	return &ascent{p: p, obj: obj, o: o, lamF: make([]float64, p.n), lam: make([]int64, p.n), mu: 2, target: o.ub}
+	a := &ascent{p: p, obj: obj, o: o, lamF: make([]float64, p.n), lam: make([]int64, p.n), mu: 2, target: o.ub}
+	switch {
+	case o.ngFull && p.n <= maxNG:
+		a.ng = fullNGSets(p.n)
+	default:
+		if a.o.ngSize <= 0 {
+			a.o.ngSize = defaultNG
+		}
+		a.o.ngMax = max(a.o.ngMax, a.o.ngSize)
+		a.ng = newNGSets(p, a.o.ngSize, a.o.ngMax)
+	}
+	return a
 }
 
 // warm starts the penalties at the assignment's dual potentials (additive
@@ -396,7 +515,7 @@ func (a *ascent) warm(pot []int64) {
 			a.lamF[j] = float64(pot[j])
 		}
 	}
-	a.mu = 0.5 // from a good start, long steps only undo it
+	a.mu = 1 // from a good start, longer steps only undo it
 }
 
 // run does up to iters more iterations (fewer when it converges or ctx
@@ -407,7 +526,7 @@ func (a *ascent) run(ctx context.Context, iters int, y *yielder) {
 		if ctx.Err() != nil {
 			return
 		}
-		rx := buildRelax(ctx, p, a.obj, append([]int64(nil), a.lam...), a.o.perState, a.o.maxTotal, y)
+		rx := buildRelax(ctx, p, a.obj, append([]int64(nil), a.lam...), a.ng, a.o.perState, a.o.maxTotal, y)
 		if rx == nil {
 			if a.best == nil && a.o.perState > 1 && ctx.Err() == nil {
 				// Too big: retry with a coarser table.
@@ -457,6 +576,14 @@ func (a *ascent) run(ctx context.Context, iters int, y *yielder) {
 				a.target = sch.Cost(a.obj)
 			}
 		}
+		if !elementary {
+			// Forbid the cycles of this path from now on (a fresh copy: rx
+			// keeps the sets it was built with).
+			g := a.ng.clone()
+			if k := g.grow(rx.path); k > 0 {
+				a.ng, a.grown = g, a.grown+k
+			}
+		}
 		if elementary || a.mu < 0.005 {
 			a.done = true // a zero subgradient cannot move the penalties any further
 			return
@@ -469,22 +596,46 @@ func (a *ascent) run(ctx context.Context, iters int, y *yielder) {
 			a.done = true // the bound has closed on the best known cost
 			return
 		}
+		// Deflected subgradient (Camerini, Fratta and Maffioli 1975): the
+		// direction keeps part of the last one when the two disagree, which
+		// damps the zig-zag of plain steps.
+		if a.dir == nil {
+			a.dir = make([]float64, n)
+		}
+		var gd, dd float64
+		for j := 0; j < n; j++ {
+			if j != p.start {
+				gd += float64(1-counts[j]) * a.dir[j]
+				dd += a.dir[j] * a.dir[j]
+			}
+		}
+		beta := 0.0
+		if deflect && gd < 0 && dd > 0 {
+			beta = -1.5 * gd / dd
+		}
 		var norm float64
 		for j := 0; j < n; j++ {
 			if j != p.start {
-				g := float64(1 - counts[j])
-				norm += g * g
+				a.dir[j] = float64(1-counts[j]) + beta*a.dir[j]
+				norm += a.dir[j] * a.dir[j]
 			}
+		}
+		if norm == 0 {
+			a.done = true
+			return
 		}
 		step := a.mu * float64(tgt-rx.z) / norm
 		for j := 0; j < n; j++ {
 			if j != p.start {
-				a.lamF[j] += step * float64(1-counts[j])
+				a.lamF[j] += step * a.dir[j]
 				a.lam[j] = int64(math.Round(a.lamF[j]))
 			}
 		}
 	}
 }
+
+// deflect turns on the deflected subgradient steps.
+var deflect = true
 
 func abs64(v int64) int64 {
 	if v < 0 {
