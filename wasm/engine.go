@@ -239,7 +239,8 @@ func (p *plans) postWith(pl solver.Plan, res solver.Result, j *format.PlanJSON, 
 	if err := format.WriteJSON(&js, *j); err != nil {
 		p.e.fail("cannot write the plan as JSON: %v", err)
 	}
-	p.e.send(planMsg{Type: "plan", Run: p.r.id, Plan: *j, CSV: csv.String(), JSON: js.String()})
+	// The plan is encoded once: the JSON export is the plan object too.
+	p.e.send(planMsg{Type: "plan", Run: p.r.id, Plan: json.RawMessage(bytes.TrimSpace(js.Bytes())), CSV: csv.String(), JSON: js.String()})
 }
 
 // flush posts the pending plan. Call with p.mu held.
