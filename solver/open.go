@@ -4,6 +4,8 @@ import (
 	"context"
 	"math"
 	"math/rand"
+
+	"visitline/solver/turn"
 )
 
 // Open days: when no window can bind on any order (every visit on time
@@ -53,6 +55,7 @@ func (m *model) windowsFree() bool {
 	targets := append(append([]int(nil), m.movable...), m.end)
 	reach := m.startAt
 	for _, i := range append([]int{m.start}, m.movable...) {
+		turn.Due()
 		var out int64
 		for _, j := range targets {
 			if j != i {
@@ -160,6 +163,7 @@ func newOpenTour(m *model) *openTour {
 	}
 	best := make([]nb, 0, k+1)
 	for _, i := range nodes {
+		turn.Due()
 		best = best[:0]
 		for _, j := range nodes {
 			if j == i || o.freeEnd && (j == m.end || i == m.end) {
@@ -498,8 +502,9 @@ func (o *openTour) segSwap(a int32, pa, last int) bool {
 
 // search runs the local search until the queue is empty or halt says stop.
 func (o *openTour) search(halt func() bool) {
-	for steps := 0; len(o.queue) > 0; steps++ {
-		if halt != nil && steps&1023 == 1023 && halt() {
+	var pace turn.Pacer
+	for len(o.queue) > 0 {
+		if pace.Step() && halt != nil && halt() {
 			return
 		}
 		// Last in, first out: the nodes a move just woke come first.
@@ -543,6 +548,7 @@ func (o *openTour) nearestOrder() []int32 {
 	cur := int32(m.start)
 	r = append(r, cur)
 	for len(r) <= len(m.movable) {
+		turn.Due()
 		next := int32(-1)
 		var bd int64
 		for _, c := range o.cand[cur] {

@@ -8,7 +8,6 @@ package web_test
 
 import (
 	"context"
-	"encoding/csv"
 	"fmt"
 	"math"
 	"os"
@@ -25,6 +24,7 @@ import (
 
 	"visitline/solver"
 	"visitline/solver/app"
+	"visitline/solver/benchdata"
 )
 
 // browserCPU is the CPU time used so far by the test's browser (every
@@ -285,17 +285,11 @@ func secondsOr(s, limit float64) string {
 // bestKnown reads the published best-known values (best-known.csv of the
 // shared collection; its README names the sources).
 func bestKnown(t *testing.T) map[string]float64 {
-	f, err := os.Open(filepath.Join(benchDir, "best-known.csv"))
-	require.NoError(t, err)
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
+	ks, err := benchdata.Load(filepath.Join(benchDir, "best-known.csv"))
 	require.NoError(t, err)
 	out := map[string]float64{}
-	for _, r := range rows[1:] {
-		v, err := strconv.ParseFloat(r[2], 64)
-		if err == nil {
-			out[r[0]+"/"+r[1]] = v
-		}
+	for _, k := range ks {
+		out[k.Key()] = k.Best
 	}
 	return out
 }

@@ -21,7 +21,7 @@ type Options struct {
 	Iterations int
 	// StateLabels caps the labels of one state of the relaxation; beyond it,
 	// neighbouring labels are merged into optimistic ones (default 128 up to
-	// 100 nodes, 32 above: larger tables converge too slowly to pay).
+	// 120 nodes, 32 above: larger tables converge too slowly to pay).
 	StateLabels int
 	// Neighbours is the size of the ng-route neighbourhoods of the
 	// relaxation, each node counted in its own (default 4, at most 12);
@@ -170,7 +170,7 @@ func Exact(ctx context.Context, in *solver.Instance, o Options) Bound {
 // runPhases computes the bounds under ctx and then, when exact, runs the
 // exact search under sctx (which ends no later than ctx).
 func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact bool) Bound {
-	if o.StateLabels <= 0 && in.N > 100 {
+	if o.StateLabels <= 0 && in.N > largeN {
 		o.StateLabels = 32
 	}
 	o = o.withDefaults()
@@ -450,3 +450,6 @@ func WithCPUBudget(parent context.Context, budget time.Duration, clock func() ti
 	}()
 	return c, cancel
 }
+
+// largeN is the size above which the relaxation's tables are coarser.
+const largeN = 120

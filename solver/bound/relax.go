@@ -591,14 +591,14 @@ func (a *ascent) run(ctx context.Context, iters int, y *yielder) {
 			a.done = true // a zero subgradient cannot move the penalties any further
 			return
 		}
-		tgt := a.target
-		if tgt >= inf {
-			tgt = rx.z + max(1, abs64(rx.z)/20)
-		}
-		if tgt <= a.best.z {
+		if a.target < inf && a.target <= a.best.z {
 			a.done = true // the bound has closed on the best known cost
 			return
 		}
+		// The step aims at the best known cost, but no further than a
+		// little above the best bound: a poor first plan would otherwise
+		// make every step overshoot.
+		tgt := min(a.target, a.best.z+max(1, int64(targetCap*float64(abs64(a.best.z)))))
 		// Deflected subgradient (Camerini, Fratta and Maffioli 1975): the
 		// direction keeps part of the last one when the two disagree, which
 		// damps the zig-zag of plain steps.
@@ -639,6 +639,10 @@ func (a *ascent) run(ctx context.Context, iters int, y *yielder) {
 
 // deflect turns on the deflected subgradient steps.
 var deflect = true
+
+// targetCap is how far above the best bound, as a share of it, a step aims
+// at most.
+var targetCap = 0.05
 
 func abs64(v int64) int64 {
 	if v < 0 {
