@@ -21,6 +21,7 @@ lab:
 test:
 	$(GO) vet ./...
 	$(GO) test -count=1 ./...
+	node --test web/jstest/
 
 # The full run takes about 80 minutes on one core: it writes
 # docs/bench-results.json after every instance, the README's results table and

@@ -3,6 +3,7 @@ package solver
 import (
 	"errors"
 	"fmt"
+	"math"
 	"sort"
 
 	"visitline/solver/turn"
@@ -15,8 +16,11 @@ import (
 type model struct {
 	in  *Instance
 	obj Objective
-	n   int     // nodes in the model: the instance's plus the sentinel
-	t   []int64 // n×n travel; row sentinel unused
+	n   int // nodes in the model: the instance's plus the sentinel
+	// t32 or t64 is the n×n travel (row sentinel unused), in int32 when
+	// every value fits (half the memory of the instance's own copy).
+	t32 []int32
+	t64 []int64
 	s   []int64 // service
 	e   []int64 // tightened earliest start
 	l   []int64 // tightened latest start
@@ -42,7 +46,24 @@ type model struct {
 	free bool
 }
 
-func (m *model) T(i, j int) int64 { return m.t[i*m.n+j] }
+func (m *model) T(i, j int) int64 { return m.tk(i*m.n + j) }
+
+// tk is entry k of the travel matrix.
+func (m *model) tk(k int) int64 {
+	if m.t32 != nil {
+		return int64(m.t32[k])
+	}
+	return m.t64[k]
+}
+
+// setT sets entry k of the travel matrix.
+func (m *model) setT(k int, v int64) {
+	if m.t32 != nil {
+		m.t32[k] = int32(v)
+	} else {
+		m.t64[k] = v
+	}
+}
 
 func (m *model) mustBefore(u, k int) bool { return m.before[u][k>>6]>>(k&63)&1 == 1 }
 
@@ -60,12 +81,25 @@ func newModel(in *Instance, obj Objective) (*model, error) {
 	N := in.N
 	n := N + 1
 	m := &model{in: in, obj: obj, n: n, end: N}
-	m.t = make([]int64, n*n)
+	fits := true
+	for _, v := range in.Travel {
+		if v > math.MaxInt32 {
+			fits = false
+			break
+		}
+	}
+	if fits {
+		m.t32 = make([]int32, n*n)
+	} else {
+		m.t64 = make([]int64, n*n)
+	}
 	m.s = make([]int64, n)
 	m.e = make([]int64, n)
 	m.l = make([]int64, n)
 	for i := 0; i < N; i++ {
-		copy(m.t[i*n:i*n+N], in.Travel[i*N:(i+1)*N])
+		for j, v := range in.Travel[i*N : (i+1)*N] {
+			m.setT(i*n+j, v)
+		}
 		m.s[i], m.e[i], m.l[i] = in.Service[i], in.Early[i], in.Late[i]
 	}
 	// Prefix: the driven visits, then visits pinned to the next positions.
@@ -162,10 +196,10 @@ func newModel(in *Instance, obj Objective) (*model, error) {
 		first = tail[0]
 		endSeg = seg{d: m.s[first], e: m.e[first], l: m.l[first]}
 		for k := 1; k < len(tail); k++ {
-			endSeg = join(endSeg, seg{d: m.s[tail[k]], e: m.e[tail[k]], l: m.l[tail[k]]}, m.t[tail[k-1]*n+tail[k]])
+			endSeg = join(endSeg, seg{d: m.s[tail[k]], e: m.e[tail[k]], l: m.l[tail[k]]}, m.tk(tail[k-1]*n+tail[k]))
 		}
 		if in.Shape == Closed {
-			endSeg = join(endSeg, seg{e: -Horizon, l: in.Late[in.Start]}, m.t[tail[len(tail)-1]*n+in.Start])
+			endSeg = join(endSeg, seg{e: -Horizon, l: in.Late[in.Start]}, m.tk(tail[len(tail)-1]*n+in.Start))
 		}
 		m.e[N], m.l[N] = endSeg.e, endSeg.l
 	case in.Shape == Closed:
@@ -180,7 +214,7 @@ func newModel(in *Instance, obj Objective) (*model, error) {
 	m.endSeg = endSeg
 	for i := 0; i < N; i++ {
 		if first >= 0 {
-			m.t[i*n+N] = in.Travel[i*N+first]
+			m.setT(i*n+N, in.Travel[i*N+first])
 		}
 	}
 	m.origE = append([]int64(nil), m.e...)
@@ -232,7 +266,7 @@ func (m *model) tighten() {
 				if i == j {
 					continue
 				}
-				a := m.e[i] + m.s[i] + m.t[i*n+j]
+				a := m.e[i] + m.s[i] + m.tk(i*n+j)
 				if a <= m.l[j] && a < lo {
 					lo = a
 				}
@@ -249,10 +283,10 @@ func (m *model) tighten() {
 				if k == j {
 					continue
 				}
-				if m.e[j]+m.s[j]+m.t[j*n+k] > m.l[k] {
+				if m.e[j]+m.s[j]+m.tk(j*n+k) > m.l[k] {
 					continue
 				}
-				b := m.l[k] - m.s[j] - m.t[j*n+k]
+				b := m.l[k] - m.s[j] - m.tk(j*n+k)
 				if b > hi {
 					hi = b
 				}
@@ -286,7 +320,7 @@ func (m *model) buildArcs() {
 	for i := 0; i < n; i++ {
 		turn.Due()
 		for j := 0; j < n; j++ {
-			m.arcOK[i*n+j] = i != j && m.e[i]+m.s[i]+m.t[i*n+j] <= m.l[j]
+			m.arcOK[i*n+j] = i != j && m.e[i]+m.s[i]+m.tk(i*n+j) <= m.l[j]
 		}
 	}
 }
@@ -310,7 +344,7 @@ func (m *model) buildPrecedence() {
 	for _, u := range m.movable {
 		turn.Due()
 		for _, k := range m.movable {
-			if u != k && m.e[k]+m.s[k]+m.t[k*n+u] > m.l[u] {
+			if u != k && m.e[k]+m.s[k]+m.tk(k*n+u) > m.l[u] {
 				m.before[u][k>>6] |= 1 << (k & 63)
 			}
 		}

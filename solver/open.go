@@ -4,6 +4,8 @@ import (
 	"context"
 	"math"
 	"math/rand"
+
+	"visitline/solver/turn"
 )
 
 // Open days: when no window can bind on any order (every visit on time
@@ -53,10 +55,11 @@ func (m *model) windowsFree() bool {
 	targets := append(append([]int(nil), m.movable...), m.end)
 	reach := m.startAt
 	for _, i := range append([]int{m.start}, m.movable...) {
+		turn.Due()
 		var out int64
 		for _, j := range targets {
 			if j != i {
-				out = max(out, m.t[i*n+j])
+				out = max(out, m.tk(i*n+j))
 			}
 		}
 		reach += m.s[i] + out
@@ -76,10 +79,13 @@ func (m *model) windowsFree() bool {
 type openTour struct {
 	m     *model
 	n     int
-	t     []int64
+	t32   []int32 // the model's travel: one of the two is set
+	t64   []int64
 	r     []int32 // start ... end (the sentinel)
 	pos   []int32 // position of each node of the route in r
 	sym   bool
+	pot   []int64 // potentials when travel is asymmetric only by them (see newOpenTour)
+	sums  bool    // fw and bw are kept: asymmetric travel without potentials
 	fw    []int64 // fw[k]: travel of r[0..k] forward (asymmetric travel only)
 	bw    []int64 // bw[k]: travel of r[k], r[k-1], ..., r[0] (asymmetric only)
 	cost  int64   // travel of r
@@ -97,16 +103,22 @@ type openTour struct {
 	moves int
 }
 
-func (o *openTour) d(a, b int32) int64 { return o.t[int(a)*o.n+int(b)] }
+func (o *openTour) d(a, b int32) int64 {
+	k := int(a)*o.n + int(b)
+	if o.t32 != nil {
+		return int64(o.t32[k])
+	}
+	return o.t64[k]
+}
 
 func newOpenTour(m *model) *openTour {
-	o := &openTour{m: m, n: m.n, t: m.t, pos: make([]int32, m.n), inQ: make([]bool, m.n)}
+	o := &openTour{m: m, n: m.n, t32: m.t32, t64: m.t64, pos: make([]int32, m.n), inQ: make([]bool, m.n)}
 	o.freeEnd = m.in.Shape == OpenFree && len(m.suffix) == 0
 	nodes := append(append([]int{m.start}, m.movable...), m.end)
 	o.sym = true
 	for _, i := range m.movable {
 		for _, j := range m.movable {
-			if j > i && m.t[i*m.n+j] != m.t[j*m.n+i] {
+			if j > i && m.tk(i*m.n+j) != m.tk(j*m.n+i) {
 				o.sym = false
 				break
 			}
@@ -115,6 +127,33 @@ func newOpenTour(m *model) *openTour {
 			break
 		}
 	}
+	if !o.sym && len(m.movable) > 0 {
+		// Asymmetric only by a potential per node (t(i,j) − t(j,i) =
+		// p(i) − p(j), as when each visit's service is folded into the
+		// arcs out of it): a reversed stretch then differs from itself by
+		// p(last) − p(first), with no sums to keep.
+		v0 := m.movable[0]
+		pot := make([]int64, m.n)
+		for _, i := range m.movable {
+			pot[i] = m.tk(i*m.n+v0) - m.tk(v0*m.n+i)
+		}
+		ok := true
+		for _, i := range m.movable {
+			for _, j := range m.movable {
+				if j > i && m.tk(i*m.n+j)-m.tk(j*m.n+i) != pot[i]-pot[j] {
+					ok = false
+					break
+				}
+			}
+			if !ok {
+				break
+			}
+		}
+		if ok {
+			o.pot = pot
+		}
+	}
+	o.sums = !o.sym && o.pot == nil
 	o.cand = make([][]int32, m.n)
 	o.candW = make([][]int64, m.n)
 	k := min(openK, len(nodes)-1)
@@ -124,12 +163,13 @@ func newOpenTour(m *model) *openTour {
 	}
 	best := make([]nb, 0, k+1)
 	for _, i := range nodes {
+		turn.Due()
 		best = best[:0]
 		for _, j := range nodes {
 			if j == i || o.freeEnd && (j == m.end || i == m.end) {
 				continue
 			}
-			w := min(m.t[i*m.n+j], m.t[j*m.n+i])
+			w := min(m.tk(i*m.n+j), m.tk(j*m.n+i))
 			if len(best) == k && w >= best[k-1].w {
 				continue
 			}
@@ -159,7 +199,7 @@ func newOpenTour(m *model) *openTour {
 // set takes a route order and recomputes positions, sums and cost.
 func (o *openTour) set(r []int32) {
 	o.r = append(o.r[:0], r...)
-	if !o.sym {
+	if o.sums {
 		o.fw = make([]int64, len(r))
 		o.bw = make([]int64, len(r))
 	}
@@ -178,7 +218,7 @@ func (o *openTour) refresh(lo, hi int) {
 		o.pos[o.r[k]] = int32(k)
 	}
 	o.lo, o.hi = min(o.lo, lo), max(o.hi, hi)
-	if o.sym {
+	if !o.sums {
 		return
 	}
 	r := o.r
@@ -206,7 +246,10 @@ func (o *openTour) revDelta(x, y int) int64 {
 	r := o.r
 	a, b, c, d := r[x-1], r[x], r[y], r[y+1]
 	delta := o.d(a, c) + o.d(b, d) - o.d(a, b) - o.d(c, d)
-	if !o.sym {
+	switch {
+	case o.pot != nil:
+		delta += o.pot[c] - o.pot[b]
+	case o.sums:
 		delta += (o.bw[y] - o.bw[x]) - (o.fw[y] - o.fw[x])
 	}
 	return delta
@@ -459,8 +502,9 @@ func (o *openTour) segSwap(a int32, pa, last int) bool {
 
 // search runs the local search until the queue is empty or halt says stop.
 func (o *openTour) search(halt func() bool) {
-	for steps := 0; len(o.queue) > 0; steps++ {
-		if halt != nil && steps&1023 == 1023 && halt() {
+	var pace turn.Pacer
+	for len(o.queue) > 0 {
+		if pace.Step() && halt != nil && halt() {
 			return
 		}
 		// Last in, first out: the nodes a move just woke come first.
@@ -504,6 +548,7 @@ func (o *openTour) nearestOrder() []int32 {
 	cur := int32(m.start)
 	r = append(r, cur)
 	for len(r) <= len(m.movable) {
+		turn.Due()
 		next := int32(-1)
 		var bd int64
 		for _, c := range o.cand[cur] {

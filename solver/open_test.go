@@ -165,12 +165,27 @@ func TestOpenMoveDeltas(t *testing.T) {
 	for trial, c := range []struct {
 		sym   bool
 		shape Shape
-	}{{true, Closed}, {false, Closed}, {false, OpenFree}, {false, OpenFixed}, {true, OpenFixed}} {
+		pot   bool
+	}{{true, Closed, false}, {false, Closed, false}, {false, OpenFree, false}, {false, OpenFixed, false}, {true, OpenFixed, false},
+		{true, Closed, true}, {true, OpenFree, true}} {
 		rng := rand.New(rand.NewSource(int64(trial)))
 		in := openInstance(rng, 30, c.sym, c.shape)
+		if c.pot {
+			// Asymmetric by a potential per node: service folded into the
+			// arcs out of each node.
+			for i := 0; i < in.N; i++ {
+				for j := 0; j < in.N; j++ {
+					if i != j {
+						in.Travel[i*in.N+j] += 7 * int64(i%5)
+					}
+				}
+			}
+		}
 		m, err := newModel(in, TravelTime)
 		require.NoError(t, err)
 		o := newOpenTour(m)
+		require.Equal(t, c.pot, o.pot != nil, "potentials found")
+		require.Equal(t, !c.sym, o.sums, "prefix sums kept")
 		r := identityRoute(m)
 		rng.Shuffle(len(r)-2, func(i, j int) { r[i+1], r[j+1] = r[j+1], r[i+1] })
 		o.set(r)
@@ -260,4 +275,37 @@ func TestLooseWindowsNearestStart(t *testing.T) {
 	checkPlan(t, in, TravelTime, res.Best)
 	assert.True(t, res.Best.Feasible, "first plan meets every window")
 	assert.LessOrEqual(t, res.Best.Cost, nn, "first plan no longer than the nearest-neighbour tour")
+}
+
+// Travel beyond the int32 range keeps a 64-bit matrix in the model: the
+// engine still finds what enumeration finds, on a windowed day and on an
+// open one, with every time multiplied by 10⁸.
+func TestTravelBeyondInt32(t *testing.T) {
+	rng := rand.New(rand.NewSource(21))
+	for _, in := range []*Instance{randomInstance(rng, 9, 120, Closed), openInstance(rng, 9, false, Closed)} {
+		const f = 100_000_000
+		for k := range in.Travel {
+			in.Travel[k] *= f
+		}
+		for i := range in.Service {
+			in.Service[i] *= f
+			in.Early[i] *= f
+			if in.Late[i] != Horizon {
+				in.Late[i] *= f
+			}
+		}
+		m, err := newModel(in, TravelTime)
+		require.NoError(t, err)
+		require.Nil(t, m.t32)
+		_, want := enumerate(in, TravelTime)
+		res, err := Solve(context.Background(), in, Settings{Iterations: 400, Seed: 1})
+		require.NoError(t, err)
+		checkPlan(t, in, TravelTime, res.Best)
+		assert.Equal(t, want.Cost(TravelTime), res.Best.Cost)
+	}
+	small := openInstance(rng, 9, true, Closed)
+	m, err := newModel(small, TravelTime)
+	require.NoError(t, err)
+	assert.NotNil(t, m.t32, "travel that fits takes int32")
+	assert.Nil(t, m.t64)
 }

@@ -28,14 +28,13 @@ func (x *route) rebuild() {
 	}
 	x.fwd, x.bwd = x.fwd[:k], x.bwd[:k]
 	m := x.m
-	n := m.n
 	x.fwd[0] = m.unit(int(x.r[0]))
 	for i := 1; i < k; i++ {
-		x.fwd[i] = join(x.fwd[i-1], m.unit(int(x.r[i])), m.t[int(x.r[i-1])*n+int(x.r[i])])
+		x.fwd[i] = join(x.fwd[i-1], m.unit(int(x.r[i])), m.arc(x.r[i-1], x.r[i]))
 	}
 	x.bwd[k-1] = m.unit(int(x.r[k-1]))
 	for i := k - 2; i >= 0; i-- {
-		x.bwd[i] = join(m.unit(int(x.r[i])), x.bwd[i+1], m.t[int(x.r[i])*n+int(x.r[i+1])])
+		x.bwd[i] = join(m.unit(int(x.r[i])), x.bwd[i+1], m.arc(x.r[i], x.r[i+1]))
 	}
 }
 
@@ -48,22 +47,21 @@ func (x *route) setSpan(r []int32, lo, hi int) {
 	}
 	copy(x.r, r)
 	m := x.m
-	n := m.n
 	k := len(x.r)
 	lo = max(lo, 1)
 	hi = min(hi, k-2)
 	for i := lo; i < k; i++ {
-		x.fwd[i] = join(x.fwd[i-1], m.unit(int(x.r[i])), m.t[int(x.r[i-1])*n+int(x.r[i])])
+		x.fwd[i] = join(x.fwd[i-1], m.unit(int(x.r[i])), m.arc(x.r[i-1], x.r[i]))
 	}
 	for i := hi; i >= 0; i-- {
-		x.bwd[i] = join(m.unit(int(x.r[i])), x.bwd[i+1], m.t[int(x.r[i])*n+int(x.r[i+1])])
+		x.bwd[i] = join(m.unit(int(x.r[i])), x.bwd[i+1], m.arc(x.r[i], x.r[i+1]))
 	}
 }
 
 func (x *route) total() seg { return x.fwd[len(x.r)-1] }
 
 // arc is the travel from a to b.
-func (m *model) arc(a, b int32) int64 { return m.t[int(a)*m.n+int(b)] }
+func (m *model) arc(a, b int32) int64 { return m.tk(int(a)*m.n + int(b)) }
 
 // cost is the objective of a whole route summary, warp ignored.
 func (m *model) cost(s seg) int64 {

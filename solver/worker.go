@@ -46,7 +46,7 @@ func (e *engine) work(ctx context.Context, id int, seed int64) {
 	arcN := 0
 	for i := 0; i < m.n*m.n && arcN < 200000; i++ {
 		if m.arcOK[i] {
-			arcSum += float64(m.t[i])
+			arcSum += float64(m.tk(i))
 			arcN++
 		}
 	}
@@ -300,10 +300,10 @@ func nearestOrder(m *model) []int32 {
 	r = append(r, int32(m.start))
 	cur := m.start
 	for len(r) <= len(m.movable) {
+		turn.Due()
 		next := -1
-		row := m.t[cur*n : cur*n+n]
 		for _, v := range m.movable {
-			if !used[v] && (next < 0 || row[v] < row[next]) {
+			if !used[v] && (next < 0 || m.tk(cur*n+v) < m.tk(cur*n+next)) {
 				next = v
 			}
 		}
@@ -342,7 +342,7 @@ func greedyOrder(m *model) []int32 {
 		bi, bs := -1, int64(0)
 		ui, us := -1, int64(0)
 		for i, v := range left {
-			arr := t + m.t[cur*n+v]
+			arr := t + m.tk(cur*n+v)
 			st := max(arr, m.e[v])
 			if bi < 0 || st < bs {
 				bi, bs = i, st
@@ -354,11 +354,11 @@ func greedyOrder(m *model) []int32 {
 		pick := bi
 		// Going to the soonest first would make the most urgent late.
 		v := left[bi]
-		if ui != bi && bs+m.s[v]+m.t[v*n+left[ui]] > m.l[left[ui]] {
+		if ui != bi && bs+m.s[v]+m.tk(v*n+left[ui]) > m.l[left[ui]] {
 			pick = ui
 		}
 		v = left[pick]
-		arr := t + m.t[cur*n+v]
+		arr := t + m.tk(cur*n+v)
 		t = max(arr, m.e[v]) + m.s[v]
 		cur = v
 		r = append(r, int32(v))

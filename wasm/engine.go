@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"strconv"
 	"strings"
@@ -78,6 +79,11 @@ func (e *Engine) Ready() {
 func (e *Engine) Handle(raw string) {
 	var m inbound
 	if err := json.Unmarshal([]byte(raw), &m); err != nil {
+		var te *json.UnmarshalTypeError
+		if errors.As(err, &te) {
+			// The start options are embedded: name the field as the page does.
+			te.Field = strings.TrimPrefix(te.Field, "RunOptions.")
+		}
 		e.fail("message is not valid JSON: %s", format.JSONError(err))
 		return
 	}
@@ -233,7 +239,8 @@ func (p *plans) postWith(pl solver.Plan, res solver.Result, j *format.PlanJSON, 
 	if err := format.WriteJSON(&js, *j); err != nil {
 		p.e.fail("cannot write the plan as JSON: %v", err)
 	}
-	p.e.send(planMsg{Type: "plan", Run: p.r.id, Plan: *j, CSV: csv.String(), JSON: js.String()})
+	// The plan is encoded once: the JSON export is the plan object too.
+	p.e.send(planMsg{Type: "plan", Run: p.r.id, Plan: json.RawMessage(bytes.TrimSpace(js.Bytes())), CSV: csv.String(), JSON: js.String()})
 }
 
 // flush posts the pending plan. Call with p.mu held.

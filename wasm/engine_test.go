@@ -332,3 +332,39 @@ func TestEngineExplainsDayThatCannotBeMet(t *testing.T) {
 	assert.ElementsMatch(t, []any{"1", "2"}, p["conflict"])
 	assert.NotEmpty(t, p["reason"])
 }
+
+// TestEngineBoundRole: a worker with role "bound" runs the bound and the
+// exact search alone, takes the plans sent to it with "adopt", and ends
+// with its verdict: on this small day (examples/warehouse) it proves the
+// adopted plan optimal, or finds the optimum itself and sends it.
+func TestEngineBoundRole(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post)
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "picks.txt", "text": example(t)}))
+	r.wait(t, "loaded")
+	// The search's plan first, from a plain search worker.
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0, "iterations": 2000, "seed": 1, "role": "search"}))
+	fin := r.wait(t, "finished")
+	assert.Equal(t, "iterations", fin["why"])
+	route := r.wait(t, "plan")["plan"].(map[string]any)["route"]
+	r.mu.Lock()
+	r.msgs = nil
+	r.mu.Unlock()
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 20, "seed": 1, "role": "bound"}))
+	e.Handle(msg(t, map[string]any{"type": "adopt", "route": []int{0, 1}})) // does not fit: ignored
+	e.Handle(msg(t, map[string]any{"type": "adopt", "route": route}))
+	v := r.wait(t, "bound")
+	require.NotNil(t, v["lower_bound"])
+	assert.Equal(t, true, v["proven_optimal"])
+	assert.Equal(t, "complete", r.wait(t, "finished")["why"])
+	assert.Zero(t, r.count("progress"), "the bound worker does not search")
+	assert.Zero(t, r.count("plan"), "the adopted plan is optimal: the bound has none better to send")
+}
+
+func TestEngineRejectsUnknownRole(t *testing.T) {
+	r := newRecorder()
+	e := NewEngine(r.post)
+	e.Handle(msg(t, map[string]any{"type": "load", "text": example(t)}))
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 1, "role": "helper"}))
+	assert.Contains(t, r.wait(t, "failed")["message"], `role "helper"`)
+}

@@ -160,11 +160,11 @@ type (
 		Objective string             `json:"objective"`
 	}
 	planMsg struct {
-		Type string          `json:"type"`
-		Run  int             `json:"run"`
-		Plan format.PlanJSON `json:"plan"`
-		CSV  string          `json:"csv,omitempty"`
-		JSON string          `json:"json,omitempty"`
+		Type string `json:"type"`
+		Run  int    `json:"run"`
+		Plan any    `json:"plan"` // a format.PlanJSON, or its JSON export as is
+		CSV  string `json:"csv,omitempty"`
+		JSON string `json:"json,omitempty"`
 	}
 	progressMsg struct {
 		Type       string     `json:"type"`

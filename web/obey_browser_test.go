@@ -318,7 +318,7 @@ func engineRun(t *testing.T, ctx context.Context, load, start map[string]any, co
 	    else if (m.type === "finished") { got.finished = m; c.terminate(); res(got); }
 	  }});
 	  c.send(%s);
-	  setTimeout(() => rej(new Error("no finished within 60 s")), 60000);
+	  setTimeout(() => rej(new Error("no finished within 300 s")), 300000);
 	})`, cores, sj, lj))
 	if p, ok := out["plan"].(map[string]any); ok {
 		plan = p

@@ -108,11 +108,14 @@ func Files(opts Options) (map[string][]byte, error) {
 	}
 	files := map[string][]byte{
 		"app.js":           asset("app.js"),
-		"worker.js":        asset("worker.js"),
 		"engine-client.js": asset("engine-client.js"),
+		"worker.js":        asset("worker.js"),
 		"style.css":        asset("style.css"),
 		"engine.wasm":      opts.Engine,
 		"wasm_exec.js":     opts.WasmExec,
+	}
+	for _, m := range moduleFiles() {
+		files[m] = asset(m)
 	}
 	for _, e := range ex {
 		files["examples/"+e.Key] = []byte(e.Text)
@@ -195,7 +198,7 @@ func Handler(files map[string][]byte) http.Handler {
 		switch path.Ext(name) {
 		case ".wasm":
 			ct = "application/wasm"
-		case ".js":
+		case ".js", ".mjs":
 			ct = "text/javascript; charset=utf-8"
 		case ".txt", ".csv", ".tsv":
 			ct = "text/plain; charset=utf-8"

@@ -24,7 +24,7 @@ func testFiles(t *testing.T) map[string][]byte {
 
 func TestFilesHoldTheSite(t *testing.T) {
 	files := testFiles(t)
-	for _, name := range []string{"index.html", "app.js", "worker.js", "style.css", "engine.wasm", "wasm_exec.js", "visitline.html", "examples/warehouse/picks.txt"} {
+	for _, name := range []string{"index.html", "app.js", "engine-client.js", "fmt.mjs", "timeline.mjs", "worker.js", "style.css", "engine.wasm", "wasm_exec.js", "visitline.html", "examples/warehouse/picks.txt"} {
 		assert.Contains(t, files, name)
 	}
 }
@@ -103,4 +103,42 @@ func TestExamplesListed(t *testing.T) {
 func TestExamplesFromAnotherFolder(t *testing.T) {
 	_, err := ListExamples(fstest.MapFS{"bakery/sites.csv": {Data: []byte("id\n")}})
 	assert.ErrorContains(t, err, "example art/sites.csv")
+}
+
+func TestBundleRewritesModules(t *testing.T) {
+	fsys := fstest.MapFS{
+		"app.js": {Data: []byte("import { twice } from \"./b.mjs\";\nimport { one } from \"./a.mjs\";\nconsole.log(twice(one));\n")},
+		"a.mjs":  {Data: []byte("export const one = 1;\nconst hidden = 2;\n")},
+		"b.mjs":  {Data: []byte("import { one } from \"./a.mjs\";\nexport function twice(x) {\n  return 2 * x + one - one;\n}\n")},
+	}
+	out, err := Bundle(fsys, "app.js")
+	require.NoError(t, err)
+	assert.NotContains(t, out, "import ")
+	assert.NotContains(t, out, "export ")
+	ia, ib := strings.Index(out, "const __mod_a_mjs ="), strings.Index(out, "const __mod_b_mjs =")
+	require.True(t, ia >= 0 && ib >= 0, out)
+	assert.Less(t, ia, ib, "a module comes before the modules that import it")
+	assert.Contains(t, out, "return { one };", "only exports leave a module")
+	assert.Equal(t, 1, strings.Count(out, "const __mod_a_mjs ="), "a module shared by two importers is bundled once")
+
+	for name, src := range map[string]string{
+		"renamed":  "import { one as uno } from \"./a.mjs\";\n",
+		"default":  "export default 3;\n",
+		"star":     "import * as a from \"./a.mjs\";\n",
+		"missing":  "import { x } from \"./nope.mjs\";\n",
+		"circular": "import { y } from \"./c.mjs\";\n",
+	} {
+		f := fstest.MapFS{"app.js": {Data: []byte(src)}, "a.mjs": {Data: []byte("export const one = 1;\n")},
+			"c.mjs": {Data: []byte("import { z } from \"./d.mjs\";\nexport const y = 1;\n")}, "d.mjs": {Data: []byte("import { y } from \"./c.mjs\";\nexport const z = 1;\n")}}
+		_, err := Bundle(f, "app.js")
+		assert.Error(t, err, name)
+	}
+}
+
+func TestBundleOfThePageHoldsEveryModule(t *testing.T) {
+	page := string(testFiles(t)["visitline.html"])
+	for _, m := range moduleFiles() {
+		assert.Contains(t, page, "// ---- "+m, "the single file carries %s", m)
+	}
+	assert.Contains(t, page, "globalThis.VisitlineEngine", "and the engine client before them")
 }

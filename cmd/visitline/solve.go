@@ -156,10 +156,10 @@ func runSolve(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return usageError{"--mix: " + err.Error()}
 	}
+	ro.Mix = mix
 	if f.fleet.wanted(pos[0]) {
 		return solveFleet(pos[0], &f, stdout, stderr)
 	}
-	ro.Mix = mix
 	opt, err := f.load.options()
 	if err != nil {
 		return err

@@ -35,9 +35,10 @@ type Known struct {
 func (k Known) Key() string { return k.Family + "/" + k.Instance }
 
 // Read reads best-known rows from r; name is the file's name in errors.
-// A first row starting with "family" is the header. A header
-// instance,type,nodes,optimal (the TSPLIB folder's optimal.csv) reads the
-// rows as published optimal values, the family being the folder of name.
+// A first row starting with "family" is the header. The TSPLIB folder's
+// optimal.csv (instance,type,nodes,optimal,source) is read too: its rows
+// belong to the family named by the folder the file lies in, and their
+// instances are named without the file extension.
 func Read(r io.Reader, name string) ([]Known, error) {
 	cr := csv.NewReader(r)
 	cr.FieldsPerRecord = -1
@@ -55,9 +56,7 @@ func Read(r io.Reader, name string) ([]Known, error) {
 		if first && len(rec) > 0 && strings.EqualFold(strings.TrimSpace(rec[0]), "family") {
 			continue
 		}
-		if first && len(rec) >= 4 && strings.EqualFold(strings.TrimSpace(rec[0]), "instance") && strings.EqualFold(strings.TrimSpace(rec[3]), "optimal") {
-			// The TSPLIB folder's optimal.csv: instance,type,nodes,optimal,source;
-			// the family is the folder the file lies in.
+		if first && len(rec) >= 4 && strings.TrimSpace(rec[0]) == "instance" && strings.TrimSpace(rec[3]) == "optimal" {
 			tsplib = true
 			continue
 		}
@@ -69,8 +68,6 @@ func Read(r io.Reader, name string) ([]Known, error) {
 			if k.Best, err = strconv.ParseFloat(strings.TrimSpace(rec[3]), 64); err != nil {
 				return nil, fmt.Errorf("%s:%d:4: optimal %q is not a number", name, line, rec[3])
 			}
-			// An optimal value is its own lower bound.
-			k.Lower, k.HasLower = k.Best, true
 			if len(rec) > 4 {
 				k.Source = rec[4]
 			}

@@ -35,18 +35,17 @@ func TestReadErrorsNameLineAndField(t *testing.T) {
 	}
 }
 
-// The TSPLIB folder's optimal.csv has another layout; its family is the
-// folder's name. pcb442's optimal tour length 50778 is TSPLIB's published
-// value (Reinelt 1991, TSPLIB; the shared folder's README).
-func TestReadTSPLIBOptimalTable(t *testing.T) {
-	in := "instance,type,nodes,optimal,source\n" +
-		"pcb442,TSP,442,50778,TSPLIB (Reinelt 1991)\n" +
-		"ft70,ATSP,70,38673,TSPLIB (Reinelt 1991)\n"
-	ks, err := Read(strings.NewReader(in), "benchmarks/tsplib/optimal.csv")
+// The TSPLIB folder's optimal.csv has its own columns; its rows belong to
+// the family of the folder it lies in, named without file extensions.
+func TestReadTSPLIBOptimal(t *testing.T) {
+	src := "instance,type,nodes,optimal,source\npcb442,TSP,442,50778,TSPLIB\nft70,ATSP,70,38673,TSPLIB\n"
+	ks, err := Read(strings.NewReader(src), "bench/tsplib/optimal.csv")
 	require.NoError(t, err)
 	require.Len(t, ks, 2)
-	assert.Equal(t, Known{Family: "tsplib", Instance: "pcb442", Best: 50778, Lower: 50778, HasLower: true, Source: "TSPLIB (Reinelt 1991)", Line: 2}, ks[0])
-	assert.Equal(t, "tsplib/ft70", ks[1].Key())
-	_, err = Read(strings.NewReader("instance,type,nodes,optimal\npcb442,TSP,442,x\n"), "tsplib/optimal.csv")
-	assert.ErrorContains(t, err, `tsplib/optimal.csv:2:4: optimal "x" is not a number`)
+	assert.Equal(t, "tsplib/pcb442", ks[0].Key())
+	assert.Equal(t, 50778.0, ks[0].Best)
+	assert.Equal(t, 38673.0, ks[1].Best)
+	_, err = Read(strings.NewReader("instance,type,nodes,optimal\npcb442,TSP,442,many\n"), "tsplib/optimal.csv")
+	require.Error(t, err)
+	assert.Contains(t, err.Error(), "tsplib/optimal.csv:2:4: optimal \"many\" is not a number")
 }

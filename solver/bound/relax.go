@@ -137,7 +137,10 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 			if !allowedAt(i, idx) {
 				continue
 			}
-			if y.tick() && ctx.Err() != nil {
+			// A state's work grows with its successors (their labels are
+			// merged and sorted): count it so, so that a turn comes every
+			// few milliseconds at any size.
+			if y.ticks(1+perState*len(p.succ[i])) && ctx.Err() != nil {
 				return nil
 			}
 			cands = cands[:0]

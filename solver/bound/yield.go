@@ -12,3 +12,6 @@ type yielder struct {
 }
 
 func (y *yielder) tick() bool { return y.p.Step() }
+
+// ticks counts a step worth k small ones (say, one per candidate it sorts).
+func (y *yielder) ticks(k int) bool { return y.p.Add(k) }

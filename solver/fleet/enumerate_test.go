@@ -237,6 +237,12 @@ func TestSolveMatchesEnumeration(t *testing.T) {
 		c.name = fmt.Sprintf("seed%d-n%d-k%d-%s-minveh%v", s, c.n, c.k, c.obj, c.minVeh)
 		cases = append(cases, c)
 	}
+	// Larger days: 9 and 10 visits (the windows keep the enumeration short).
+	for s := int64(41); s <= 48; s++ {
+		c := tc{seed: s, n: 9 + int(s%2), k: 2 + int(s%3)/2, minVeh: s%4 == 0}
+		c.name = fmt.Sprintf("seed%d-n%d-k%d-%s-minveh%v", s, c.n, c.k, c.obj, c.minVeh)
+		cases = append(cases, c)
+	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			p := randomFleet(rand.New(rand.NewSource(c.seed)), c.n, c.k)

@@ -340,8 +340,11 @@ func triangleOf(format string) (t struct{ upper, diag bool }, ok bool) {
 }
 
 // readWeights reads an EDGE_WEIGHT_SECTION of n nodes in the given format.
+//
+// The numbers are gathered as they come and the matrix is made only once
+// they are all there, so that a short file claiming a large DIMENSION
+// costs no more memory than its text.
 func readWeights(tr *tokenReader, n int, format, name string) ([]int64, error) {
-	travel := make([]int64, n*n)
 	read := func(i, j int) (int64, error) {
 		t, ok := tr.token()
 		if !ok {
@@ -369,18 +372,20 @@ func readWeights(tr *tokenReader, n int, format, name string) ([]int64, error) {
 		return v, nil
 	}
 	if format == "FULL_MATRIX" {
+		var travel []int64
 		for i := 0; i < n; i++ {
 			for j := 0; j < n; j++ {
 				v, err := read(i, j)
 				if err != nil {
 					return nil, err
 				}
-				travel[i*n+j] = v
+				travel = append(travel, v)
 			}
 		}
 		return travel, nil
 	}
 	tri, _ := triangleOf(format)
+	var vals []int64
 	for i := 0; i < n; i++ {
 		lo, hi := 0, i // lower triangle: j < i (or ≤ i with the diagonal)
 		if tri.upper {
@@ -398,7 +403,26 @@ func readWeights(tr *tokenReader, n int, format, name string) ([]int64, error) {
 			if err != nil {
 				return nil, err
 			}
-			travel[i*n+j], travel[j*n+i] = v, v
+			vals = append(vals, v)
+		}
+	}
+	travel := make([]int64, n*n)
+	k := 0
+	for i := 0; i < n; i++ {
+		lo, hi := 0, i
+		if tri.upper {
+			lo, hi = i+1, n
+		}
+		if tri.diag {
+			if tri.upper {
+				lo = i
+			} else {
+				hi = i + 1
+			}
+		}
+		for j := lo; j < hi; j++ {
+			travel[i*n+j], travel[j*n+i] = vals[k], vals[k]
+			k++
 		}
 	}
 	return travel, nil

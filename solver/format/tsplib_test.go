@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"runtime"
 	"strings"
 	"testing"
 
@@ -249,4 +250,44 @@ func TestTSPLIBAsymmetricOptimal(t *testing.T) {
 			assert.Equal(t, c.optimal, sch.Travel, "published optimal tour length (TSPLIB, shared optimal.csv)")
 		})
 	}
+}
+
+// A short file that claims many nodes fails at its end without asking for
+// the memory of the matrix it claims.
+func TestTSPLIBShortFileLargeDimension(t *testing.T) {
+	for _, form := range []string{"FULL_MATRIX", "UPPER_ROW"} {
+		src := "NAME: big\nTYPE: ATSP\nDIMENSION: 20000\nEDGE_WEIGHT_TYPE: EXPLICIT\nEDGE_WEIGHT_FORMAT: " + form + "\nEDGE_WEIGHT_SECTION\n1 2 3\n"
+		var before, after runtime.MemStats
+		runtime.ReadMemStats(&before)
+		_, err := ReadTSPLIB(strings.NewReader(src), "big.atsp")
+		runtime.ReadMemStats(&after)
+		require.Error(t, err)
+		assert.Less(t, after.TotalAlloc-before.TotalAlloc, uint64(16<<20), "%s: bytes allocated (the claimed matrix is 3.2 GB)", form)
+	}
+}
+
+func FuzzReadTSPLIB(f *testing.F) {
+	f.Add(coordFile("EUC_2D", [2]float64{0, 0}, [2]float64{3, 4}, [2]float64{1, 1}))
+	f.Add(coordFile("GEO", [2]float64{48.23, 10.53}, [2]float64{-33.52, 151.13}))
+	f.Add("NAME: m\nTYPE: TSP\nDIMENSION: 3\nEDGE_WEIGHT_TYPE: EXPLICIT\nEDGE_WEIGHT_FORMAT: LOWER_DIAG_ROW\nEDGE_WEIGHT_SECTION\n0\n1 0\n2 3 0\nEOF\n")
+	f.Add("NAME: a\nTYPE: ATSP\nDIMENSION: 2\nEDGE_WEIGHT_TYPE: EXPLICIT\nEDGE_WEIGHT_FORMAT: FULL_MATRIX\nEDGE_WEIGHT_SECTION\n0 1\n2 0\nEOF\n")
+	f.Fuzz(func(t *testing.T, src string) {
+		in, err := ReadTSPLIB(strings.NewReader(src), "f.tsp")
+		if err != nil {
+			var pe *ParseError
+			require.ErrorAs(t, err, &pe)
+			return
+		}
+		require.NoError(t, in.Validate())
+		sch := solver.Evaluate(in, identity(in.N))
+		require.True(t, sch.Feasible, "a TSPLIB day has no windows")
+	})
+}
+
+func identity(n int) []int {
+	r := make([]int, n)
+	for i := range r {
+		r[i] = i
+	}
+	return r
 }

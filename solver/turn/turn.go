@@ -55,8 +55,12 @@ type Pacer struct {
 // Step counts one unit of work. Every checkEvery steps it returns true, so
 // that the caller checks its context then; when Enabled it also gives the
 // host a turn if Every has passed since the last one.
-func (p *Pacer) Step() bool {
-	p.n++
+func (p *Pacer) Step() bool { return p.Add(1) }
+
+// Add counts k units of work at once, for a step whose cost varies (a
+// state of a table with its many candidates), as Step does for one.
+func (p *Pacer) Add(k int) bool {
+	p.n += k
 	if p.n < checkEvery {
 		return false
 	}

@@ -38,3 +38,12 @@ func TestNativeNeverCallsHost(t *testing.T) {
 	Give()
 	assert.Zero(t, calls)
 }
+
+// TestAddCountsWeightedSteps: a step worth k counts as k steps.
+func TestAddCountsWeightedSteps(t *testing.T) {
+	var p Pacer
+	assert.False(t, p.Add(checkEvery-1))
+	assert.True(t, p.Add(1))
+	assert.True(t, p.Add(5*checkEvery), "one big step is due at once")
+	assert.False(t, p.Step())
+}

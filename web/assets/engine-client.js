@@ -430,7 +430,7 @@
       const errored = run.search.concat(run.bound ? [run.bound] : []).find(function (s) { return s.finished.why === "error"; });
       let why;
       if (errored) why = "error";
-      else if (run.userStop) why = "stopped";
+      else if (run.userStop || !run.complete && run.search.some(function (s) { return s.finished.why === "stopped"; })) why = "stopped";
       else if (run.complete || reasons.indexOf("complete") >= 0 && run.search.every(function (s) { return s.finished.why !== "budget"; })) why = "complete";
       else if (run.search.every(function (s) { return s.finished.why === "iterations"; })) why = "iterations";
       else why = "budget";
@@ -443,6 +443,7 @@
         workers: run.search.map(function (s) { return { iterations: s.finished.iterations || 0, memory_mb: s.w.memory }; }),
       };
       if (best) out.best_cost = best.cost;
+      if (run.bound) out.bound = { memory_mb: run.bound.w.memory };
       if (errored) out.message = errored.finished.message || run.failure || "";
       const note = run.search.map(function (s) { return s.finished.note; }).find(function (x) { return !!x; });
       if (note) out.note = note;

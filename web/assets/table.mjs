@@ -1,0 +1,47 @@
+// The plan as a table: one clock format per column, waits and slack in
+// whole minutes or H:MM, the day once in the caption.
+
+import { $ } from "./dom.mjs";
+import { isOpen, clock, duration, dayHeading } from "./fmt.mjs";
+import { planRows } from "./axis.mjs";
+
+// COLS are the columns' classes (page.go gives the headers the same).
+const COLS = ["c-ord", "c-site", "name-col", "c-arr", "c-start", "c-wait", "c-dep", "win-col", "c-slack"];
+
+export function clearTable() {
+  $("plan-table").tBodies[0].textContent = "";
+  $("table-day").textContent = "";
+}
+
+export function drawTable(p, model) {
+  const body = $("plan-table").tBodies[0];
+  const rows = planRows(p);
+  $("plan-table").classList.toggle("no-names", !rows.some((r) => r.v.name));
+  const day = dayHeading(model);
+  $("table-day").textContent = (day ? day + " · " : "") + (model.clock ? "times of day" : "times in the file's units") +
+    ", waits and slack in " + (model.minutes ? "minutes (H:MM from an hour)" : "the file's units");
+  // Every clock in whole minutes, one format for all (the exports keep
+  // the exact times).
+  const c = (v) => clock(v, model);
+  const frag = document.createDocumentFragment();
+  for (const r of rows) {
+    const v = r.v;
+    const tr = document.createElement("tr");
+    if (v.lateness > 0) tr.className = "is-late";
+    const win = isOpen(v.latest) ? "from " + c(v.earliest, "window") : c(v.earliest, "window") + "–" + c(v.latest, "window");
+    let slack = isOpen(v.latest) ? "open" : duration(v.slack, model, "floor");
+    if (v.lateness > 0) slack = "late by " + duration(v.lateness, model, "ceil");
+    const cells = [r.ret ? "back" : String(r.order), v.id, v.name || "", c(v.arrival, "arrival"), c(v.start, "start"),
+      v.wait > 0 ? duration(v.wait, model) : "–", c(v.departure, "departure"), win, slack];
+    cells.forEach((text, i) => {
+      const td = document.createElement(i === 1 ? "th" : "td");
+      if (i === 1) td.scope = "row";
+      td.className = COLS[i];
+      td.textContent = text;
+      tr.appendChild(td);
+    });
+    frag.appendChild(tr);
+  }
+  body.textContent = "";
+  body.appendChild(frag);
+}
