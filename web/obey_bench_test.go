@@ -223,7 +223,7 @@ func TestBenchBrowser(t *testing.T) {
 		benchOpen(t, ctx)
 		b0 := browserCPU(t)
 		w0 := time.Now()
-		_, _, fin := engineRun(t, longTab(t, time.Hour), map[string]any{"type": "load", "text": rc.text},
+		_, _, fin := engineRun(t, ctx, map[string]any{"type": "load", "text": rc.text},
 			map[string]any{"type": "start", "budget": 0, "iterations": rc.iters, "seed": 1, "no_bound": true}, 1)
 		wall := time.Since(w0)
 		browser := browserCPU(t) - b0

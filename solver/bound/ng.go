@@ -4,6 +4,8 @@ import (
 	"cmp"
 	"math/bits"
 	"slices"
+
+	"visitline/solver/turn"
 )
 
 // ngSets are the neighbourhoods of the ng-route relaxation (Baldacci,
@@ -88,6 +90,7 @@ func newNGSets(p *prob, k, limit int) *ngSets {
 	}
 	var cs []cv
 	for i := 0; i < n; i++ {
+		turn.Due() // a row and its sort: quadratic in all
 		cs = cs[:0]
 		for v := 0; v < n; v++ {
 			if v == i || !p.arc[i*n+v] && !p.arc[v*n+i] {
