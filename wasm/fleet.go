@@ -44,6 +44,12 @@ func SummariseFleet(fd *format.FleetDataset, d *format.Dataset) Summary {
 	var s Summary
 	if d != nil {
 		s = SummariseDataset(d)
+		// The fleet's own warnings: the sites reader's less those about the
+		// demand and priority columns, which a fleet day reads.
+		s.Warnings = []InputError{}
+		for _, w := range fd.Warnings {
+			s.Warnings = append(s.Warnings, InputError{File: w.File, Line: w.Line, Column: w.Column, Field: w.Field, Message: w.Msg, Text: w.String()})
+		}
 	} else {
 		s = Summary{Name: p.Name, Nodes: p.N, Shape: "closed", Scale: p.Scale, Warnings: []InputError{}}
 		depot := p.Depots()
