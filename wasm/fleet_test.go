@@ -135,3 +135,39 @@ func TestEngineFleetSizeAndErrors(t *testing.T) {
 		})
 	}
 }
+
+// A Solomon file is a fleet day by content, with its own vehicles; with
+// "minimize":"vehicles" the plan uses as few as it can. Worked by hand:
+// demands 6 + 6 exceed one capacity of 10, so two routes out and back,
+// 2 × 5 + 2 × 5 = 20.
+func TestEngineSolomonByContentAndFewestVehicles(t *testing.T) {
+	rec := newRecorder()
+	e := NewEngine(rec.post)
+	text := "tiny\n\nVEHICLE\nNUMBER CAPACITY\n 3 10\n\nCUSTOMER\nCUST NO. XCOORD. YCOORD. DEMAND READY TIME DUE DATE SERVICE TIME\n" +
+		" 0 0 0 0 0 100 0\n 1 3 4 6 0 50 1\n 2 -3 -4 6 0 50 1\n"
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "tiny.txt", "text": text}))
+	sum := rec.wait(t, "loaded")["summary"].(map[string]any)
+	assert.Len(t, sum["fleet"].(map[string]any)["vehicles"], 3)
+	assert.Equal(t, 2.0, sum["sites"])
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0, "iterations": 200, "seed": 1, "minimize": "vehicles"}))
+	rec.wait(t, "finished")
+	p := rec.wait(t, "plan")["plan"].(map[string]any)
+	assert.Equal(t, true, p["minimize_vehicles"])
+	assert.Equal(t, 2.0, p["vehicles_used"])
+	assert.InDelta(t, 20, p["cost"], 1e-9)
+}
+
+// A stop ends a fleet day's search at once, with why "stopped" and the
+// best plan so far.
+func TestEngineFleetStop(t *testing.T) {
+	rec := newRecorder()
+	e := NewEngine(rec.post)
+	loadTeam(t, e, rec)
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 600, "seed": 1}))
+	rec.wait(t, "started")
+	e.Handle(msg(t, map[string]any{"type": "stop"}))
+	fin := rec.wait(t, "finished")
+	assert.Equal(t, "stopped", fin["why"])
+	assert.Less(t, fin["elapsed"].(float64), 60.0, "a stop does not wait for the budget")
+	assert.Equal(t, 1, rec.count("plan"))
+}
