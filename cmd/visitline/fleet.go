@@ -34,6 +34,11 @@ func (ff *fleetFlags) wanted(path string) bool {
 	if ff.vehicles != "" || ff.count > 0 || ff.minimize != "" {
 		return true
 	}
+	// Only a regular file is peeked at: reading the head of a pipe
+	// (/dev/stdin) would take it from the one-vehicle reader.
+	if st, err := os.Stat(path); err != nil || !st.Mode().IsRegular() {
+		return false
+	}
 	fh, err := os.Open(path)
 	if err != nil {
 		return false
