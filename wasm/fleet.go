@@ -174,7 +174,7 @@ func (e *Engine) searchFleet(ctx context.Context, r *run, fd *format.FleetDatase
 		}
 		last = time.Now()
 		e.send(progressMsg{Type: "progress", Run: r.id, Iterations: p.Iteration, Elapsed: p.Elapsed.Seconds(), BestCost: fd.Problem.Float(p.Value.Cost),
-			Feasible: true, VehiclesUsed: p.Value.Vehicles, Unserved: int(p.Value.Unserved), Phase: p.Phase})
+			Feasible: true, VehiclesUsed: p.Value.Vehicles, UnservedPriority: p.Value.Unserved, Phase: p.Phase})
 	}
 	out, err := app.RunFleet(ctx, fd, o, minVeh, onImprove)
 	mu.Lock()

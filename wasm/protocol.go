@@ -76,6 +76,9 @@
 //	    (every n/2 ms for n nodes above 100). The best plan is sent once more just before
 //	    "finished", with lower_bound, gap_bound_pct and proven_optimal from
 //	    the bound, and for a day that cannot be met conflict and reason.
+//	    A fleet day's progress comes with each new best (fleet.Solve
+//	    reports values, not plans, as it goes) and carries vehicles_used,
+//	    unserved_priority and phase; its one plan comes at the end.
 //	    For a fleet day, plan is the object `solve --format json` prints
 //	    for it (format.FleetPlanJSON: vehicles_used, routes, unserved,
 //	    unserved_reasons...), csv has a vehicle column
@@ -195,11 +198,11 @@ type (
 		Feasible   bool       `json:"feasible"`
 		Weights    solver.Mix `json:"weights,omitempty"`
 		Explaining bool       `json:"explaining,omitempty"`
-		// A fleet day's search: the vehicles used, the visits left
+		// A fleet day's search: the vehicles used, the priority left
 		// unserved and the phase of the best plan so far.
-		VehiclesUsed int    `json:"vehicles_used,omitempty"`
-		Unserved     int    `json:"unserved,omitempty"`
-		Phase        string `json:"phase,omitempty"`
+		VehiclesUsed     int    `json:"vehicles_used,omitempty"`
+		UnservedPriority int64  `json:"unserved_priority,omitempty"`
+		Phase            string `json:"phase,omitempty"`
 	}
 	// boundMsg is the bound worker's verdict: a lower bound (absent when
 	// unknown), whether the plan it was given is proven best, whether no

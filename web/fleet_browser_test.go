@@ -39,7 +39,11 @@ func TestPageFleetDayLanesUnservedAndExports(t *testing.T) {
 	waitFor(t, ctx, `!!document.querySelector('[data-testid=team-summary]')`, 10*time.Second)
 	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=team-summary]').textContent`), "T2 Marek 08:00–17:30, holds 5")
 
+	eval[bool](t, ctx, `window.__statuses = []; new MutationObserver(() => window.__statuses.push(document.querySelector('[data-testid=status]').textContent))
+	  .observe(document.querySelector('[data-testid=status]'), {childList: true, characterData: true, subtree: true}); true`)
 	run(t, ctx, "1")
+	assert.True(t, eval[bool](t, ctx, `window.__statuses.some(s => s.startsWith("Searching a team's day: so far "))`),
+		"the run bar tells the search's best while it runs: %v", eval[[]string](t, ctx, `window.__statuses`))
 	lanes := eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=timeline] .lane-head')].map(e => e.dataset.lane)`)
 	_, jsonText := exportText(t, ctx, "export-json")
 	var p format.FleetPlanJSON

@@ -4,7 +4,7 @@
 // (web/bundle.go). Nothing here talks to a network.
 
 import { $, el, setStatus } from "./dom.mjs";
-import { timeModel, costWords, boundWords, boundDetails, duration, plural } from "./fmt.mjs";
+import { timeModel, costWords, boundWords, boundDetails, duration, longDuration, plural } from "./fmt.mjs";
 import { decodeBytes } from "./textin.mjs";
 import { readOptions, applyOptions, sameOptions, showSummary, showWarnings, showErrors, hideErrors } from "./input.mjs";
 import { drawTimeline, clearTimeline, wireTimeline } from "./timeline.mjs";
@@ -482,6 +482,10 @@ function onProgress(m) {
     return;
   }
   state.lastProgress = m;
+  if (typeof m.vehicles_used === "number" && !state.plan) {
+    setStatus("Searching a team's day: so far " + plural(m.vehicles_used, "vehicle", "vehicles") + ", " + longDuration(m.best_cost, state.model) + ($("objective").value === "completion" ? " of completions" : " driving") +
+      (m.unserved_priority ? ", some visits not yet served" : ", every visit served") + ". The plan shows when the search ends.");
+  }
   $("progress").value = Math.min(m.elapsed, state.budget);
   $("iterations").textContent = m.iterations.toLocaleString();
   state.rateWindow.push([m.elapsed, m.iterations]);

@@ -403,6 +403,12 @@
         best_cost: best ? best.cost : first.best_cost, feasible: best ? best.feasible : first.feasible,
         weights: from.weights || first.weights, workers: list,
       };
+      if (typeof first.vehicles_used === "number") {
+        // A fleet day's search: its best so far, before any plan comes.
+        out.vehicles_used = first.vehicles_used;
+        out.unserved_priority = first.unserved_priority || 0;
+        out.phase = first.phase;
+      }
       if (run.bound) {
         const v = run.bound.verdict;
         out.bound = { lower_bound: v && typeof v.lower_bound === "number" ? v.lower_bound : null, proven_optimal: !!(v && v.proven_optimal),
