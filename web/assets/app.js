@@ -636,7 +636,8 @@ async function makeShareLink() {
     return;
   }
   const d = state.data;
-  const base = { v: 2, name: d.name, text: d.text, matrix: d.matrix || "", matrix_name: d.matrix_name || "", options: d.options || {}, settings: settings() };
+  const base = { v: 2, name: d.name, text: d.text, matrix: d.matrix || "", matrix_name: d.matrix_name || "", options: d.options || {}, settings: settings(),
+    vehicles: d.vehicles || "", vehicles_name: d.vehicles_name || "", fleet: d.fleet || 0 };
   const head = location.href.split("#")[0] + "#data=";
   let link = state.plan ? head + (await pack(Object.assign({ plan: state.plan, csv: state.planCSV }, base))) : "";
   let withPlan = !!state.plan;
@@ -689,7 +690,8 @@ async function startupData() {
     try {
       const shared = await unpack(payload);
       applySettings(shared.settings);
-      const d = { name: shared.name, text: shared.text, matrix: shared.matrix, matrix_name: shared.matrix_name, options: shared.options };
+      const d = { name: shared.name, text: shared.text, matrix: shared.matrix, matrix_name: shared.matrix_name, options: shared.options,
+        vehicles: shared.vehicles, vehicles_name: shared.vehicles_name, fleet: shared.fleet };
       applyData(d);
       if (shared.plan) state.restorePlan = { from: "link", plan: shared.plan, csv: shared.csv, json: JSON.stringify(shared.plan, null, 2) };
       loadData(d, "link");
