@@ -168,3 +168,23 @@ func fourRounds() string {
 	}
 	return b.String()
 }
+
+// Stop is taken during a team's search in the worker: the fleet search
+// gives the worker's event loop its turns (through the clock it reads),
+// so the stop ends the run long before its budget.
+func TestPageFleetStop(t *testing.T) {
+	ctx, _ := tab(t)
+	openPage(t, ctx, "")
+	setField(t, ctx, "fleet-size", "4")
+	paste(t, ctx, fourRounds())
+	waitFor(t, ctx, `!!document.querySelector('[data-testid=team-summary]')`, 10*time.Second)
+	setField(t, ctx, "budget", "120")
+	eval[bool](t, ctx, `delete document.body.dataset.run; true`)
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("start"))))
+	waitFor(t, ctx, `document.body.dataset.run === "running"`, 10*time.Second)
+	time.Sleep(500 * time.Millisecond)
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("stop"))))
+	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 20*time.Second)
+	assert.Equal(t, "stopped", eval[string](t, ctx, `document.querySelector('[data-testid=status]').dataset.why`))
+	assert.Equal(t, 4, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .lane-head').length`), "the best plan so far is drawn")
+}
