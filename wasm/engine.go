@@ -35,6 +35,7 @@ type Engine struct {
 
 	mu  sync.Mutex
 	d   *format.Dataset
+	fd  *format.FleetDataset // a fleet day (then d is its sites, or nil)
 	cur *run
 	ids int
 }
@@ -117,6 +118,10 @@ func (e *Engine) load(m inbound) {
 			Text: name + ":1: there is no data: paste a matrix or CSV, or choose a file"}}})
 		return
 	}
+	if app.FleetWanted(m.Text, m.Vehicles, m.Fleet) {
+		e.loadFleet(m, name)
+		return
+	}
 	var matrix *strings.Reader
 	if strings.TrimSpace(m.Matrix) != "" {
 		matrix = strings.NewReader(m.Matrix)
@@ -130,21 +135,25 @@ func (e *Engine) load(m inbound) {
 	}
 	if err != nil {
 		e.mu.Lock()
-		e.d = nil
+		e.d, e.fd = nil, nil
 		e.mu.Unlock()
 		e.send(errorsMsg{Type: "errors", Errors: inputErrors(err, name)})
 		return
 	}
 	e.mu.Lock()
-	e.d = d
+	e.d, e.fd = d, nil
 	e.mu.Unlock()
 	e.send(loadedMsg{Type: "loaded", Summary: SummariseDataset(d)})
 }
 
 func (e *Engine) start(m inbound) {
 	e.mu.Lock()
-	d := e.d
+	d, fd := e.d, e.fd
 	e.mu.Unlock()
+	if fd != nil {
+		e.startFleet(m, fd)
+		return
+	}
 	if d == nil {
 		e.fail("no data is loaded: load a file, a paste or an example first")
 		return
@@ -478,6 +487,10 @@ func (e *Engine) export(m inbound) {
 	}
 	if d == nil {
 		reply("", "no data is loaded")
+		return
+	}
+	if fd := e.fleetDay(); fd != nil {
+		reply("", "the calendar of a day with several vehicles is not written yet: export the CSV or the JSON")
 		return
 	}
 	if m.Format != "ics" {

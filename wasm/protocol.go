@@ -21,6 +21,10 @@
 //	    as the command line; options mean what the flags of the same names
 //	    of `visitline solve` mean (zero values: the defaults). Stops a
 //	    running search first. Replies "loaded" or "errors".
+//	    A fleet day: "vehicles" (a vehicles file's text) and
+//	    "vehicles_name", or "fleet" (N identical vehicles), as --vehicles
+//	    and --fleet; a text in Solomon's format is one by content. Its
+//	    summary carries "fleet" (the vehicles), through app.LoadFleet.
 //	{"type":"start", "budget":10, "seed":1, "mix":{"random":1,...}, "fixed":false, "objective":"travel",
 //	 "fewest_late":false, "no_bound":false}
 //	    Search the loaded instance for budget seconds (0 < budget <= 3600)
@@ -38,6 +42,9 @@
 //	    of one run: its seed is seed + 7919·worker, as with --workers).
 //	    The options are app.RunOptions, those of `visitline solve`, so the
 //	    same options, seed and iteration budget give solve's plan.
+//	    A fleet day is searched by fleet.Solve through app.RunFleet (the
+//	    mix, the bound and the role do not apply: run one worker);
+//	    "minimize":"vehicles" is --minimize vehicles.
 //	{"type":"mix", "mix":{"random":2,"slice":0,...}}
 //	    Replace the operator weights of the running search. Replies "mix".
 //	{"type":"adopt", "route":[0,3,1,...]}
@@ -69,6 +76,13 @@
 //	    (every n/2 ms for n nodes above 100). The best plan is sent once more just before
 //	    "finished", with lower_bound, gap_bound_pct and proven_optimal from
 //	    the bound, and for a day that cannot be met conflict and reason.
+//	    A fleet day's progress comes with each new best (fleet.Solve
+//	    reports values, not plans, as it goes) and carries vehicles_used,
+//	    unserved_priority and phase; its one plan comes at the end.
+//	    For a fleet day, plan is the object `solve --format json` prints
+//	    for it (format.FleetPlanReport: vehicles_used, routes, unserved,
+//	    unserved_reasons...), csv has a vehicle column
+//	    (format.WriteFleetCSV), and every plan carries both exports.
 //	{"type":"progress", "run":1, "iterations":1234, "elapsed":1.5, "best_cost":812, "feasible":true, "weights":{...}}
 //	    About every 50 ms while searching; elapsed in seconds. One with
 //	    "explaining":true says the search is over and the worker is looking
@@ -118,6 +132,15 @@ type inbound struct {
 	Matrix     string          `json:"matrix"`
 	MatrixName string          `json:"matrix_name"`
 	Options    app.LoadOptions `json:"options"`
+	// load, a day for several vehicles: a vehicles file (and its name) or
+	// a fleet size, as --vehicles and --fleet; a text in Solomon's format
+	// is a fleet day by content.
+	Vehicles     string `json:"vehicles"`
+	VehiclesName string `json:"vehicles_name"`
+	Fleet        int    `json:"fleet"`
+	// start, a fleet day: "vehicles" uses as few vehicles as it can
+	// before the travel (--minimize vehicles).
+	Minimize string `json:"minimize"`
 	// start: the search options (budget, iterations, seed, mix, fixed,
 	// objective, fewest_late, no_bound), as solve's flags.
 	app.RunOptions
@@ -175,6 +198,11 @@ type (
 		Feasible   bool       `json:"feasible"`
 		Weights    solver.Mix `json:"weights,omitempty"`
 		Explaining bool       `json:"explaining,omitempty"`
+		// A fleet day's search: the vehicles used, the priority left
+		// unserved and the phase of the best plan so far.
+		VehiclesUsed     int    `json:"vehicles_used,omitempty"`
+		UnservedPriority int64  `json:"unserved_priority,omitempty"`
+		Phase            string `json:"phase,omitempty"`
 	}
 	// boundMsg is the bound worker's verdict: a lower bound (absent when
 	// unknown), whether the plan it was given is proven best, whether no
@@ -277,6 +305,8 @@ type Summary struct {
 	// re-planned route leaves from.
 	Done []string `json:"done,omitempty"`
 	At   string   `json:"at,omitempty"`
+	// Fleet is set for a day of several vehicles: its vehicles.
+	Fleet *FleetSummary `json:"fleet,omitempty"`
 }
 
 // SummariseDataset adds what a sites file tells to Summarise.

@@ -177,6 +177,7 @@ func dataPanel(ex []Example) g.Node {
 		h.Div(h.Class("row"),
 			h.Button(h.Type("button"), h.ID("paste-load"), testid("paste-load"), g.Text("Read the text")),
 		),
+		teamBox(),
 		h.Details(h.Class("help-more"), h.Summary(g.Text("What the text looks like")), h.P(h.ID("paste-help"), h.Class("help"),
 			g.Text("A sites CSV has a header row (id, name, earliest, latest, service, and x,y or lat,lon without a matrix); the first site is the start. "+
 				"Or the plain matrix format: the number of nodes, a row of travel times per node, then “earliest latest” per node."))),
@@ -184,6 +185,29 @@ func dataPanel(ex []Example) g.Node {
 		h.Div(h.ID("warnings"), testid("warnings"), h.Class("warnings"), h.Hidden("")),
 		h.Div(h.ID("summary"), testid("summary"), h.Class("summary"), h.Aria("live", "polite"),
 			h.P(h.Class("muted"), g.Text("No sites loaded yet."))),
+	)
+}
+
+// teamBox takes a day for several vehicles: a vehicles file (opened,
+// dropped with the sites or pasted) or a number of like vehicles from the
+// start site. Read with the sites by "Read the text" or a file.
+func teamBox() g.Node {
+	return h.Details(h.ID("team-box"), testid("team-box"), h.Class("more team"),
+		h.Summary(g.Text("Several vehicles")),
+		h.P(h.Class("help"), g.Text("Plan a team's day: give a vehicles file (id, name, start, end, shift start, shift end, capacity, max duration), "+
+			"or a number of like vehicles that leave the start site within its window. Sites may add demand and priority columns.")),
+		h.Div(h.Class("row"),
+			h.Label(h.For("vehicles-file"), h.Class("file-pick small"), g.Text("Open a vehicles file"),
+				h.Input(h.Type("file"), h.ID("vehicles-file"), testid("vehicles-file"), h.Accept(".csv,.tsv,.txt,text/csv,text/plain"))),
+			h.Label(h.For("fleet-size"), h.Class("field-label inline"), g.Text("or like vehicles")),
+			h.Input(h.Type("number"), h.ID("fleet-size"), testid("fleet-size"), h.Min("0"), h.Max("200"), h.Step("1"), h.Placeholder("0"), g.Attr("inputmode", "numeric"), h.Class("fleet-size")),
+		),
+		h.Label(h.For("vehicles-input"), h.Class("field-label"), g.Text("Vehicles CSV, as text")),
+		h.Textarea(h.ID("vehicles-input"), testid("vehicles-input"), h.Rows("3"), g.Attr("spellcheck", "false"), h.AutoComplete("off"),
+			h.Placeholder("id,name,start,end,shift start,shift end,capacity\nT1,Ines,DEPOT,,07:30,16:00,5\n…")),
+		h.Label(h.Class("check"), h.Input(h.Type("checkbox"), h.ID("fewest-vehicles"), testid("fewest-vehicles")),
+			g.Text(" Use as few vehicles as the day allows, before the least driving")),
+		h.P(h.Class("help"), g.Text("Empty both to plan one vehicle. Read the sites again after a change here.")),
 	)
 }
 
@@ -306,6 +330,7 @@ func planPanel() g.Node {
 			h.Input(h.Type("date"), h.ID("ics-date"), testid("ics-date")),
 		),
 		h.Div(h.ID("why"), testid("why"), h.Class("why"), h.Role("note"), h.Hidden("")),
+		h.Div(h.ID("unserved"), testid("unserved"), h.Class("unserved"), h.Role("note"), h.Hidden("")),
 		h.P(h.ID("print-title"), h.Class("print-only")),
 		h.Ul(h.Class("legend"), h.Aria("label", "How to read the day plan"),
 			h.Li(h.Span(h.Class("key key-window")), g.Text("time window")),

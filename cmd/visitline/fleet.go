@@ -2,14 +2,15 @@ package main
 
 import (
 	"context"
+	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"os"
 	"os/signal"
-	"strings"
 
 	"visitline/solver"
+	"visitline/solver/app"
 	"visitline/solver/fleet"
 	"visitline/solver/format"
 )
@@ -49,61 +50,50 @@ func (ff *fleetFlags) wanted(path string) bool {
 }
 
 // loadFleet reads the fleet day of path: a Solomon file, or a sites file
-// (with its matrix) and a vehicles file or a fleet size.
+// (with its matrix) and a vehicles file or a fleet size, through the
+// application layer as the page's worker does.
 func loadFleet(path string, f *solveFlags) (*format.FleetDataset, error) {
 	data, err := os.ReadFile(path)
 	if err != nil {
 		return nil, fmt.Errorf("%s: cannot open: %w", path, unwrapPath(err))
 	}
-	if format.IsSolomon(string(data)) {
-		if f.fleet.vehicles != "" {
-			return nil, usageError{"--vehicles: " + path + " is in Solomon's format, which gives its own vehicles; leave --vehicles out"}
-		}
-		p, err := format.ReadSolomon(strings.NewReader(string(data)), path)
-		if err != nil {
-			return nil, err
-		}
-		if f.fleet.count > 0 {
-			for len(p.Vehicles) > f.fleet.count {
-				p.Vehicles = p.Vehicles[:f.fleet.count]
-			}
-			for len(p.Vehicles) < f.fleet.count {
-				v := p.Vehicles[0]
-				v.ID = fmt.Sprint(len(p.Vehicles) + 1)
-				p.Vehicles = append(p.Vehicles, v)
-			}
-		}
-		return format.SolomonDataset(p), nil
-	}
-	if f.fleet.vehicles == "" && f.fleet.count <= 0 {
+	solomon := format.IsSolomon(string(data))
+	switch {
+	case solomon && f.fleet.vehicles != "":
+		return nil, usageError{"--vehicles: " + path + " is in Solomon's format, which gives its own vehicles; leave --vehicles out"}
+	case !solomon && f.fleet.vehicles == "" && f.fleet.count <= 0:
 		return nil, usageError{"--minimize vehicles needs a fleet: give --vehicles FILE or --fleet N"}
+	case !solomon && f.fleet.vehicles != "" && f.fleet.count > 0:
+		return nil, usageError{"give --vehicles FILE or --fleet N, not both"}
 	}
-	opt, err := f.load.options()
-	if err != nil {
-		return nil, err
-	}
-	d, err := loadDataset(path, opt)
-	if err != nil {
-		return nil, err
-	}
-	fo := format.FleetOptions{Count: f.fleet.count, SitesText: string(data)}
-	if f.fleet.vehicles != "" {
-		if f.fleet.count > 0 {
-			return nil, usageError{"give --vehicles FILE or --fleet N, not both"}
-		}
-		vh, err := os.Open(f.fleet.vehicles)
-		if err != nil {
-			return nil, fmt.Errorf("%s: cannot open: %w", f.fleet.vehicles, unwrapPath(err))
-		}
-		defer vh.Close()
-		if fo.Vehicles, err = format.ReadVehicles(vh, f.fleet.vehicles); err != nil {
+	in := app.FleetInput{Sites: string(data), SitesName: path, Count: f.fleet.count, Options: f.load.appOptions()}
+	if !solomon {
+		if _, err := f.load.options(); err != nil {
 			return nil, err
 		}
+		if in.MatrixName = f.load.matrix; in.MatrixName != "" {
+			m, err := os.ReadFile(in.MatrixName)
+			if err != nil {
+				return nil, fmt.Errorf("%s: cannot open: %w", in.MatrixName, unwrapPath(err))
+			}
+			in.Matrix = string(m)
+		}
+		if in.VehiclesName = f.fleet.vehicles; in.VehiclesName != "" {
+			v, err := os.ReadFile(in.VehiclesName)
+			if err != nil {
+				return nil, fmt.Errorf("%s: cannot open: %w", in.VehiclesName, unwrapPath(err))
+			}
+			in.Vehicles = string(v)
+		}
 	}
-	fd, err := format.FleetFromDataset(d, fo)
+	fd, _, err := app.LoadFleet(in)
 	var oe *format.OptionError
-	if asOptionError(err, &oe) {
+	var ue *app.UsageError
+	switch {
+	case errors.As(err, &oe):
 		return nil, usageError{"--" + oe.Error()}
+	case errors.As(err, &ue):
+		return nil, usageError{ue.Msg}
 	}
 	return fd, err
 }
@@ -135,18 +125,18 @@ func solveFleet(path string, f *solveFlags, stdout, stderr io.Writer) error {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
 	minVeh := f.fleet.minimize == "vehicles"
-	s := fleet.Settings{Budget: f.budget, Iterations: f.iterations, Seed: f.seed, Objective: obj, MinimizeVehicles: minVeh}
+	var onImprove func(fleet.Progress)
 	if !f.quiet {
-		s.OnImprove = func(p fleet.Progress) {
+		onImprove = func(p fleet.Progress) {
 			fmt.Fprintf(stderr, "%8.3fs  iter %-8d vehicles %-4d unserved %-4d cost %-12s (%s)\n", p.Elapsed.Seconds(), p.Iteration, p.Value.Vehicles,
 				p.Value.Unserved, fd.FormatDuration(p.Value.Cost), p.Phase)
 		}
 	}
-	res, err := fleet.Solve(ctx, fd.Problem, s)
+	run, err := app.RunFleet(ctx, fd, app.RunOptions{Budget: f.budget.Seconds(), Iterations: f.iterations, Seed: f.seed, Objective: obj.String()}, minVeh, onImprove)
 	if err != nil {
 		return err
 	}
-	j := fd.PlanReport(obj, minVeh, &res)
+	j := run.Plan
 	if f.format == "json" {
 		return format.WriteFleetJSON(stdout, j)
 	}

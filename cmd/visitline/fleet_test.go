@@ -94,3 +94,23 @@ func TestSolveFleetErrors(t *testing.T) {
 		})
 	}
 }
+
+// The command line writes testdata/fleet/boiler-team-plan.json for the
+// invented boiler firm's day; the worker's test (wasm) compares its own
+// plan with the same file, so that the two plan alike.
+func TestSolveFleetGolden(t *testing.T) {
+	t.Chdir("../..") // the file names in the plan are the repository's
+	code, out, errOut := runCmd("solve", "--budget", "0", "--iterations", "400", "--seed", "3", "--quiet", "--format", "json",
+		"--vehicles", "testdata/fleet/boiler-team-vehicles.csv", "testdata/fleet/boiler-team-sites.csv")
+	require.Equal(t, 0, code, errOut)
+	golden, err := os.ReadFile("testdata/fleet/boiler-team-plan.json")
+	require.NoError(t, err)
+	var got, want map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &got))
+	require.NoError(t, json.Unmarshal(golden, &want))
+	for _, k := range []string{"seconds", "seconds_to_best"} {
+		delete(got, k)
+		delete(want, k)
+	}
+	assert.Equal(t, want, got)
+}

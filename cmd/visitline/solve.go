@@ -69,15 +69,20 @@ func (l *loadFlags) validate() error {
 	return nil
 }
 
-// options gives the flags as the application layer's options (the same
-// type the page's load message carries), read as the readers want them.
-func (l *loadFlags) options() (format.Options, error) {
+// appOptions gives the flags as the application layer's load options.
+func (l *loadFlags) appOptions() app.LoadOptions {
 	o := app.LoadOptions{MatrixUnit: l.matrixUnit, Speed: l.speed, RoadFactor: l.roadFactor,
 		Start: l.start, End: l.end, ShiftStart: l.shiftStart, Now: l.now}
 	if l.done != "" {
 		o.Done = strings.Split(l.done, ",")
 	}
-	f, err := o.Format("", l.matrix)
+	return o
+}
+
+// options gives the flags as the application layer's options (the same
+// type the page's load message carries), read as the readers want them.
+func (l *loadFlags) options() (format.Options, error) {
+	f, err := l.appOptions().Format("", l.matrix)
 	if err != nil {
 		return format.Options{}, usageError{"--" + err.Error()}
 	}

@@ -4,11 +4,12 @@
 // (web/bundle.go). Nothing here talks to a network.
 
 import { $, el, setStatus } from "./dom.mjs";
-import { timeModel, costWords, boundWords, boundDetails, duration, plural } from "./fmt.mjs";
+import { timeModel, costWords, boundWords, boundDetails, duration, longDuration, plural } from "./fmt.mjs";
 import { decodeBytes } from "./textin.mjs";
 import { readOptions, applyOptions, sameOptions, showSummary, showWarnings, showErrors, hideErrors } from "./input.mjs";
 import { drawTimeline, clearTimeline, wireTimeline } from "./timeline.mjs";
 import { drawTable, clearTable } from "./table.mjs";
+import { isFleetPlan, drawFleetTimeline, drawFleetTable, drawUnserved, fleetWords, vehicleColumn } from "./fleet.mjs";
 import { drawChart } from "./chart.mjs";
 import { baseName, download } from "./exports.mjs";
 import { pack, unpack, linkPayload, isShareHash, LinkError, MAX_LINK } from "./share.mjs";
@@ -107,8 +108,16 @@ function firstLine(text) {
 
 function currentData(name) {
   const matrix = $("matrix-input").value;
+  const vehicles = $("vehicles-input").value;
   return { name: name, text: $("paste-input").value, matrix: matrix,
-    matrix_name: matrix.trim() ? state.matrixName || "pasted matrix" : "", options: readOptions() };
+    matrix_name: matrix.trim() ? state.matrixName || "pasted matrix" : "", options: readOptions(),
+    vehicles: vehicles, vehicles_name: vehicles.trim() ? state.vehiclesName || "pasted vehicles" : "", fleet: readFleetSize() };
+}
+
+// readFleetSize is the number of like vehicles asked for (0: none).
+function readFleetSize() {
+  const n = Number($("fleet-size").value);
+  return Number.isInteger(n) && n > 0 ? n : 0;
 }
 
 function applyData(d) {
@@ -116,6 +125,10 @@ function applyData(d) {
   $("matrix-input").value = d.matrix || "";
   state.matrixName = d.matrix_name || "";
   $("matrix-box").open = !!d.matrix;
+  $("vehicles-input").value = d.vehicles || "";
+  state.vehiclesName = d.vehicles_name || "";
+  $("fleet-size").value = d.fleet ? String(d.fleet) : "";
+  if (d.vehicles || d.fleet) $("team-box").open = true;
   applyOptions(d.options);
 }
 
@@ -141,7 +154,8 @@ function loadData(d, origin) {
   }
   state.pendingData = Object.assign({}, d, { origin: origin });
   setStatus("Reading " + d.name + "…");
-  send({ type: "load", name: d.name, text: d.text, matrix: d.matrix || "", matrix_name: d.matrix_name || "", options: d.options || {} });
+  send({ type: "load", name: d.name, text: d.text, matrix: d.matrix || "", matrix_name: d.matrix_name || "", options: d.options || {},
+    vehicles: d.vehicles || "", vehicles_name: d.vehicles_name || "", fleet: d.fleet || 0 });
 }
 
 async function loadFile(file) {
@@ -165,6 +179,16 @@ async function loadMatrixFile(file) {
   state.matrixFromExample = false;
   $("matrix-box").open = true;
   setStatus("Matrix " + file.name + " is ready: open or paste the sites, or read them again.");
+  if ($("paste-input").value.trim()) loadData(currentData(state.data ? state.data.name : "pasted text"), state.origin || "paste");
+}
+
+async function loadVehiclesFile(file) {
+  if (!file) return;
+  const read = decodeBytes(new Uint8Array(await file.arrayBuffer()));
+  $("vehicles-input").value = read.text;
+  state.vehiclesName = file.name;
+  $("team-box").open = true;
+  setStatus("Vehicles " + file.name + " are ready: open or paste the sites, or read them again.");
   if ($("paste-input").value.trim()) loadData(currentData(state.data ? state.data.name : "pasted text"), state.origin || "paste");
 }
 
@@ -228,7 +252,9 @@ function onLoaded(s) {
     send(st);
     return;
   }
-  setStatus("Loaded " + plural(s.sites, "visit", "visits") + " from " + (s.name || state.data.name) + ". Press Start to search.");
+  if (s.fleet) showTeam(s.fleet, state.model);
+  setStatus("Loaded " + plural(s.sites, "visit", "visits") + (s.fleet ? " and " + plural(s.fleet.vehicles.length, "vehicle", "vehicles") : "") +
+    " from " + (s.name || state.data.name) + ". Press Start to search.");
   if (state.restorePlan) {
     const r = state.restorePlan;
     state.restorePlan = null;
@@ -250,6 +276,19 @@ function onLoaded(s) {
     if (d.matrix !== undefined) $("matrix-input").value = d.matrix;
   }
   saveSession();
+}
+
+// showTeam adds the vehicles to the data's summary: each with its shift
+// and capacity.
+function showTeam(f, model) {
+  const dl = $("summary").querySelector("dl");
+  if (!dl) return;
+  const d = el("div", "team-row");
+  const list = f.vehicles.map((v) => v.id + (v.name ? " " + v.name : "") + " " + (model.clock ? v.shift_start_text + "–" + v.shift_end_text : v.shift_start + "–" + v.shift_end) +
+    (v.capacity !== undefined ? ", holds " + v.capacity : ""));
+  d.append(el("dt", "", "Vehicles"), el("dd", "", list.join("; ")));
+  d.dataset.testid = "team-summary";
+  dl.appendChild(d);
 }
 
 // planFits: a plan from a link or a kept session goes with this data.
@@ -322,7 +361,7 @@ function start() {
   state.budget = budget;
   document.body.dataset.run = "starting";
   const msg = { type: "start", budget: budget, seed: seed, mix: mix, fixed: $("fixed-mix").checked, objective: $("objective").value,
-    fewest_late: $("fewest-late").checked, no_bound: !$("with-bound").checked, cores: cores };
+    fewest_late: $("fewest-late").checked, no_bound: !$("with-bound").checked, cores: cores, minimize: $("fewest-vehicles").checked ? "vehicles" : "" };
   const opts = readOptions();
   if (state.data && !sameOptions(opts, state.data.options)) {
     state.pendingStart = msg;
@@ -367,20 +406,23 @@ function showPlan(m) {
   const p = m.plan;
   const model = state.model;
   const late = p.late ? p.late.length : 0;
-  $("best-cost").textContent = costWords(p, model) + (p.feasible ? " · every window met" : " · " + plural(late, "visit", "visits") + " late");
+  const fleet = isFleetPlan(p);
+  $("best-cost").textContent = fleet ? fleetWords(p, model) : costWords(p, model) + (p.feasible ? " · every window met" : " · " + plural(late, "visit", "visits") + " late");
   $("best-cost").dataset.cost = p.cost;
   $("improvements").textContent = String(p.improvements || 0);
   for (const id in exporters) $(id).disabled = false;
   $("export-csv").disabled = !state.planCSV;
   const ics = $("export-ics");
-  ics.disabled = !(state.summary && state.summary.unit);
-  ics.title = ics.disabled ? "A calendar needs a sites file with clock times; this data has no times of day." : "";
-  showWhy(p);
+  ics.disabled = !(state.summary && state.summary.unit) || fleet;
+  ics.title = fleet ? "The calendar of a team's day is not written yet: take the CSV or the JSON." : ics.disabled ? "A calendar needs a sites file with clock times; this data has no times of day." : "";
+  if (fleet) $("why").hidden = true;
+  else showWhy(p);
+  drawUnserved(p);
   $("quality").textContent = boundWords(p);
   $("quality").dataset.proven = p.proven_optimal ? "yes" : "no";
   $("bound-details").textContent = boundDetails(p, model);
-  $("print-title").textContent = (state.data ? state.data.name + " · " : "") + costWords(p, model) +
-    (p.feasible ? ", every window met" : ", " + plural(late, "visit", "visits") + " late") + " · planned " + new Date().toLocaleString();
+  $("print-title").textContent = (state.data ? state.data.name + " · " : "") + (fleet ? fleetWords(p, model) : costWords(p, model)) +
+    (fleet ? "" : p.feasible ? ", every window met" : ", " + plural(late, "visit", "visits") + " late") + " · planned " + new Date().toLocaleString();
   drawSoon();
 }
 
@@ -401,9 +443,13 @@ function drawNow() {
   drawTimer = 0;
   if (!state.plan) return;
   const t0 = performance.now();
-  drawTimeline(state.plan, state.model);
+  const fleet = isFleetPlan(state.plan);
+  if (fleet) drawFleetTimeline(state.plan, state.model);
+  else drawTimeline(state.plan, state.model);
   const t1 = performance.now();
-  drawTable(state.plan, state.model);
+  if (!fleet) vehicleColumn(false);
+  if (fleet) drawFleetTable(state.plan, state.model);
+  else drawTable(state.plan, state.model);
   $("plan-table").dataset.drawMs = String(Math.round(performance.now() - t1));
   chart();
   lastDrawMs = Math.min(2000, performance.now() - t0);
@@ -436,6 +482,10 @@ function onProgress(m) {
     return;
   }
   state.lastProgress = m;
+  if (typeof m.vehicles_used === "number" && !state.plan) {
+    setStatus("Searching a team's day: so far " + plural(m.vehicles_used, "vehicle", "vehicles") + ", " + longDuration(m.best_cost, state.model) + ($("objective").value === "completion" ? " of completions" : " driving") +
+      (m.unserved_priority ? ", some visits not yet served" : ", every visit served") + ". The plan shows when the search ends.");
+  }
   $("progress").value = Math.min(m.elapsed, state.budget);
   $("iterations").textContent = m.iterations.toLocaleString();
   state.rateWindow.push([m.elapsed, m.iterations]);
@@ -493,8 +543,10 @@ function clearPlan() {
   for (const id in exporters) $(id).disabled = true;
   $("print-title").textContent = "";
   $("why").hidden = true;
+  drawUnserved(null);
   clearTimeline();
   clearTable();
+  vehicleColumn(false);
   chart();
 }
 
@@ -543,7 +595,8 @@ function applySettings(st) {
 }
 
 function snapshot() {
-  return { data: state.data ? { name: state.data.name, text: state.data.text, matrix: state.data.matrix, matrix_name: state.data.matrix_name, options: state.data.options } : null,
+  return { data: state.data ? { name: state.data.name, text: state.data.text, matrix: state.data.matrix, matrix_name: state.data.matrix_name, options: state.data.options,
+    vehicles: state.data.vehicles, vehicles_name: state.data.vehicles_name, fleet: state.data.fleet } : null,
     origin: state.origin, draft: { text: $("paste-input").value, matrix: $("matrix-input").value }, options: readOptions(), settings: settings(),
     plan: state.plan ? { plan: state.plan, csv: state.planCSV, json: state.planJSON } : null, saved: Date.now() };
 }
@@ -583,7 +636,8 @@ async function makeShareLink() {
     return;
   }
   const d = state.data;
-  const base = { v: 2, name: d.name, text: d.text, matrix: d.matrix || "", matrix_name: d.matrix_name || "", options: d.options || {}, settings: settings() };
+  const base = { v: 2, name: d.name, text: d.text, matrix: d.matrix || "", matrix_name: d.matrix_name || "", options: d.options || {}, settings: settings(),
+    vehicles: d.vehicles || "", vehicles_name: d.vehicles_name || "", fleet: d.fleet || 0 };
   const head = location.href.split("#")[0] + "#data=";
   let link = state.plan ? head + (await pack(Object.assign({ plan: state.plan, csv: state.planCSV }, base))) : "";
   let withPlan = !!state.plan;
@@ -636,7 +690,8 @@ async function startupData() {
     try {
       const shared = await unpack(payload);
       applySettings(shared.settings);
-      const d = { name: shared.name, text: shared.text, matrix: shared.matrix, matrix_name: shared.matrix_name, options: shared.options };
+      const d = { name: shared.name, text: shared.text, matrix: shared.matrix, matrix_name: shared.matrix_name, options: shared.options,
+        vehicles: shared.vehicles, vehicles_name: shared.vehicles_name, fleet: shared.fleet };
       applyData(d);
       if (shared.plan) state.restorePlan = { from: "link", plan: shared.plan, csv: shared.csv, json: JSON.stringify(shared.plan, null, 2) };
       loadData(d, "link");
@@ -672,6 +727,7 @@ function forgetAll() {
 function wire() {
   $("file-input").addEventListener("change", (ev) => loadFile(ev.target.files[0]));
   $("matrix-file").addEventListener("change", (ev) => loadMatrixFile(ev.target.files[0]));
+  $("vehicles-file").addEventListener("change", (ev) => loadVehiclesFile(ev.target.files[0]));
   const today = new Date();
   $("ics-date").value = today.getFullYear() + "-" + String(today.getMonth() + 1).padStart(2, "0") + "-" + String(today.getDate()).padStart(2, "0");
   const zone = $("data-panel");
@@ -687,8 +743,12 @@ function wire() {
     zone.classList.remove("dragging");
     const files = ev.dataTransfer && ev.dataTransfer.files ? [...ev.dataTransfer.files] : [];
     const mx = files.length > 1 ? files.find((x) => /travel|matrix|distance|time/i.test(x.name)) : null;
-    const f = files.find((x) => x !== mx);
-    if (mx && f) loadMatrixFile(mx).then(() => loadFile(f));
+    const vh = files.length > 1 ? files.find((x) => x !== mx && /vehicle|fleet|team|van|crew/i.test(x.name)) : null;
+    const f = files.find((x) => x !== mx && x !== vh);
+    if (vh && f) {
+      const first = mx ? loadMatrixFile(mx) : Promise.resolve();
+      first.then(() => loadVehiclesFile(vh)).then(() => loadFile(f));
+    } else if (mx && f) loadMatrixFile(mx).then(() => loadFile(f));
     else if (f) loadFile(f);
     else if (ev.dataTransfer) {
       const t = ev.dataTransfer.getData("text/plain");
@@ -756,7 +816,7 @@ function wire() {
   $("share-link").addEventListener("click", makeShareLink);
   for (const id of ["budget", "seed", "cores", "objective", "fixed-mix", "fewest-late", "with-bound", "route-end", "end-site", "start-site",
     "shift-start", "speed", "road-factor", "done-visits", "now", "matrix-unit"]) $(id).addEventListener("change", saveSoon);
-  for (const id of ["paste-input", "matrix-input"]) $(id).addEventListener("input", saveSoon);
+  for (const id of ["paste-input", "matrix-input", "vehicles-input"]) $(id).addEventListener("input", saveSoon);
   $("cores").value = String(defaultCores(navigator.hardwareConcurrency));
   $("cores").max = String(MAX_CORES);
   wireTimeline();

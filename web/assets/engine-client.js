@@ -67,6 +67,7 @@
   // (for days that cannot be met) less lateness, then the cost.
   function better(a, b, fewestLate) {
     if (!b) return true;
+    if (a.routes || b.routes) return betterFleet(a, b);
     if (a.feasible !== b.feasible) return a.feasible;
     if (!a.feasible) {
       if (fewestLate) {
@@ -75,6 +76,16 @@
       }
       if (a.total_lateness !== b.total_lateness) return a.total_lateness < b.total_lateness;
     }
+    return a.cost < b.cost - 1e-9;
+  }
+
+  // betterFleet ranks fleet plans as fleet.Value does: less priority left
+  // unserved, then (when minimised) fewer vehicles, then the cost.
+  function betterFleet(a, b) {
+    if (!a.routes) return false;
+    if (!b.routes) return true;
+    if (a.unserved_priority !== b.unserved_priority) return a.unserved_priority < b.unserved_priority;
+    if (a.minimize_vehicles && a.vehicles_used !== b.vehicles_used) return a.vehicles_used < b.vehicles_used;
     return a.cost < b.cost - 1e-9;
   }
 
@@ -164,9 +175,11 @@
 
     function start(msg) {
       if (msg.cores) client.setCores(msg.cores);
-      const n = client.cores;
+      // A day for several vehicles runs in one search worker, with no
+      // bound worker (the fleet engine has neither adoption nor a bound).
+      const n = client.fleetDay ? 1 : client.cores;
       ensureWorkers(n);
-      const withBound = !msg.no_bound;
+      const withBound = !msg.no_bound && !client.fleetDay;
       run = {
         id: (run ? run.id : 0) + 1, msg: msg, n: n, withBound: withBound, search: [], bound: null,
         best: null, bestFrom: -1, pending: null, lastPost: 0, timer: null,
@@ -223,7 +236,10 @@
         case "loaded":
         case "errors":
         case "export":
-          if (w.kind === "search" && w.index === 0) onMessage(m);
+          if (w.kind === "search" && w.index === 0) {
+            if (m.type !== "export") client.fleetDay = m.type === "loaded" && !!(m.summary && m.summary.fleet);
+            onMessage(m);
+          }
           return;
         case "failed":
           if (m.fatal) fail(m.message);
@@ -304,8 +320,8 @@
       mergeBound(m);
       // Share it: every other worker adopts it (the searches at their next
       // restart; the bound prunes with its cost).
-      for (const s of run.search) if (s.w !== w && !s.finished) post(s.w, { type: "adopt", route: p.route });
-      if (run.bound && w !== run.bound.w && !run.bound.finished) post(run.bound.w, { type: "adopt", route: p.route });
+      if (!p.routes) for (const s of run.search) if (s.w !== w && !s.finished) post(s.w, { type: "adopt", route: p.route });
+      if (!p.routes && run.bound && w !== run.bound.w && !run.bound.finished) post(run.bound.w, { type: "adopt", route: p.route });
       queuePlan(false);
     }
 
@@ -387,6 +403,12 @@
         best_cost: best ? best.cost : first.best_cost, feasible: best ? best.feasible : first.feasible,
         weights: from.weights || first.weights, workers: list,
       };
+      if (typeof first.vehicles_used === "number") {
+        // A fleet day's search: its best so far, before any plan comes.
+        out.vehicles_used = first.vehicles_used;
+        out.unserved_priority = first.unserved_priority || 0;
+        out.phase = first.phase;
+      }
       if (run.bound) {
         const v = run.bound.verdict;
         out.bound = { lower_bound: v && typeof v.lower_bound === "number" ? v.lower_bound : null, proven_optimal: !!(v && v.proven_optimal),

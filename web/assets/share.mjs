@@ -103,6 +103,7 @@ function check(o) {
   const str = (v) => (typeof v === "string" ? v : "");
   const out = { v: o.v, name: str(o.name) || "shared data", text: o.text, matrix: str(o.matrix), matrix_name: str(o.matrix_name),
     options: cleanOptions(o.options),
+    vehicles: str(o.vehicles), vehicles_name: str(o.vehicles_name), fleet: Number.isInteger(o.fleet) && o.fleet > 0 && o.fleet <= 200 ? o.fleet : 0,
     settings: o.settings && typeof o.settings === "object" ? o.settings : {} };
   if (o.plan && typeof o.plan === "object" && Array.isArray(o.plan.route) && Array.isArray(o.plan.schedule)) {
     out.plan = o.plan;

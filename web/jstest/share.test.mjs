@@ -35,3 +35,13 @@ test("options of the wrong type are dropped, the rest kept", async () => {
   const back = await unpack(await pack({ text: "x", options: { speed: "fast", road_factor: 1.2, done: ["A", 3], end: 7, start: "D" } }));
   assert.deepEqual(back.options, { start: "D", road_factor: 1.2, done: ["A"] });
 });
+
+test("a team's day rides in the link: vehicles text, name and fleet size", async () => {
+  const back = await unpack(await pack({ text: "id\nA\n", vehicles: "id,start\nT1,A\n", vehicles_name: "team.csv", fleet: 3 }));
+  assert.equal(back.vehicles, "id,start\nT1,A\n");
+  assert.equal(back.vehicles_name, "team.csv");
+  assert.equal(back.fleet, 3);
+  const odd = await unpack(await pack({ text: "x", vehicles: 5, fleet: -2 }));
+  assert.equal(odd.vehicles, "");
+  assert.equal(odd.fleet, 0);
+});

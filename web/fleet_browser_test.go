@@ -1,0 +1,190 @@
+package web_test
+
+import (
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/chromedp/chromedp"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+
+	"visitline/solver/app"
+	"visitline/solver/fleet"
+	"visitline/solver/format"
+)
+
+// An invented boiler firm's day (testdata/fleet/): three technicians,
+// fifteen visits, one of which (H15) closes before any shift begins. The
+// dispatcher opens the vehicles file and the sites file, plans, and reads
+// three lanes, the unserved visits with their reasons, a vehicle column;
+// the plan the page shows (its JSON export) passes fleet.Evaluate.
+func TestPageFleetDayLanesUnservedAndExports(t *testing.T) {
+	ctx, _ := tab(t)
+	viewport(t, ctx, 1366, 768)
+	openPage(t, ctx, "")
+	sitesPath, vehPath := filepath.Join("..", "testdata", "fleet", "boiler-team-sites.csv"), filepath.Join("..", "testdata", "fleet", "boiler-team-vehicles.csv")
+	absV, err := filepath.Abs(vehPath)
+	require.NoError(t, err)
+	absS, err := filepath.Abs(sitesPath)
+	require.NoError(t, err)
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetUploadFiles(byTestID("vehicles-file"), []string{absV})))
+	waitFor(t, ctx, `document.querySelector('[data-testid=vehicles-input]').value.includes('Marek')`, 5*time.Second)
+	require.NoError(t, chromedp.Do(ctx, chromedp.SetUploadFiles(byTestID("file-input"), []string{absS})))
+	waitFor(t, ctx, `!!document.querySelector('[data-testid=team-summary]')`, 10*time.Second)
+	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=team-summary]').textContent`), "T2 Marek 08:00–17:30, holds 5")
+
+	eval[bool](t, ctx, `window.__statuses = []; new MutationObserver(() => window.__statuses.push(document.querySelector('[data-testid=status]').textContent))
+	  .observe(document.querySelector('[data-testid=status]'), {childList: true, characterData: true, subtree: true}); true`)
+	run(t, ctx, "1")
+	assert.True(t, eval[bool](t, ctx, `window.__statuses.some(s => s.startsWith("Searching a team's day: so far "))`),
+		"the run bar tells the search's best while it runs: %v", eval[[]string](t, ctx, `window.__statuses`))
+	lanes := eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=timeline] .lane-head')].map(e => e.dataset.lane)`)
+	_, jsonText := exportText(t, ctx, "export-json")
+	var p format.FleetPlanReport
+	require.NoError(t, json.Unmarshal([]byte(jsonText), &p))
+	want := []string{}
+	for _, r := range p.Routes {
+		want = append(want, r.Vehicle)
+	}
+	require.Equal(t, []string{"T1", "T2", "T3"}, lanes, "one lane per vehicle, in the vehicles file's order")
+	assert.Equal(t, want, lanes)
+	// Each lane's visits follow its header, in route order.
+	for _, r := range p.Routes {
+		got := eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=timeline] .visit[data-vehicle=`+jsString(r.Vehicle)+`]')].map(e => e.dataset.visit)`)
+		assert.Equal(t, r.VisitIDs, got, "lane %s", r.Vehicle)
+		head := eval[string](t, ctx, `document.querySelector('[data-testid=timeline] .lane-head[data-lane=`+jsString(r.Vehicle)+`]').textContent`)
+		assert.Contains(t, head, r.VehicleName)
+		assert.Contains(t, head, "load ")
+	}
+
+	// The unserved visits, each with its reason.
+	require.NotEmpty(t, p.UnservedWhy)
+	un := eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=unserved] li')].map(e => e.dataset.visit + ': ' + e.querySelector('.reason').textContent)`)
+	var wantUn []string
+	for _, u := range p.UnservedWhy {
+		wantUn = append(wantUn, u.ID+": "+u.Why)
+	}
+	assert.Equal(t, wantUn, un)
+	assert.Contains(t, un, "H15: no vehicle can reach it within its window", "H15 closes at 07:00, before every shift")
+	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=best-cost]').textContent`), "3 vehicles of 3")
+
+	// The table has a vehicle column, a row per visit served.
+	tcol := tableColumns(t, ctx)
+	require.Contains(t, tcol, "Vehicle")
+	rows := tableRows(t, ctx)
+	require.Len(t, rows, p.Served)
+	k := 0
+	for _, r := range p.Routes {
+		for _, id := range r.VisitIDs {
+			assert.Equal(t, r.Vehicle, rows[k][tcol["Vehicle"]])
+			assert.Equal(t, id, rows[k][tcol["Site"]])
+			k++
+		}
+	}
+
+	// The plan shown passes the independent evaluator, at its cost.
+	fd, _, err := app.LoadFleet(app.FleetInput{Sites: readText(t, sitesPath), SitesName: "boiler-team-sites.csv", Vehicles: readText(t, vehPath), VehiclesName: "v.csv"})
+	require.NoError(t, err)
+	pl := fleet.Plan{Routes: make([][]int, len(fd.Problem.Vehicles)), Unserved: p.Unserved}
+	for _, r := range p.Routes {
+		for k, v := range fd.Problem.Vehicles {
+			if v.ID == r.Vehicle {
+				pl.Routes[k] = r.Visits
+			}
+		}
+	}
+	rep, err := fleet.Evaluate(fd.Problem, pl)
+	require.NoError(t, err)
+	assert.True(t, rep.Feasible, rep.Problems)
+	assert.InDelta(t, fd.Problem.InputUnits(rep.Travel), p.Cost, 1e-6)
+	assert.Equal(t, 15, p.Served+len(p.Unserved))
+
+	// The CSV export: a vehicle column, then the unserved rows.
+	_, csvText := exportText(t, ctx, "export-csv")
+	recs, err := csv.NewReader(strings.NewReader(csvText)).ReadAll()
+	require.NoError(t, err)
+	assert.Equal(t, format.FleetCSVHeader, recs[0])
+	assert.Len(t, recs, 1+p.Served+len(p.Unserved))
+	assert.True(t, eval[bool](t, ctx, `document.querySelector('[data-testid=export-ics]').disabled`), "no calendar for a team yet")
+
+	screenshot(t, ctx, "fleet-1366")
+	viewport(t, ctx, 390, 844)
+	eval[bool](t, ctx, `window.dispatchEvent(new Event('resize')); true`)
+	time.Sleep(300 * time.Millisecond)
+	screenshot(t, ctx, "fleet-390")
+	wide := eval[[]string](t, ctx, `[...document.querySelectorAll('body *')].filter(e => e.getBoundingClientRect().right > 391).slice(0, 8).map(e => e.tagName + '.' + e.className + '#' + e.id)`)
+	assert.LessOrEqual(t, eval[int](t, ctx, `document.documentElement.scrollWidth`), 390, "nothing wider than the phone: %v", wide)
+	eval[bool](t, ctx, `document.querySelector('[data-testid=unserved]').scrollIntoView(); true`)
+	view(t, ctx, "testout", "fleet-390-lanes")
+	eval[bool](t, ctx, `document.querySelector('[data-testid=plan-table]').scrollIntoView(); true`)
+	view(t, ctx, "testout", "fleet-390-table")
+}
+
+// A day past 60 visits with a fleet size: one compact row per vehicle,
+// its visits as blocks.
+func TestPageFleetSizeLargeDayCompactRows(t *testing.T) {
+	ctx, _ := tab(t)
+	viewport(t, ctx, 1366, 768)
+	openPage(t, ctx, "")
+	setField(t, ctx, "fleet-size", "4")
+	paste(t, ctx, fourRounds())
+	waitFor(t, ctx, `!!document.querySelector('[data-testid=team-summary]')`, 10*time.Second)
+	run(t, ctx, "1")
+	_, jsonText := exportText(t, ctx, "export-json")
+	var p format.FleetPlanReport
+	require.NoError(t, json.Unmarshal([]byte(jsonText), &p))
+	require.Greater(t, p.Served, 60)
+	require.Equal(t, 4, len(p.Routes), "four rounds at the same hours need four vehicles")
+	assert.Equal(t, len(p.Routes), eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .lane-head.compact').length`))
+	assert.Equal(t, 0, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .visit').length`), "no row per visit on a large day")
+	assert.Equal(t, p.Served, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .lane-head .block').length`), "a block per visit served")
+	view(t, ctx, "testout", "fleet-compact-1366")
+}
+
+func readText(t *testing.T, path string) string {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	require.NoError(t, err)
+	return string(b)
+}
+
+// fourRounds is an invented day of 64 meter readings in four streets, 16
+// each, whose windows come at the same hours in every street: no vehicle
+// can be in two streets at once, so the day needs four.
+func fourRounds() string {
+	var b strings.Builder
+	b.WriteString("id,name,x,y,earliest,latest,service\nDEPOT,Yard,10,10,07:00,18:00,0\n")
+	for g := 0; g < 4; g++ {
+		for i := 0; i < 16; i++ {
+			m := 8*60 + i*25
+			fmt.Fprintf(&b, "R%d-%02d,Street %c no. %d,%.1f,%.1f,%02d:%02d,%02d:%02d,15\n", g+1, i+1, 'A'+g, i+1, 10+float64(g)*3, 10+float64(i)*0.2, m/60, m%60, (m+15)/60, (m+15)%60)
+		}
+	}
+	return b.String()
+}
+
+// Stop is taken during a team's search in the worker: the fleet search
+// gives the worker's event loop its turns (through the clock it reads),
+// so the stop ends the run long before its budget.
+func TestPageFleetStop(t *testing.T) {
+	ctx, _ := tab(t)
+	openPage(t, ctx, "")
+	setField(t, ctx, "fleet-size", "4")
+	paste(t, ctx, fourRounds())
+	waitFor(t, ctx, `!!document.querySelector('[data-testid=team-summary]')`, 10*time.Second)
+	setField(t, ctx, "budget", "120")
+	eval[bool](t, ctx, `delete document.body.dataset.run; true`)
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("start"))))
+	waitFor(t, ctx, `document.body.dataset.run === "running"`, 10*time.Second)
+	time.Sleep(500 * time.Millisecond)
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("stop"))))
+	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 20*time.Second)
+	assert.Equal(t, "stopped", eval[string](t, ctx, `document.querySelector('[data-testid=status]').dataset.why`))
+	assert.Equal(t, 4, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .lane-head').length`), "the best plan so far is drawn")
+}
