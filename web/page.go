@@ -81,7 +81,7 @@ func Page(d PageData) g.Node {
 					h.Span(h.Class("mark"), h.Aria("hidden", "true")),
 					h.H1(g.Text("Visitline")),
 				),
-				h.P(h.Class("tagline"), g.Text("One vehicle's visits, in an order that meets the time windows. "),
+				h.P(h.Class("tagline"), g.Text("Visits for one vehicle or a small team, in an order that meets the time windows. "),
 					h.Strong(g.Text("Your data stays in this browser."))),
 			),
 			runBar(),
