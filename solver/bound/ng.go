@@ -1,9 +1,7 @@
 package bound
 
 import (
-	"cmp"
 	"math/bits"
-	"slices"
 
 	"visitline/solver/turn"
 )
@@ -88,10 +86,14 @@ func newNGSets(p *prob, k, limit int) *ngSets {
 		v int32
 		d int64
 	}
-	var cs []cv
+	less := func(a, b cv) bool { return a.d < b.d || a.d == b.d && a.v < b.v }
+	// The k-1 nearest of each row by bounded insertion, in the order a
+	// full sort by (distance, node) would give: linear in the row, where
+	// a sort of every row took seconds at a few thousand nodes.
+	best := make([]cv, 0, k)
 	for i := 0; i < n; i++ {
-		turn.Due() // a row and its sort: quadratic in all
-		cs = cs[:0]
+		turn.Due() // a row: quadratic in all
+		best = best[:0]
 		for v := 0; v < n; v++ {
 			if v == i || !p.arc[i*n+v] && !p.arc[v*n+i] {
 				continue
@@ -105,19 +107,23 @@ func newNGSets(p *prob, k, limit int) *ngSets {
 			if gap := p.et[i] - p.lt[v]; gap > 0 {
 				d += gap
 			}
-			cs = append(cs, cv{int32(v), d})
+			c := cv{int32(v), d}
+			if len(best) == k-1 && (k-1 == 0 || !less(c, best[len(best)-1])) {
+				continue
+			}
+			j := len(best)
+			if j < k-1 {
+				best = append(best, c)
+			} else {
+				j--
+			}
+			for ; j > 0 && less(c, best[j-1]); j-- {
+				best[j] = best[j-1]
+			}
+			best[j] = c
 		}
-		slices.SortFunc(cs, func(a, b cv) int {
-			if a.d != b.d {
-				return cmp.Compare(a.d, b.d)
-			}
-			return cmp.Compare(a.v, b.v)
-		})
 		ng.add(i, i)
-		for _, c := range cs {
-			if len(ng.list[i]) >= k {
-				break
-			}
+		for _, c := range best {
 			ng.add(i, int(c.v))
 		}
 	}
