@@ -22,6 +22,7 @@ type search struct {
 	ins     []int32 // repairInsert's next order
 	cs      []ranked
 	taken   []bool
+	perm    []int
 	inRem   []bool
 
 	// statistics per destroy operator
@@ -87,7 +88,8 @@ func (s *search) destroy(x *route, op int, q int) int {
 	}
 	switch Operators[op] {
 	case "random":
-		perm := s.rng.Perm(k)
+		perm := permInto(s.rng, s.perm[:0], k)
+		s.perm = perm
 		for _, p := range perm[:q] {
 			s.removed = append(s.removed, r[1+p])
 		}
@@ -139,6 +141,21 @@ func (s *search) destroy(x *route, op int, q int) int {
 		x.setShifted(keep, first, len(r)-1-last)
 	}
 	return at
+}
+
+// permInto is rng.Perm(n) written into buf: the same permutation from the
+// same draws, without a new slice each call.
+func permInto(rng *rand.Rand, buf []int, n int) []int {
+	m := buf[:0]
+	for range n {
+		m = append(m, 0)
+	}
+	for i := 0; i < n; i++ {
+		j := rng.Intn(i + 1)
+		m[i] = m[j]
+		m[j] = i
+	}
+	return m
 }
 
 // ranked is a visit with a key, smaller first.

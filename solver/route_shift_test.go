@@ -43,3 +43,17 @@ func TestSetShiftedEqualsSet(t *testing.T) {
 		require.Equal(t, want.bwd, x.bwd, "trial %d", trial)
 	}
 }
+
+// permInto draws what rand.Perm draws and leaves the generator where
+// rand.Perm leaves it.
+func TestPermIntoIsPerm(t *testing.T) {
+	var buf []int
+	for seed := int64(1); seed <= 20; seed++ {
+		a, b := rand.New(rand.NewSource(seed)), rand.New(rand.NewSource(seed))
+		for _, n := range []int{0, 1, 2, 7, 50} {
+			buf = permInto(b, buf, n)
+			require.Equal(t, a.Perm(n), append([]int{}, buf...), "seed %d n %d", seed, n)
+		}
+		require.Equal(t, a.Int63(), b.Int63(), "seed %d", seed)
+	}
+}
