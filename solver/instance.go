@@ -9,7 +9,7 @@
 // the input is Instance.Scale internal units (Scale is a power of ten chosen by
 // the reader from the most decimals it saw, so that 45.1774 with Scale 10000 is
 // exactly 451774). Feasibility and cost comparisons are exact integer
-// arithmetic and never depend on floating-point rounding; Float converts back
+// arithmetic and never depend on floating-point rounding; InputUnits converts back
 // to input units only for display.
 package solver
 
@@ -121,16 +121,18 @@ func (in *Instance) ID(i int) string {
 	return fmt.Sprint(i)
 }
 
-// Float converts an internal value to input units.
-func (in *Instance) Float(v int64) float64 {
+// InputUnits converts an internal value to input units (minutes for a
+// sites file, the file's own unit for a benchmark file).
+func (in *Instance) InputUnits(v int64) float64 {
 	if in.Scale <= 1 {
 		return float64(v)
 	}
 	return float64(v) / float64(in.Scale)
 }
 
-// Round converts an input-unit value to internal units, rounding to nearest.
-func (in *Instance) Round(f float64) int64 {
+// InternalUnits converts a value in input units to internal units,
+// rounding to the nearest unit.
+func (in *Instance) InternalUnits(f float64) int64 {
 	s := in.Scale
 	if s < 1 {
 		s = 1

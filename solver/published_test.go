@@ -85,7 +85,7 @@ func TestReachesDumasBestKnown(t *testing.T) {
 		require.NoError(t, solver.CheckRoute(in, res.Best.Route), name)
 		chk := solver.Evaluate(in, res.Best.Route)
 		require.True(t, chk.Feasible, name)
-		got := in.Float(chk.Travel)
+		got := in.InputUnits(chk.Travel)
 		// A plan below a proven optimum would mean an evaluator bug.
 		require.GreaterOrEqual(t, got, want.bound-1e-9, "%s below the published bound (%s)", name, want.source)
 		if got != want.best {
@@ -125,11 +125,11 @@ func TestFeasibleOnEverySharedInstance(t *testing.T) {
 		// Evaluate trusts the route to hold every node once: check that first.
 		require.NoError(t, solver.CheckRoute(in, res.Best.Route), f)
 		chk := solver.Evaluate(in, res.Best.Route)
-		require.True(t, chk.Feasible, "%s: no feasible plan (lateness %v)", f, in.Float(chk.TotalLateness))
+		require.True(t, chk.Feasible, "%s: no feasible plan (lateness %v)", f, in.InputUnits(chk.TotalLateness))
 		key := filepath.Base(filepath.Dir(f)) + "/" + filepath.Base(f)
 		k, ok := bk[key]
 		require.True(t, ok, key)
 		// Rounded published values: allow 0.01 (shared/benchmarks/tsptw/README.md).
-		require.GreaterOrEqual(t, in.Float(chk.Travel), k.bound-0.01-1e-9, "%s below the published lower bound (%s)", key, k.source)
+		require.GreaterOrEqual(t, in.InputUnits(chk.Travel), k.bound-0.01-1e-9, "%s below the published lower bound (%s)", key, k.source)
 	}
 }

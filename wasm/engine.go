@@ -219,13 +219,13 @@ type plans struct {
 // writing them takes the worker a tenth of a second or more per plan.
 const exportsUpTo = 300
 
-func (p *plans) post(pl solver.Plan, res solver.Result, j *format.PlanJSON) {
+func (p *plans) post(pl solver.Plan, res solver.Result, j *format.PlanReport) {
 	p.postWith(pl, res, j, p.d.Instance.N <= exportsUpTo)
 }
 
-func (p *plans) postWith(pl solver.Plan, res solver.Result, j *format.PlanJSON, exports bool) {
+func (p *plans) postWith(pl solver.Plan, res solver.Result, j *format.PlanReport, exports bool) {
 	if j == nil {
-		pj := p.d.PlanJSON(p.obj, pl, &res)
+		pj := p.d.PlanReport(p.obj, pl, &res)
 		j = &pj
 	}
 	if !exports {
@@ -280,7 +280,7 @@ func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, o app.Ru
 			pl.flush()
 			pl.iters = p.Iteration
 			e.send(progressMsg{Type: "progress", Run: r.id, Iterations: p.Iteration, Elapsed: p.Elapsed.Seconds(),
-				BestCost: in.Float(p.BestCost), Feasible: p.Feasible, Weights: p.Weights})
+				BestCost: in.InputUnits(p.BestCost), Feasible: p.Feasible, Weights: p.Weights})
 		},
 		OnExplaining: func() {
 			pl.mu.Lock()
@@ -303,7 +303,7 @@ func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, o app.Ru
 	if res.Best.Route != nil {
 		// The last word on the best plan, as `solve --format json` has it.
 		pl.postWith(res.Best, res, &out.Plan, true)
-		c := in.Float(res.Best.Cost)
+		c := in.InputUnits(res.Best.Cost)
 		fin.BestCost = &c
 	}
 	e.send(fin)
@@ -372,7 +372,7 @@ func (e *Engine) boundSide(ctx context.Context, r *run, d *format.Dataset, s sol
 	}
 	msg := boundMsg{Type: "bound", Run: r.id, Infeasible: b.Infeasible}
 	if b.Valid {
-		lb := in.Float(b.Value)
+		lb := in.InputUnits(b.Value)
 		msg.LowerBound, msg.Method = &lb, b.Method
 		if incOK && b.Value >= incCost {
 			msg.ProvenOptimal = true
@@ -383,7 +383,7 @@ func (e *Engine) boundSide(ctx context.Context, r *run, d *format.Dataset, s sol
 		// No plan meets every window (proven, or none found in the
 		// budget): say why, within the explanation's share.
 		e.send(progressMsg{Type: "progress", Run: r.id, Elapsed: time.Since(r.start).Seconds(), Explaining: true})
-		var j format.PlanJSON
+		var j format.PlanReport
 		app.Explain(ctx, &j, d, app.ExplainLimit(s.Budget))
 		msg.Conflict, msg.Reason = j.Conflict, j.Reason
 	}

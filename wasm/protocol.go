@@ -162,7 +162,7 @@ type (
 	planMsg struct {
 		Type string `json:"type"`
 		Run  int    `json:"run"`
-		Plan any    `json:"plan"` // a format.PlanJSON, or its JSON export as is
+		Plan any    `json:"plan"` // a format.PlanReport, or its JSON export as is
 		CSV  string `json:"csv,omitempty"`
 		JSON string `json:"json,omitempty"`
 	}
@@ -284,7 +284,7 @@ func SummariseDataset(d *format.Dataset) Summary {
 	in := d.Instance
 	s := Summarise(in)
 	s.Warnings = []InputError{}
-	dayStart, dayEnd := in.Round(s.DayStart), in.Round(s.DayEnd)
+	dayStart, dayEnd := in.InternalUnits(s.DayStart), in.InternalUnits(s.DayEnd)
 	s.DayStartText, s.DayEndText = d.FormatTime(dayStart), d.FormatTime(dayEnd)
 	s.Travel = d.Travel
 	for _, w := range d.Warnings {
@@ -324,7 +324,7 @@ func Summarise(in *solver.Instance) Summary {
 			dayEnd = in.Late[i]
 		}
 	}
-	s.DayStart, s.DayEnd = in.Float(dayStart), in.Float(dayEnd)
+	s.DayStart, s.DayEnd = in.InputUnits(dayStart), in.InputUnits(dayEnd)
 	day := float64(dayEnd - dayStart)
 	var sumShare float64
 	finite := 0
@@ -343,8 +343,8 @@ func Summarise(in *solver.Instance) Summary {
 		if day > 0 {
 			sumShare += math.Min(1, float64(w)/day)
 		}
-		s.NarrowestWindow = math.Min(s.NarrowestWindow, in.Float(w))
-		s.WidestWindow = math.Max(s.WidestWindow, in.Float(w))
+		s.NarrowestWindow = math.Min(s.NarrowestWindow, in.InputUnits(w))
+		s.WidestWindow = math.Max(s.WidestWindow, in.InputUnits(w))
 	}
 	if finite > 0 {
 		s.Tightness = sumShare / float64(finite)

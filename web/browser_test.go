@@ -437,7 +437,7 @@ func TestPageExampleRunTimelineTableExport(t *testing.T) {
 	require.NoError(t, err)
 	require.NoError(t, solver.CheckRoute(in, p.Route))
 	sch := solver.Evaluate(in, p.Route)
-	assert.InDelta(t, in.Float(sch.Travel), p.Cost, 1e-9)
+	assert.InDelta(t, in.InputUnits(sch.Travel), p.Cost, 1e-9)
 
 	visits := eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=timeline] [data-visit]')].map(e => e.dataset.visit)`)
 	assert.Equal(t, p.RouteIDs, visits, "one timeline row per visit, in route order")

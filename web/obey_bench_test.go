@@ -251,7 +251,7 @@ func TestBenchBrowser(t *testing.T) {
 		reached := -1.0
 		t0 := time.Now()
 		app.Run(nctx, d, app.RunOptions{Budget: limit, Seed: 1, Workers: 1}, app.Hooks{OnImprove: func(p solver.Plan) {
-			if p.Feasible && d.Instance.Float(p.Cost) <= target+1e-9 && reached < 0 {
+			if p.Feasible && d.Instance.InputUnits(p.Cost) <= target+1e-9 && reached < 0 {
 				reached = time.Since(t0).Seconds()
 				cancel()
 			}

@@ -409,7 +409,7 @@ func TestPageTwoSearchWorkers(t *testing.T) {
 	require.NoError(t, solver.CheckRoute(in, route))
 	sch := solver.Evaluate(in, route)
 	assert.Equal(t, sch.Feasible, plan["feasible"])
-	assert.InDelta(t, in.Float(sch.Cost(solver.TravelTime)), plan["cost"].(float64), 1e-9)
+	assert.InDelta(t, in.InputUnits(sch.Cost(solver.TravelTime)), plan["cost"].(float64), 1e-9)
 	// The best of either: no worker's best is better than the plan shown.
 	for _, w := range workers {
 		if c, ok := w.(map[string]any)["best_cost"].(float64); ok && sch.Feasible {

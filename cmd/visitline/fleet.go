@@ -146,7 +146,7 @@ func solveFleet(path string, f *solveFlags, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	j := fd.PlanJSON(obj, minVeh, &res)
+	j := fd.PlanReport(obj, minVeh, &res)
 	if f.format == "json" {
 		return format.WriteFleetJSON(stdout, j)
 	}

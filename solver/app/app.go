@@ -145,7 +145,7 @@ type Hooks struct {
 type Outcome struct {
 	Result solver.Result
 	Bound  bound.Bound
-	Plan   format.PlanJSON
+	Plan   format.PlanReport
 	Why    solver.Stop
 	// Note is a plain sentence for the user when the run did less than
 	// asked (the budget was too short for a first plan); "" otherwise.
@@ -173,7 +173,7 @@ func Run(ctx context.Context, d *format.Dataset, o RunOptions, h Hooks) (Outcome
 	}
 	res := out.Result
 	out.Why = res.Stop
-	out.Plan = d.PlanJSON(s.Objective, res.Best, &res)
+	out.Plan = d.PlanReport(s.Objective, res.Best, &res)
 	if !o.NoBound {
 		fillBound(&out.Plan, in, out.Bound, res.Best)
 		if !res.Best.Feasible && ctx.Err() == nil {
@@ -206,10 +206,10 @@ func ExplainLimit(budget time.Duration) time.Duration {
 }
 
 // fillBound adds the bound side's verdict to the plan's JSON.
-func fillBound(j *format.PlanJSON, in *solver.Instance, b bound.Bound, best solver.Plan) {
+func fillBound(j *format.PlanReport, in *solver.Instance, b bound.Bound, best solver.Plan) {
 	r := bound.ReportFor(b, best)
 	if r.HasBound {
-		lb := in.Float(r.LowerBound)
+		lb := in.InputUnits(r.LowerBound)
 		j.LowerBound = &lb
 	}
 	if r.HasGap {
@@ -221,7 +221,7 @@ func fillBound(j *format.PlanJSON, in *solver.Instance, b bound.Bound, best solv
 
 // Explain says in j why a day with no feasible plan is infeasible (its
 // conflict and reason), in the file's own times, within limit.
-func Explain(ctx context.Context, j *format.PlanJSON, d *format.Dataset, limit time.Duration) {
+func Explain(ctx context.Context, j *format.PlanReport, d *format.Dataset, limit time.Duration) {
 	ctx, cancel := context.WithTimeout(ctx, limit)
 	defer cancel()
 	dur := d.FormatDuration

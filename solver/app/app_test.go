@@ -63,7 +63,7 @@ func TestRunIsTheEngine(t *testing.T) {
 	assert.Equal(t, solver.StopIterations, out.Why)
 	sch := solver.Evaluate(d.Instance, out.Result.Best.Route)
 	assert.Equal(t, sch.Feasible, out.Plan.Feasible)
-	assert.InDelta(t, d.Instance.Float(sch.Cost(solver.TravelTime)), out.Plan.Cost, 1e-9)
+	assert.InDelta(t, d.Instance.InputUnits(sch.Cost(solver.TravelTime)), out.Plan.Cost, 1e-9)
 	assert.Empty(t, out.Note)
 }
 

@@ -125,7 +125,7 @@ func TestBoundReport(t *testing.T) {
 		if cpu {
 			el = (processCPU() - startCPU).Seconds()
 		}
-		lb := in.Float(b.Value)
+		lb := in.InputUnits(b.Value)
 		require.LessOrEqual(t, lb, k.best+0.01, "%s/%s: bound above best-known (%s)", k.family, k.instance, b.Method)
 		gap := 100 * (k.best - lb) / math.Max(lb, 1e-9)
 		if gap < 0 {
@@ -133,10 +133,10 @@ func TestBoundReport(t *testing.T) {
 		}
 		gapInc := math.NaN()
 		if b.Route != nil {
-			gapInc = 100 * (in.Float(b.Cost) - lb) / math.Max(lb, 1e-9)
+			gapInc = 100 * (in.InputUnits(b.Cost) - lb) / math.Max(lb, 1e-9)
 		}
 		if b.ProvenOptimal {
-			require.InDelta(t, k.best, in.Float(b.Cost), 0.011, "%s/%s: proven optimum differs from best-known (%s)", k.family, k.instance, k.source)
+			require.InDelta(t, k.best, in.InputUnits(b.Cost), 0.011, "%s/%s: proven optimum differs from best-known (%s)", k.family, k.instance, k.source)
 		}
 		// One summary per family and one per family and size.
 		for _, key := range []string{k.family, fmt.Sprintf("%s n=%d", k.family, in.N)} {
@@ -156,7 +156,7 @@ func TestBoundReport(t *testing.T) {
 			s.sec += el
 		}
 		fmt.Printf("%-22s %-18s n=%3d best=%8.2f lb=%8.2f (%-11s) route=%8.2f gap=%6.2f%% proven=%-5v %5.2fs labels=%d %s\n",
-			k.family, k.instance, in.N, k.best, lb, b.Method, in.Float(b.Cost), gap, b.ProvenOptimal, el, b.Labels, strings.Join(b.Notes, "; "))
+			k.family, k.instance, in.N, k.best, lb, b.Method, in.InputUnits(b.Cost), gap, b.ProvenOptimal, el, b.Labels, strings.Join(b.Notes, "; "))
 		_ = gapInc
 	}
 	for _, f := range order {
@@ -184,7 +184,7 @@ func BenchmarkExact(b *testing.B) {
 	in := loadBench(b, k)
 	for b.Loop() {
 		r := Exact(context.Background(), in, Options{})
-		if !r.ProvenOptimal || in.Float(r.Cost) != k.best {
+		if !r.ProvenOptimal || in.InputUnits(r.Cost) != k.best {
 			b.Fatalf("not proven: %+v", r.Notes)
 		}
 	}

@@ -414,7 +414,7 @@ func widening(ctx context.Context, in *solver.Instance, v int) (by int64, exact,
 
 // reason writes the explanation as plain sentences with site names.
 func reason(in *solver.Instance, ex Explanation, eo ExplainOptions) string {
-	plain := func(v int64) string { return strconv.FormatFloat(in.Float(v), 'f', -1, 64) }
+	plain := func(v int64) string { return strconv.FormatFloat(in.InputUnits(v), 'f', -1, 64) }
 	ft, fd, name := eo.FormatTime, eo.FormatDuration, eo.Name
 	if ft == nil {
 		ft = plain

@@ -28,18 +28,18 @@ func TestBoundsBelowBestKnown(t *testing.T) {
 		src := "best-known.csv: " + k.source
 		require.True(t, b.Valid, "%s/%s: a bound", k.family, k.instance)
 		require.False(t, b.Infeasible, "%s/%s is feasible (%s)", k.family, k.instance, src)
-		require.LessOrEqual(t, in.Float(b.Value), k.best+0.01, "%s/%s: bound by %s above best-known (%s)", k.family, k.instance, b.Method, src)
+		require.LessOrEqual(t, in.InputUnits(b.Value), k.best+0.01, "%s/%s: bound by %s above best-known (%s)", k.family, k.instance, b.Method, src)
 		if b.HasAssignment {
-			require.LessOrEqual(t, in.Float(b.Assignment), k.best+0.01, "%s/%s: assignment bound (%s)", k.family, k.instance, src)
+			require.LessOrEqual(t, in.InputUnits(b.Assignment), k.best+0.01, "%s/%s: assignment bound (%s)", k.family, k.instance, src)
 		}
 		if b.HasStateSpace {
-			require.LessOrEqual(t, in.Float(b.StateSpace), k.best+0.01, "%s/%s: state-space bound (%s)", k.family, k.instance, src)
+			require.LessOrEqual(t, in.InputUnits(b.StateSpace), k.best+0.01, "%s/%s: state-space bound (%s)", k.family, k.instance, src)
 		}
 		require.NotNil(t, b.Route, "%s/%s: a feasible route", k.family, k.instance)
-		require.GreaterOrEqual(t, in.Float(b.Cost), k.best-0.01, "%s/%s: a route below best-known would be news (%s)", k.family, k.instance, src)
+		require.GreaterOrEqual(t, in.InputUnits(b.Cost), k.best-0.01, "%s/%s: a route below best-known would be news (%s)", k.family, k.instance, src)
 		if b.ProvenOptimal {
 			proven++
-			require.InDelta(t, k.best, in.Float(b.Cost), 0.011, "%s/%s: proven optimum (%s)", k.family, k.instance, src)
+			require.InDelta(t, k.best, in.InputUnits(b.Cost), 0.011, "%s/%s: proven optimum (%s)", k.family, k.instance, src)
 		}
 	}
 	// Families of large instances only (OhlmannThomas, 151–201 nodes): the
@@ -53,7 +53,7 @@ func TestBoundsBelowBestKnown(t *testing.T) {
 		b := Lower(context.Background(), in, Options{Iterations: 6, StateLabels: 2})
 		src := "best-known.csv: " + k.source
 		require.True(t, b.Valid, "%s/%s: a bound", k.family, k.instance)
-		require.LessOrEqual(t, in.Float(b.Value), k.best+0.01, "%s/%s: bound by %s above best-known (%s)", k.family, k.instance, b.Method, src)
+		require.LessOrEqual(t, in.InputUnits(b.Value), k.best+0.01, "%s/%s: bound by %s above best-known (%s)", k.family, k.instance, b.Method, src)
 	}
 	require.Len(t, perFamily, 6, "every family sampled")
 	require.GreaterOrEqual(t, proven, 12, "most small instances are proven optimal")

@@ -79,8 +79,9 @@ func (p *Problem) ID(i int) string {
 	return fmt.Sprint(i)
 }
 
-// Float converts an internal value to input units.
-func (p *Problem) Float(v int64) float64 {
+// InputUnits converts an internal value to input units (minutes for a
+// sites file, the file's own unit for a benchmark file).
+func (p *Problem) InputUnits(v int64) float64 {
 	if p.Scale <= 1 {
 		return float64(v)
 	}

@@ -11,7 +11,7 @@ import (
 	"visitline/solver"
 )
 
-// Claims are the figures a plan's JSON states (see PlanJSON). A check
+// Claims are the figures a plan's JSON states (see PlanReport). A check
 // recomputes every one of them from the data and the route; fields the
 // JSON leaves out are not compared.
 type Claims struct {
@@ -151,7 +151,7 @@ func (d *Dataset) CompareClaims(c *Claims, s solver.Schedule) []Mismatch {
 		if claimed == nil {
 			return
 		}
-		if r := in.Float(v); math.IsNaN(*claimed) || math.Abs(*claimed-r) > tol {
+		if r := in.InputUnits(v); math.IsNaN(*claimed) || math.Abs(*claimed-r) > tol {
 			out = append(out, Mismatch{what, num(*claimed), num(r)})
 		}
 	}
@@ -203,7 +203,7 @@ func (d *Dataset) CompareClaims(c *Claims, s solver.Schedule) []Mismatch {
 	case c.Return != nil && c.Schedule != nil:
 		out = append(out, Mismatch{"return to the start", "a return", "none: the route is " + in.Shape.String()})
 	case c.Return == nil && hasReturn && c.Schedule != nil:
-		out = append(out, Mismatch{"return to the start", "none", "a return at " + num(in.Float(s.Return.Arrival))})
+		out = append(out, Mismatch{"return to the start", "none", "a return at " + num(in.InputUnits(s.Return.Arrival))})
 	}
 	return out
 }

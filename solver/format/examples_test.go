@@ -152,7 +152,7 @@ func TestExamplesSolveEndToEnd(t *testing.T) {
 				assert.False(t, p.Feasible)
 				assert.Positive(t, chk.LateVisits)
 			}
-			j := d.PlanJSON(solver.TravelTime, p, &res)
+			j := d.PlanReport(solver.TravelTime, p, &res)
 			var out bytes.Buffer
 			require.NoError(t, WriteJSON(&out, j))
 			require.NoError(t, WriteCSV(&out, in, j))

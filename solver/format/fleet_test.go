@@ -221,7 +221,7 @@ func TestFleetPlanJSONContract(t *testing.T) {
 	require.NoError(t, err)
 	res, err := fleet.Solve(context.Background(), fd.Problem, fleet.Settings{Iterations: 300, Seed: 1})
 	require.NoError(t, err)
-	j := fd.PlanJSON(0, false, &res)
+	j := fd.PlanReport(0, false, &res)
 	data, err := json.Marshal(j)
 	require.NoError(t, err)
 	var m map[string]any

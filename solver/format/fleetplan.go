@@ -51,10 +51,10 @@ type UnservedJSON struct {
 	Why    string `json:"why"`
 }
 
-// FleetPlanJSON is the JSON form of a fleet plan: the contract of
+// FleetPlanReport is the JSON form of a fleet plan: the contract of
 // `solve --format json` on a fleet day. Routes come in the vehicles'
 // order, one per vehicle used.
-type FleetPlanJSON struct {
+type FleetPlanReport struct {
 	Instance  string `json:"instance,omitempty"`
 	Objective string `json:"objective"`
 	// MinimizeVehicles says whether the vehicles used came before the cost.
@@ -91,12 +91,12 @@ type FleetPlanJSON struct {
 	Warnings      []string `json:"warnings,omitempty"`
 }
 
-// PlanJSON converts a fleet result for output.
-func (d *FleetDataset) PlanJSON(obj solver.Objective, minVeh bool, res *fleet.Result) FleetPlanJSON {
+// PlanReport converts a fleet result for output.
+func (d *FleetDataset) PlanReport(obj solver.Objective, minVeh bool, res *fleet.Result) FleetPlanReport {
 	p := d.Problem
-	f := p.Float
+	f := p.InputUnits
 	rep := res.Report
-	j := FleetPlanJSON{Instance: p.Name, Objective: obj.String(), MinimizeVehicles: minVeh, Cost: f(rep.Cost(obj)), Feasible: rep.Feasible,
+	j := FleetPlanReport{Instance: p.Name, Objective: obj.String(), MinimizeVehicles: minVeh, Cost: f(rep.Cost(obj)), Feasible: rep.Feasible,
 		Vehicles: len(p.Vehicles), VehiclesUsed: rep.VehiclesUsed, Routes: []FleetRouteJSON{}, Unserved: []int{}, UnservedIDs: []string{},
 		UnservedWhy: []UnservedJSON{}, UnservedPriority: rep.UnservedWeight,
 		Iterations: res.Iterations, Seconds: res.Elapsed.Seconds(), SecondsToBest: res.ToBest.Seconds(), Improvements: len(res.Trace)}
@@ -173,7 +173,7 @@ func (d *FleetDataset) PlanJSON(obj solver.Objective, minVeh bool, res *fleet.Re
 }
 
 // WriteFleetJSON writes a fleet plan as one indented JSON object.
-func WriteFleetJSON(w io.Writer, j FleetPlanJSON) error {
+func WriteFleetJSON(w io.Writer, j FleetPlanReport) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	return enc.Encode(j)
@@ -181,7 +181,7 @@ func WriteFleetJSON(w io.Writer, j FleetPlanJSON) error {
 
 // WriteFleetTable writes a fleet plan for reading: a summary, then one
 // block per vehicle used, then the unserved visits with their reasons.
-func WriteFleetTable(w io.Writer, j FleetPlanJSON) error {
+func WriteFleetTable(w io.Writer, j FleetPlanReport) error {
 	unit := ""
 	if j.Unit != "" {
 		unit = " " + j.Unit

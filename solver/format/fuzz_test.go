@@ -115,7 +115,7 @@ func FuzzLoad(f *testing.F) {
 		}
 		s := solver.Evaluate(in, route)
 		p := solver.Plan{Route: route, Schedule: s, Cost: s.Travel, Feasible: s.Feasible}
-		j := d.PlanJSON(solver.TravelTime, p, nil)
+		j := d.PlanReport(solver.TravelTime, p, nil)
 		var b bytes.Buffer
 		require.NoError(t, WriteJSON(&b, j))
 		// The plan's own JSON passes check: every figure recomputes.

@@ -228,7 +228,7 @@ func TestFoldLongUTF8(t *testing.T) {
 
 func TestPlanJSONClockFields(t *testing.T) {
 	d := icsDataset(t)
-	j := d.PlanJSON(solver.TravelTime, planOf(d, []int{0, 1, 2, 3}), nil)
+	j := d.PlanReport(solver.TravelTime, planOf(d, []int{0, 1, 2, 3}), nil)
 	assert.Equal(t, "min", j.Unit)
 	assert.Equal(t, "clock", j.Times)
 	assert.Equal(t, "00:00", j.TimeOrigin)
@@ -249,7 +249,7 @@ func TestPlanJSONClockFields(t *testing.T) {
 
 func TestWriteCSVClockTimes(t *testing.T) {
 	d := icsDataset(t)
-	j := d.PlanJSON(solver.TravelTime, planOf(d, []int{0, 1, 2, 3}), nil)
+	j := d.PlanReport(solver.TravelTime, planOf(d, []int{0, 1, 2, 3}), nil)
 	var buf bytes.Buffer
 	require.NoError(t, WriteCSV(&buf, d.Instance, j))
 	recs, err := csv.NewReader(&buf).ReadAll()
@@ -271,7 +271,7 @@ func TestWriteTableDatedOneDay(t *testing.T) {
 	d, err := Load(strings.NewReader(src), nil, Options{Speed: 60})
 	require.NoError(t, err)
 	var buf bytes.Buffer
-	require.NoError(t, WriteTable(&buf, d.PlanJSON(solver.TravelTime, planOf(d, []int{0, 1}), nil)))
+	require.NoError(t, WriteTable(&buf, d.PlanReport(solver.TravelTime, planOf(d, []int{0, 1}), nil)))
 	out := buf.String()
 	assert.Contains(t, out, "date 2026-12-03\n")
 	assert.Contains(t, out, "[09:00, 10:00]")

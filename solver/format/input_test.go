@@ -201,7 +201,7 @@ func TestOpenBoundIsNull(t *testing.T) {
 	s := solver.Evaluate(in, route)
 	p := solver.Plan{Route: route, Schedule: s, Cost: s.Travel, Feasible: s.Feasible}
 	var buf bytes.Buffer
-	require.NoError(t, WriteJSON(&buf, d.PlanJSON(solver.TravelTime, p, nil)))
+	require.NoError(t, WriteJSON(&buf, d.PlanReport(solver.TravelTime, p, nil)))
 	var j struct {
 		Schedule []map[string]any `json:"schedule"`
 		Return   map[string]any   `json:"return"`
@@ -236,9 +236,9 @@ func TestOpenBoundIsNull(t *testing.T) {
 	}
 	// The CSV and the table write the open bound as "open".
 	var csvOut, table bytes.Buffer
-	require.NoError(t, WriteCSV(&csvOut, in, d.PlanJSON(solver.TravelTime, p, nil)))
+	require.NoError(t, WriteCSV(&csvOut, in, d.PlanReport(solver.TravelTime, p, nil)))
 	assert.Contains(t, csvOut.String(), "2,B,,09:06,09:06,0,09:11,00:00,open,open,0")
-	require.NoError(t, WriteTable(&table, d.PlanJSON(solver.TravelTime, p, nil)))
+	require.NoError(t, WriteTable(&table, d.PlanReport(solver.TravelTime, p, nil)))
 	assert.Contains(t, table.String(), "[00:00, open]")
 }
 
@@ -259,7 +259,7 @@ func TestHugeServiceIsNotOpen(t *testing.T) {
 	s := solver.Evaluate(d.Instance, []int{0, 1})
 	p := solver.Plan{Route: []int{0, 1}, Schedule: s, Cost: s.Travel, Feasible: s.Feasible}
 	var table bytes.Buffer
-	require.NoError(t, WriteTable(&table, d.PlanJSON(solver.TravelTime, p, nil)))
+	require.NoError(t, WriteTable(&table, d.PlanReport(solver.TravelTime, p, nil)))
 	assert.NotContains(t, table.String(), "LATE by open")
 	assert.Contains(t, table.String(), "LATE by 99999999401")
 }
@@ -400,7 +400,7 @@ func TestCSVCellsCannotRun(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			j := PlanJSON{Unit: "min", Schedule: []PlanVisit{{ID: "A", Name: c.name, Slack: fptr(-5), Lateness: 5}}}
+			j := PlanReport{Unit: "min", Schedule: []PlanVisit{{ID: "A", Name: c.name, Slack: fptr(-5), Lateness: 5}}}
 			var b bytes.Buffer
 			require.NoError(t, WriteCSV(&b, nil, j))
 			row := strings.Split(b.String(), "\n")[1]
@@ -410,7 +410,7 @@ func TestCSVCellsCannotRun(t *testing.T) {
 	}
 	// ids too.
 	var b bytes.Buffer
-	require.NoError(t, WriteCSV(&b, nil, PlanJSON{Schedule: []PlanVisit{{ID: "=1+1"}}}))
+	require.NoError(t, WriteCSV(&b, nil, PlanReport{Schedule: []PlanVisit{{ID: "=1+1"}}}))
 	assert.Contains(t, b.String(), "\n0,'=1+1,")
 }
 
@@ -424,7 +424,7 @@ func TestTableEscapesControlCharacters(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			j := PlanJSON{Instance: c.text, Unit: "min", Schedule: []PlanVisit{{ID: c.text, Name: c.text}}}
+			j := PlanReport{Instance: c.text, Unit: "min", Schedule: []PlanVisit{{ID: c.text, Name: c.text}}}
 			var b bytes.Buffer
 			require.NoError(t, WriteTable(&b, j))
 			out := b.String()

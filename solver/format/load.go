@@ -91,7 +91,7 @@ func (d *Dataset) Name(i int) string {
 // FormatTime writes an internal time as the input wrote its times.
 func (d *Dataset) FormatTime(v int64) string {
 	if d.Unit == "" {
-		return fnum(d.Instance.Float(v))
+		return fnum(d.Instance.InputUnits(v))
 	}
 	return d.Time.Format(v)
 }
@@ -99,7 +99,7 @@ func (d *Dataset) FormatTime(v int64) string {
 // FormatDuration writes an internal duration in the input's unit.
 func (d *Dataset) FormatDuration(v int64) string {
 	if d.Unit == "" {
-		return fnum(d.Instance.Float(v))
+		return fnum(d.Instance.InputUnits(v))
 	}
 	return FormatMinutes(v)
 }

@@ -44,9 +44,10 @@ type Late struct {
 	By   float64 `json:"by"`
 }
 
-// PlanJSON is the JSON form of a plan: the contract of `solve --format json`
-// and the input of `check`.
-type PlanJSON struct {
+// PlanReport is a plan as every writer reports it: its fields are the
+// contract of `solve --format json` and the input of `check`, and the CSV
+// and table writers print from it too.
+type PlanReport struct {
 	Instance  string   `json:"instance,omitempty"`
 	Objective string   `json:"objective"`
 	Cost      float64  `json:"cost"`
@@ -95,10 +96,10 @@ type PlanJSON struct {
 	Warnings []string `json:"warnings,omitempty"`
 }
 
-// NewPlanJSON converts a plan of in (and the run's statistics) for output.
-func NewPlanJSON(in *solver.Instance, obj solver.Objective, p solver.Plan, res *solver.Result) PlanJSON {
-	f := in.Float
-	j := PlanJSON{Instance: in.Name, Objective: obj.String(), Cost: f(p.Cost), Feasible: p.Feasible,
+// NewPlanReport converts a plan of in (and the run's statistics) for output.
+func NewPlanReport(in *solver.Instance, obj solver.Objective, p solver.Plan, res *solver.Result) PlanReport {
+	f := in.InputUnits
+	j := PlanReport{Instance: in.Name, Objective: obj.String(), Cost: f(p.Cost), Feasible: p.Feasible,
 		Route: append([]int(nil), p.Route...), Travel: f(p.Schedule.Travel), Completion: f(p.Schedule.Completion),
 		TotalLateness: f(p.Schedule.TotalLateness), Late: []Late{}, FoundBy: p.Operator, SecondsToBest: p.Elapsed.Seconds()}
 	for _, v := range p.Route {
@@ -133,11 +134,11 @@ func NewPlanJSON(in *solver.Instance, obj solver.Objective, p solver.Plan, res *
 	return j
 }
 
-// PlanJSON converts a plan of d's instance for output, with site names,
+// PlanReport converts a plan of d's instance for output, with site names,
 // clock times and the dataset's warnings.
-func (d *Dataset) PlanJSON(obj solver.Objective, p solver.Plan, res *solver.Result) PlanJSON {
+func (d *Dataset) PlanReport(obj solver.Objective, p solver.Plan, res *solver.Result) PlanReport {
 	in := d.Instance
-	j := NewPlanJSON(in, obj, p, res)
+	j := NewPlanReport(in, obj, p, res)
 	for _, w := range d.Warnings {
 		j.Warnings = append(j.Warnings, w.String())
 	}
@@ -175,7 +176,7 @@ func (d *Dataset) PlanJSON(obj solver.Objective, p solver.Plan, res *solver.Resu
 	}
 	if d.At != "" {
 		j.Done, j.At = append([]string{}, d.Done...), d.At
-		now := in.Float(d.Now)
+		now := in.InputUnits(d.Now)
 		j.Now = &now
 		if clock {
 			j.NowClock = d.Time.Format(d.Now)
@@ -185,7 +186,7 @@ func (d *Dataset) PlanJSON(obj solver.Objective, p solver.Plan, res *solver.Resu
 }
 
 // WriteJSON writes the plan as one indented JSON object.
-func WriteJSON(w io.Writer, j PlanJSON) error {
+func WriteJSON(w io.Writer, j PlanReport) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	return enc.Encode(j)
@@ -197,7 +198,7 @@ var CSVHeader = []string{"order", "site", "name", "arrival", "start", "wait", "d
 // WriteCSV writes one row per visit (and the return of a closed tour). Times
 // are clock times where the sites file had them; durations are in the
 // input's unit (minutes for sites files, rounded to two decimals).
-func WriteCSV(w io.Writer, in *solver.Instance, j PlanJSON) error {
+func WriteCSV(w io.Writer, in *solver.Instance, j PlanReport) error {
 	cw := csv.NewWriter(w)
 	if err := cw.Write(CSVHeader); err != nil {
 		return err
@@ -225,7 +226,7 @@ func WriteCSV(w io.Writer, in *solver.Instance, j PlanJSON) error {
 }
 
 // times are arrival, start, departure, earliest and latest as written.
-func (v PlanVisit) times(j PlanJSON) [5]string {
+func (v PlanVisit) times(j PlanReport) [5]string {
 	if v.StartClock != "" {
 		latest := v.LatestClock
 		if v.Latest == nil {
@@ -237,7 +238,7 @@ func (v PlanVisit) times(j PlanJSON) [5]string {
 }
 
 // durOpen writes a bound that may be absent: "open" when it is.
-func (j PlanJSON) durOpen(v *float64) string {
+func (j PlanReport) durOpen(v *float64) string {
 	if v == nil {
 		return "open"
 	}
@@ -273,7 +274,7 @@ func CSVCell(s string) string {
 
 // dur writes a number of the plan's unit: minutes of a sites file rounded
 // to two decimals, benchmark units as they are.
-func (j PlanJSON) dur(v float64) string {
+func (j PlanReport) dur(v float64) string {
 	if j.Unit != "min" {
 		return fnum(v)
 	}
@@ -281,7 +282,7 @@ func (j PlanJSON) dur(v float64) string {
 }
 
 // WriteTable writes a plain-text table for a terminal.
-func WriteTable(w io.Writer, j PlanJSON) error {
+func WriteTable(w io.Writer, j PlanReport) error {
 	var b strings.Builder
 	status := "all windows met"
 	if !j.Feasible {
@@ -372,7 +373,7 @@ func WriteTable(w io.Writer, j PlanJSON) error {
 }
 
 // completion writes the end time as the schedule's times are written.
-func completion(j PlanJSON) string {
+func completion(j PlanReport) string {
 	if n := len(j.Schedule); n > 0 && j.Schedule[0].StartClock != "" {
 		if j.Return != nil {
 			return j.Return.ArrivalClock

@@ -233,7 +233,7 @@ func (d *FleetDataset) Name(i int) string {
 // FormatTime writes an internal time as the input wrote its times.
 func (d *FleetDataset) FormatTime(v int64) string {
 	if d.Unit == "" {
-		return fnum(d.Problem.Float(v))
+		return fnum(d.Problem.InputUnits(v))
 	}
 	return d.Time.Format(v)
 }
@@ -241,7 +241,7 @@ func (d *FleetDataset) FormatTime(v int64) string {
 // FormatDuration writes an internal duration in the input's unit.
 func (d *FleetDataset) FormatDuration(v int64) string {
 	if d.Unit == "" {
-		return fnum(d.Problem.Float(v))
+		return fnum(d.Problem.InputUnits(v))
 	}
 	return FormatMinutes(v)
 }

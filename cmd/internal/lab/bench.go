@@ -174,8 +174,8 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 				}
 				// Seconds from the call, preprocessing included
 				// (Plan.Elapsed starts after it).
-				trace = append(trace, [2]float64{time.Since(called).Seconds(), in.Float(p.Cost)})
-				if hasBK && row.CPUToBestKnown < 0 && atBestKnown(in.Float(p.Cost), bk.value, in.Scale) {
+				trace = append(trace, [2]float64{time.Since(called).Seconds(), in.InputUnits(p.Cost)})
+				if hasBK && row.CPUToBestKnown < 0 && atBestKnown(in.InputUnits(p.Cost), bk.value, in.Scale) {
 					if cpu0 >= 0 {
 						row.CPUToBestKnown = processCPU() - cpu0
 					}
@@ -208,7 +208,7 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 			chk := solver.Evaluate(in, res.Best.Route)
 			row.Checked = solver.CheckRoute(in, res.Best.Route) == nil && chk.Feasible == res.Best.Feasible && chk.Cost(solver.TravelTime) == res.Best.Cost
 			row.Feasible = chk.Feasible && row.Checked
-			row.Found = in.Float(chk.Travel)
+			row.Found = in.InputUnits(chk.Travel)
 			row.SecondsToBest = res.Best.Elapsed.Seconds()
 			row.Seconds = wall.Seconds()
 			row.Iterations = res.Iterations

@@ -159,7 +159,7 @@ func benchFleet(files []string, o fleetBenchOptions, stdout io.Writer) error {
 			row.Checked = err == nil && rep.Feasible && rep.Value(0) == res.Value
 			row.Served = row.Customers - len(rep.Unserved)
 			row.Vehicles = rep.VehiclesUsed
-			row.Distance = p.Float(rep.Travel)
+			row.Distance = p.InputUnits(rep.Travel)
 			if bk, ok := known[strings.ToLower(name)]; ok {
 				row.HasBK, row.BKVehicles, row.BKDistance = true, bk.vehicles, bk.distance
 				row.GapPct = 100 * (row.Distance - bk.distance) / bk.distance
