@@ -73,12 +73,12 @@ func parseDecimal(s string, commaDecimal bool) (decimal, bool) {
 		t = t[1:]
 	}
 	buf := make([]byte, 0, len(t))
-	dot, any := false, false
+	dot, digit := false, false
 	for i := 0; i < len(t); i++ {
 		c := t[i]
 		switch {
 		case c >= '0' && c <= '9':
-			any = true
+			digit = true
 			if dot {
 				d.frac++
 			}
@@ -91,7 +91,7 @@ func parseDecimal(s string, commaDecimal bool) (decimal, bool) {
 			return decimal{}, false
 		}
 	}
-	if !any {
+	if !digit {
 		return decimal{}, false
 	}
 	d.digits = string(buf)
