@@ -18,6 +18,11 @@ type search struct {
 	// scratch
 	removed []int32
 	keep    []int32
+	rem     []int32 // repairInsert's visits still to place
+	ins     []int32 // repairInsert's next order
+	cs      []ranked
+	taken   []bool
+	perm    []int
 	inRem   []bool
 
 	// statistics per destroy operator
@@ -83,7 +88,8 @@ func (s *search) destroy(x *route, op int, q int) int {
 	}
 	switch Operators[op] {
 	case "random":
-		perm := s.rng.Perm(k)
+		perm := permInto(s.rng, s.perm[:0], k)
+		s.perm = perm
 		for _, p := range perm[:q] {
 			s.removed = append(s.removed, r[1+p])
 		}
@@ -93,7 +99,7 @@ func (s *search) destroy(x *route, op int, q int) int {
 		at = a
 	case "related":
 		seed := r[1+s.rng.Intn(k)]
-		cs := make([]ranked, 0, k)
+		cs := s.cs[:0]
 		for _, v := range r[1 : len(r)-1] {
 			if v != seed {
 				cs = append(cs, ranked{v, s.relatedness(seed, v)})
@@ -101,31 +107,55 @@ func (s *search) destroy(x *route, op int, q int) int {
 		}
 		s.removed = append(s.removed, seed)
 		// Randomised pick biased to the most related (Ropke and Pisinger 2006, p = 6).
+		s.cs = cs
 		s.pickBiased(cs, q, 6)
 	case "worst":
-		cs := make([]ranked, 0, k)
+		cs := s.cs[:0]
 		cur := m.value(x.total(), s.lam)
 		for i := 1; i <= k; i++ {
 			sg := join(x.fwd[i-1], x.bwd[i+1], m.arc(r[i-1], r[i+1]))
 			cs = append(cs, ranked{r[i], m.value(sg, s.lam) - cur}) // most saved first
 		}
+		s.cs = cs
 		s.pickBiased(cs, q, 3)
 	}
 	for _, v := range s.removed {
 		s.inRem[v] = true
 	}
 	keep := s.keep[:0]
-	for _, v := range r {
+	first, last := len(r), -1
+	for i, v := range r {
 		if !s.inRem[v] {
 			keep = append(keep, v)
+		} else {
+			first, last = min(first, i), i
 		}
 	}
 	for _, v := range s.removed {
 		s.inRem[v] = false
 	}
 	s.keep = keep
-	x.set(keep)
+	if last < 0 {
+		x.set(keep)
+	} else {
+		x.setShifted(keep, first, len(r)-1-last)
+	}
 	return at
+}
+
+// permInto is rng.Perm(n) written into buf: the same permutation from the
+// same draws, without a new slice each call.
+func permInto(rng *rand.Rand, buf []int, n int) []int {
+	m := buf[:0]
+	for range n {
+		m = append(m, 0)
+	}
+	for i := 0; i < n; i++ {
+		j := rng.Intn(i + 1)
+		m[i] = m[j]
+		m[j] = i
+	}
+	return m
 }
 
 // ranked is a visit with a key, smaller first.
@@ -139,7 +169,11 @@ type ranked struct {
 // large p, yet random.
 func (s *search) pickBiased(cs []ranked, q int, p float64) {
 	sort.Slice(cs, func(a, b int) bool { return cs[a].key < cs[b].key || cs[a].key == cs[b].key && cs[a].v < cs[b].v })
-	taken := make([]bool, len(cs))
+	taken := s.taken[:0]
+	for range cs {
+		taken = append(taken, false)
+	}
+	s.taken = taken
 	for len(s.removed) < q && len(cs) > 0 {
 		idx := int(math.Pow(s.rng.Float64(), p) * float64(len(cs)))
 		for taken[idx] {
@@ -211,7 +245,8 @@ func (s *search) bestInsert(x *route, v int32) (pos int, best, second float64) {
 // repairInsert puts the removed visits back one at a time: greedy (k = 1) or
 // regret-k (k = 2, 3), with multiplicative noise on the costs.
 func (s *search) repairInsert(x *route, regret int, noise float64) {
-	rem := append([]int32(nil), s.removed...)
+	rem := append(s.rem[:0], s.removed...)
+	defer func() { s.rem = rem[:0] }()
 	for len(rem) > 0 {
 		bestIdx, bestPos := -1, -1
 		bestKey := math.Inf(1)
@@ -240,10 +275,10 @@ func (s *search) repairInsert(x *route, regret int, noise float64) {
 		v := rem[bestIdx]
 		rem[bestIdx] = rem[len(rem)-1]
 		rem = rem[:len(rem)-1]
-		b := make([]int32, 0, len(x.r)+1)
-		b = append(b, x.r[:bestPos+1]...)
+		b := append(s.ins[:0], x.r[:bestPos+1]...)
 		b = append(b, v)
 		b = append(b, x.r[bestPos+1:]...)
-		x.set(b)
+		s.ins = b
+		x.setShifted(b, bestPos+1, len(x.r)-bestPos-1)
 	}
 }

@@ -38,6 +38,30 @@ func (x *route) rebuild() {
 	}
 }
 
+// setShifted replaces the order by r when r agrees with the old order on
+// r[:lo] and its last tail entries are the old order's last tail entries
+// (a removal or an insertion between them): the forward summaries before lo
+// and the backward ones of the common tail still hold, the latter moved to
+// their new positions. The result equals set(r). r must not alias x.r.
+func (x *route) setShifted(r []int32, lo, tail int) {
+	k, nk := len(x.r), len(r)
+	if lo < 1 || tail < 1 || len(x.fwd) != k || cap(x.fwd) < nk || lo > min(k, nk) || tail > min(k, nk) {
+		x.set(r)
+		return
+	}
+	x.fwd, x.bwd = x.fwd[:max(k, nk)], x.bwd[:max(k, nk)]
+	copy(x.bwd[nk-tail:nk], x.bwd[k-tail:k])
+	x.fwd, x.bwd = x.fwd[:nk], x.bwd[:nk]
+	x.r = append(x.r[:0], r...)
+	m := x.m
+	for i := lo; i < nk; i++ {
+		x.fwd[i] = join(x.fwd[i-1], m.unit(int(x.r[i])), m.arc(x.r[i-1], x.r[i]))
+	}
+	for i := nk - tail - 1; i >= 0; i-- {
+		x.bwd[i] = join(m.unit(int(x.r[i])), x.bwd[i+1], m.arc(x.r[i], x.r[i+1]))
+	}
+}
+
 // setSpan replaces the order when only positions lo..hi changed: the
 // forward summaries before lo and the backward ones after hi still hold.
 func (x *route) setSpan(r []int32, lo, hi int) {

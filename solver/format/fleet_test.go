@@ -4,7 +4,6 @@ import (
 	"context"
 	"encoding/json"
 	"math"
-	"math/big"
 	"os"
 	"path/filepath"
 	"strings"
@@ -261,21 +260,6 @@ func TestFleetPlanJSONContract(t *testing.T) {
 	require.NoError(t, WriteFleetTable(&b, j))
 	assert.Contains(t, b.String(), "vehicle V1 (Ana)")
 	assert.Contains(t, b.String(), "Z: no vehicle can reach it within its window")
-}
-
-// The integer fast path of the Solomon distances agrees with the exact
-// rational one.
-func TestSqrtUpMatchesRational(t *testing.T) {
-	for dx := int64(-40); dx <= 40; dx += 3 {
-		for dy := int64(-40); dy <= 40; dy += 7 {
-			x1, y1 := new(big.Rat).SetInt64(dx), new(big.Rat).SetInt64(dy)
-			zero := new(big.Rat)
-			half := big.NewRat(1, 2)
-			// The rational path (a half added and taken away) against the fast one.
-			want := euclidUp(new(big.Rat).Add(x1, half), y1, half, zero)
-			assert.Equal(t, want, euclidUp(x1, y1, zero, zero), "%d,%d", dx, dy)
-		}
-	}
 }
 
 func FuzzReadSolomon(f *testing.F) {

@@ -629,7 +629,7 @@ func readPair(r record, s *Sites, fa, fb string, commaDecimal bool, limit float6
 		if !ok {
 			return 0, &cellErr{r.line, col, s.colLabel(f), fmt.Sprintf("%q is not a number; want a decimal number such as 12.5", t)}
 		}
-		v, _ := rat.Float64()
+		v := rat.Float64()
 		if math.Abs(v) > lim {
 			return 0, &cellErr{r.line, col, s.colLabel(f), fmt.Sprintf("%q is out of range; want -%g to %g in decimal degrees", t, lim, lim)}
 		}

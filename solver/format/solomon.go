@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"math/big"
-	"math/bits"
 	"strconv"
 	"strings"
 
@@ -132,7 +130,7 @@ func ReadSolomon(r io.Reader, name string) (*fleet.Problem, error) {
 	p.N = n
 	p.IDs = make([]string, n)
 	p.Service, p.Early, p.Late, p.Demand = make([]int64, n), make([]int64, n), make([]int64, n), make([]int64, n)
-	xs, ys := make([]*big.Rat, n), make([]*big.Rat, n)
+	xs, ys := make([]coord, n), make([]coord, n)
 	for k, row := range rows {
 		f := strings.Fields(row.text)
 		if len(f) != len(solomonColumns) {
@@ -148,13 +146,17 @@ func ReadSolomon(r io.Reader, name string) (*fleet.Problem, error) {
 			if !ok {
 				return nil, perr(row.n, c+1, solomonColumns[c], fmt.Sprintf("%q is not a number", f[c]))
 			}
-			if fv, _ := v.Float64(); math.Abs(fv) > 1e9 {
+			if math.Abs(v.Float64()) > 1e9 {
 				return nil, perr(row.n, c+1, solomonColumns[c], fmt.Sprintf("%q is too large for a coordinate", f[c]))
 			}
+			cv, ok := coordOf(v)
+			if !ok {
+				return nil, perr(row.n, c+1, solomonColumns[c], fmt.Sprintf("%q has more than %d decimals; want at most %d (distances are worked exactly at that precision)", f[c], maxCoordDecimals, maxCoordDecimals))
+			}
 			if c == 1 {
-				xs[k] = v
+				xs[k] = cv
 			} else {
-				ys[k] = v
+				ys[k] = cv
 			}
 		}
 		vals := make([]int64, 4)
@@ -199,55 +201,3 @@ func ReadSolomon(r io.Reader, name string) (*fleet.Problem, error) {
 
 // solverHorizonUnits bounds numbers read into internal units.
 const solverHorizonUnits = 1 << 50
-
-var scaleSq = new(big.Rat).SetInt64(SolomonScale * SolomonScale)
-
-// euclidUp is ceil(SolomonScale × the distance between (x1,y1) and
-// (x2,y2)), exactly: the ceiling of the integer square root of the scaled
-// squared distance, worked in rationals so that no rounding enters.
-func euclidUp(x1, y1, x2, y2 *big.Rat) int64 {
-	if x1.IsInt() && y1.IsInt() && x2.IsInt() && y2.IsInt() {
-		a, b := new(big.Int).Sub(x1.Num(), x2.Num()), new(big.Int).Sub(y1.Num(), y2.Num())
-		if a.IsInt64() && b.IsInt64() {
-			dx, dy := a.Int64(), b.Int64()
-			if dx < 1<<20 && dx > -(1<<20) && dy < 1<<20 && dy > -(1<<20) {
-				return sqrtUp(uint64(dx*dx+dy*dy), SolomonScale*SolomonScale)
-			}
-		}
-	}
-	dx := new(big.Rat).Sub(x1, x2)
-	dy := new(big.Rat).Sub(y1, y2)
-	sq := new(big.Rat).Add(new(big.Rat).Mul(dx, dx), new(big.Rat).Mul(dy, dy))
-	sq.Mul(sq, scaleSq)
-	// ceil(sqrt(a/b)) for the rational a/b: take q = ceil(a/b), then the
-	// smallest r with r² ≥ a/b is ceil(sqrt(q)) (r² ≥ a/b ⇔ r² ≥ q for
-	// integer r).
-	q := new(big.Int).Quo(sq.Num(), sq.Denom())
-	if new(big.Int).Mul(q, sq.Denom()).Cmp(sq.Num()) != 0 {
-		q.Add(q, big.NewInt(1))
-	}
-	r := new(big.Int).Sqrt(q)
-	if new(big.Int).Mul(r, r).Cmp(q) < 0 {
-		r.Add(r, big.NewInt(1))
-	}
-	return r.Int64()
-}
-
-// sqrtUp is ceil(sqrt(sq × mul)) exactly, in 128-bit integer arithmetic
-// (sq below 2^41, mul = 10^12): the floating-point root is only the first
-// guess.
-func sqrtUp(sq, mul uint64) int64 {
-	hi, lo := bits.Mul64(sq, mul)
-	less := func(r uint64) bool { // r² < sq × mul
-		h, l := bits.Mul64(r, r)
-		return h < hi || h == hi && l < lo
-	}
-	r := uint64(math.Sqrt(float64(sq)) * math.Sqrt(float64(mul)))
-	for r > 0 && !less(r-1) {
-		r--
-	}
-	for less(r) {
-		r++
-	}
-	return int64(r)
-}

@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
-	"math/big"
 	"strings"
 	"unicode/utf16"
 	"unicode/utf8"
@@ -291,55 +290,6 @@ func csvMessage(pe *csv.ParseError) string {
 		return fmt.Sprintf("a quoted field that starts on line %d is not closed, or a quote is followed by text; end the field with a double quote", pe.StartLine)
 	}
 	return pe.Err.Error()
-}
-
-// parseDecimal reads a plain decimal number exactly: an optional sign,
-// digits, and an optional fraction after '.' (or after ',' when
-// commaDecimal, as in files delimited by semicolons or tabs from a
-// spreadsheet set to a language that writes 12,5). Exponents, thousands
-// separators, "NaN" and "Inf" are refused.
-func parseDecimal(s string, commaDecimal bool) (*big.Rat, bool) {
-	if commaDecimal && strings.Count(s, ",") == 1 && !strings.Contains(s, ".") {
-		s = strings.Replace(s, ",", ".", 1)
-	}
-	if len(s) == 0 || len(s) > 40 {
-		return nil, false
-	}
-	t := s
-	if t[0] == '-' || t[0] == '+' {
-		t = t[1:]
-	}
-	ip, frac, dot := strings.Cut(t, ".")
-	if ip == "" && frac == "" || dot && frac == "" && ip == "" {
-		return nil, false
-	}
-	for _, c := range ip + frac {
-		if c < '0' || c > '9' {
-			return nil, false
-		}
-	}
-	r, ok := new(big.Rat).SetString(s)
-	return r, ok
-}
-
-// ratUnits converts r input units to internal units (per internal units in
-// one input unit), rounding half away from zero. ok is false when the value
-// does not fit below solver.Horizon.
-func ratUnits(r *big.Rat, per int64) (int64, bool) {
-	v := new(big.Rat).Mul(r, new(big.Rat).SetInt64(per))
-	num, den := new(big.Int).Set(v.Num()), v.Denom()
-	neg := num.Sign() < 0
-	num.Abs(num)
-	// round(num/den) = floor((2*num + den) / (2*den))
-	num.Mul(num, big.NewInt(2)).Add(num, den)
-	q := new(big.Int).Quo(num, new(big.Int).Mul(den, big.NewInt(2)))
-	if !q.IsInt64() || q.Int64() >= horizon {
-		return 0, false
-	}
-	if neg {
-		return -q.Int64(), true
-	}
-	return q.Int64(), true
 }
 
 // fastUnits converts a plain non-negative decimal (digits, at most one
