@@ -78,6 +78,13 @@ func (m *model) unit(i int) seg {
 // newModel builds the model of in. It reports an error for constraints the
 // engine cannot honour.
 func newModel(in *Instance, obj Objective) (*model, error) {
+	return buildModel(in, obj, nil)
+}
+
+// buildModel is newModel whose window tightening ends early when halt says
+// so (a time budget running short on a large day): windows tightened part
+// of the way are still valid, only less tight.
+func buildModel(in *Instance, obj Objective, halt func() bool) (*model, error) {
 	N := in.N
 	n := N + 1
 	m := &model{in: in, obj: obj, n: n, end: N}
@@ -226,7 +233,7 @@ func newModel(in *Instance, obj Objective) (*model, error) {
 		return m, nil
 	}
 	if debugMode != "notight" {
-		m.tighten()
+		m.tighten(halt)
 	}
 	m.buildArcs()
 	if debugMode == "" || debugMode == "normal" {
@@ -246,7 +253,7 @@ func newModel(in *Instance, obj Objective) (*model, error) {
 // predecessor, and must start early enough to reach some possible successor.
 // Both rules keep every feasible plan feasible. When a window empties, no
 // plan meets every window: the originals are kept for lateness search.
-func (m *model) tighten() {
+func (m *model) tighten(halt func() bool) {
 	if len(m.movable) == 0 {
 		return
 	}
@@ -259,8 +266,11 @@ func (m *model) tighten() {
 	}
 	for round := 0; round < 8; round++ {
 		changed := false
-		for _, j := range nodes {
+		for x, j := range nodes {
 			turn.Due()
+			if halt != nil && x%64 == 0 && halt() {
+				return
+			}
 			lo := Horizon
 			for _, i := range preds {
 				if i == j {

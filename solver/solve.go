@@ -20,7 +20,13 @@ func Solve(ctx context.Context, in *Instance, s Settings) (Result, error) {
 	if err := in.Validate(); err != nil {
 		return Result{}, err
 	}
-	m, err := newModel(in, s.Objective)
+	// On a large day tightening the windows can take seconds: it stops
+	// when the context ends or half the time budget is gone, so that
+	// construction has the rest.
+	halt := func() bool {
+		return ctx.Err() != nil || s.Budget > 0 && time.Since(start) >= s.Budget/2
+	}
+	m, err := buildModel(in, s.Objective, halt)
 	if err != nil {
 		return Result{}, err
 	}
