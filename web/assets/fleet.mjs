@@ -7,8 +7,7 @@
 
 import { $, el } from "./dom.mjs";
 import { isOpen, clock, duration, longDuration, plural, dayHeading } from "./fmt.mjs";
-import { ticks } from "./axis.mjs";
-import { describeVisit } from "./timeline.mjs";
+import { describeVisit, axisRow } from "./timeline.mjs";
 
 // COMPACT_OVER: days with more visits than this get one row per vehicle.
 export const COMPACT_OVER = 60;
@@ -100,19 +99,7 @@ export function drawFleetTimeline(p, model) {
   const compact = p.served > COMPACT_OVER;
   const frag = document.createDocumentFragment();
 
-  const axis = el("div", "axis");
-  axis.setAttribute("aria-hidden", "true");
-  axis.appendChild(el("div", "who", compact ? "vehicle" : "vehicle · stop"));
-  const tk = el("div", "track ticks");
-  const trackPx = Math.max(120, (tl.clientWidth || 800) - 180);
-  for (const t of ticks(t0, t1, model.clock, Math.max(2, Math.min(8, Math.floor(trackPx / 80))))) {
-    const at = x(t);
-    const s = el("span", "tick" + (at > 92 ? " at-end" : at < 8 ? " at-start" : ""), clock(t, model));
-    s.style.left = at + "%";
-    tk.appendChild(s);
-  }
-  axis.appendChild(tk);
-  frag.appendChild(axis);
+  frag.appendChild(axisRow(tl, compact ? "vehicle" : "vehicle · stop", 180, t0, t1, x, model));
 
   // As timeline.mjs: rows as one HTML string, every text through esc(),
   // positions set through the style object after parsing.

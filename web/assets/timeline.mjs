@@ -42,6 +42,27 @@ export function clearTimeline() {
   $("visit-detail").textContent = "";
 }
 
+// axisRow is the time axis over a timeline's rows: label is the heading of
+// the names' column, gutter the pixels that column takes, x the position
+// in percent of the track of a time between t0 and t1.
+export function axisRow(tl, label, gutter, t0, t1, x, model) {
+  const axis = el("div", "axis");
+  axis.setAttribute("aria-hidden", "true");
+  axis.appendChild(el("div", "who", label));
+  const tk = el("div", "track ticks");
+  // About one tick per 80 px of track, so that the labels never overlap.
+  const trackPx = Math.max(120, (tl.clientWidth || 800) - gutter);
+  for (const t of ticks(t0, t1, model.clock, Math.max(2, Math.min(8, Math.floor(trackPx / 80))))) {
+    const at = x(t);
+    // Labels near an end of the track lean inwards, so none is cut off.
+    const s = el("span", "tick" + (at > 92 ? " at-end" : at < 8 ? " at-start" : ""), clock(t, model));
+    s.style.left = at + "%";
+    tk.appendChild(s);
+  }
+  axis.appendChild(tk);
+  return axis;
+}
+
 export function drawTimeline(p, model) {
   const t00 = performance.now();
   const rows = planRows(p);
@@ -54,21 +75,7 @@ export function drawTimeline(p, model) {
   const frag = document.createDocumentFragment();
   const dens = density(rows.length);
 
-  const axis = el("div", "axis");
-  axis.setAttribute("aria-hidden", "true");
-  axis.appendChild(el("div", "who", "stop · site"));
-  const tk = el("div", "track ticks");
-  // About one tick per 80 px of track, so that the labels never overlap.
-  const trackPx = Math.max(120, (tl.clientWidth || 800) - (dens === "full" ? 180 : 110));
-  for (const t of ticks(t0, t1, model.clock, Math.max(2, Math.min(8, Math.floor(trackPx / 80))))) {
-    const at = x(t);
-    // Labels near an end of the track lean inwards, so none is cut off.
-    const s = el("span", "tick" + (at > 92 ? " at-end" : at < 8 ? " at-start" : ""), clock(t, model));
-    s.style.left = at + "%";
-    tk.appendChild(s);
-  }
-  axis.appendChild(tk);
-  frag.appendChild(axis);
+  frag.appendChild(axisRow(tl, "stop · site", dens === "full" ? 180 : 110, t0, t1, x, model));
 
   // Rows as one HTML string: at 500 visits this is several times faster
   // than building the nodes one by one. Every text goes through esc().
