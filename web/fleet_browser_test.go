@@ -188,3 +188,38 @@ func TestPageFleetStop(t *testing.T) {
 	assert.Equal(t, "stopped", eval[string](t, ctx, `document.querySelector('[data-testid=status]').dataset.why`))
 	assert.Equal(t, 4, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .lane-head').length`), "the best plan so far is drawn")
 }
+
+// A team's plan comes back from a share link and from the tab's kept
+// session: the vehicles, the "fewest vehicles" choice and the plan itself
+// (the same lanes and the same cost, before any new search).
+func TestPageFleetPlanBackFromLinkAndKeptSession(t *testing.T) {
+	ctx, _ := tab(t)
+	openPage(t, ctx, "")
+	setField(t, ctx, "vehicles-input", readText(t, filepath.Join("..", "testdata", "fleet", "boiler-team-vehicles.csv")))
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("fewest-vehicles"))))
+	paste(t, ctx, readText(t, filepath.Join("..", "testdata", "fleet", "boiler-team-sites.csv")))
+	waitFor(t, ctx, `!!document.querySelector('[data-testid=team-summary]')`, 10*time.Second)
+	run(t, ctx, "0.5")
+	lanes := `[...document.querySelectorAll('[data-testid=timeline] .lane-head')].map(e => e.dataset.lane).join(' ')`
+	cost := `document.querySelector('[data-testid=best-cost]').dataset.cost || ''`
+	wantLanes, wantCost := eval[string](t, ctx, lanes), eval[string](t, ctx, cost)
+	require.NotEmpty(t, wantLanes)
+	require.NotEmpty(t, wantCost)
+	link := makeLink(t, ctx)
+
+	require.NoError(t, chromedp.Do(ctx, chromedp.Navigate("about:blank")))
+	require.NoError(t, chromedp.Do(ctx, chromedp.Navigate(link)))
+	waitFor(t, ctx, `document.body.dataset.engine === "ready" && !!document.querySelector('[data-testid=timeline] .lane-head')`, 20*time.Second)
+	assert.Equal(t, wantLanes, eval[string](t, ctx, lanes), "the link's team plan is drawn")
+	assert.Equal(t, wantCost, eval[string](t, ctx, cost))
+	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=vehicles-input]').value`), "Marek")
+
+	// Kept in the tab, it comes back after a reload.
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("keep-session"))))
+	time.Sleep(300 * time.Millisecond)
+	openPage(t, ctx, "")
+	waitFor(t, ctx, `!!document.querySelector('[data-testid=timeline] .lane-head')`, 20*time.Second)
+	assert.Equal(t, wantLanes, eval[string](t, ctx, lanes), "the kept team plan is drawn")
+	assert.Equal(t, wantCost, eval[string](t, ctx, cost))
+	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=status]').textContent`), "kept session")
+}

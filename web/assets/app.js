@@ -293,6 +293,7 @@ function showTeam(f, model) {
 
 // planFits: a plan from a link or a kept session goes with this data.
 function planFits(p, s) {
+  if (isFleetPlan(p)) return !!s.fleet && p.routes.every((r) => Array.isArray(r.schedule) && r.schedule.length === r.visits.length && s.fleet.vehicles.some((v) => v.id === r.vehicle));
   return p && Array.isArray(p.route) && Array.isArray(p.schedule) && p.schedule.length === p.route.length && p.route.length <= s.nodes;
 }
 
@@ -570,7 +571,8 @@ const exporters = {
 // ---------- session and share link ----------
 function settings() {
   return { budget: $("budget").value, seed: $("seed").value, mix: readMix(), fixed: $("fixed-mix").checked, objective: $("objective").value,
-    fewest_late: $("fewest-late").checked, with_bound: $("with-bound").checked, cores: $("cores").value };
+    fewest_late: $("fewest-late").checked, with_bound: $("with-bound").checked, cores: $("cores").value,
+    fewest_vehicles: $("fewest-vehicles").checked };
 }
 
 function applySettings(st) {
@@ -591,6 +593,7 @@ function applySettings(st) {
   $("fixed-mix").checked = !!st.fixed;
   $("fewest-late").checked = !!st.fewest_late;
   if (st.with_bound !== undefined) $("with-bound").checked = !!st.with_bound;
+  if (st.fewest_vehicles !== undefined) $("fewest-vehicles").checked = !!st.fewest_vehicles;
   if (st.objective === "travel" || st.objective === "completion") $("objective").value = st.objective;
 }
 
@@ -815,7 +818,7 @@ function wire() {
   $("forget-session").addEventListener("click", forgetAll);
   $("share-link").addEventListener("click", makeShareLink);
   for (const id of ["budget", "seed", "cores", "objective", "fixed-mix", "fewest-late", "with-bound", "route-end", "end-site", "start-site",
-    "shift-start", "speed", "road-factor", "done-visits", "now", "matrix-unit"]) $(id).addEventListener("change", saveSoon);
+    "shift-start", "speed", "road-factor", "done-visits", "now", "matrix-unit", "fewest-vehicles", "fleet-size"]) $(id).addEventListener("change", saveSoon);
   for (const id of ["paste-input", "matrix-input", "vehicles-input"]) $(id).addEventListener("input", saveSoon);
   $("cores").value = String(defaultCores(navigator.hardwareConcurrency));
   $("cores").max = String(MAX_CORES);

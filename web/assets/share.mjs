@@ -105,7 +105,11 @@ function check(o) {
     options: cleanOptions(o.options),
     vehicles: str(o.vehicles), vehicles_name: str(o.vehicles_name), fleet: Number.isInteger(o.fleet) && o.fleet > 0 && o.fleet <= 200 ? o.fleet : 0,
     settings: o.settings && typeof o.settings === "object" ? o.settings : {} };
-  if (o.plan && typeof o.plan === "object" && Array.isArray(o.plan.route) && Array.isArray(o.plan.schedule)) {
+  // One vehicle's plan (route and schedule) or a team's (routes, each
+  // with its schedule); the page checks it against the data read.
+  const one = o.plan && typeof o.plan === "object" && Array.isArray(o.plan.route) && Array.isArray(o.plan.schedule);
+  const team = o.plan && typeof o.plan === "object" && Array.isArray(o.plan.routes) && o.plan.routes.every((r) => r && Array.isArray(r.visits) && Array.isArray(r.schedule));
+  if (one || team) {
     out.plan = o.plan;
     out.csv = str(o.csv);
   }
