@@ -58,6 +58,19 @@ func (r *recorder) wait(t *testing.T, typ string) map[string]any {
 	}
 }
 
+// all returns the messages of type typ so far, in order ("" every one).
+func (r *recorder) all(typ string) []map[string]any {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	var out []map[string]any
+	for _, m := range r.msgs {
+		if typ == "" || m["type"] == typ {
+			out = append(out, m)
+		}
+	}
+	return out
+}
+
 func (r *recorder) count(typ string) int {
 	r.mu.Lock()
 	defer r.mu.Unlock()

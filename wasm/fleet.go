@@ -162,6 +162,7 @@ func (e *Engine) searchFleet(ctx context.Context, r *run, fd *format.FleetDatase
 	defer close(r.done)
 	defer r.cancel()
 	var mu sync.Mutex
+	obj, _ := solver.ParseObjective(o.Objective) // checked by startFleet
 	improved, iters := 0, 0
 	last := time.Time{}
 	onImprove := func(p fleet.Progress) {
@@ -175,6 +176,9 @@ func (e *Engine) searchFleet(ctx context.Context, r *run, fd *format.FleetDatase
 		last = time.Now()
 		e.send(progressMsg{Type: "progress", Run: r.id, Iterations: p.Iteration, Elapsed: p.Elapsed.Seconds(), BestCost: fd.Problem.InputUnits(p.Value.Cost),
 			Feasible: true, VehiclesUsed: p.Value.Vehicles, UnservedPriority: p.Value.Unserved, Phase: p.Phase})
+		if p.Plan != nil {
+			e.sendFleetPlan(r.id, fd, obj, minVeh, p)
+		}
 	}
 	out, err := app.RunFleet(ctx, fd, o, minVeh, onImprove)
 	mu.Lock()
@@ -203,4 +207,32 @@ func (e *Engine) searchFleet(ctx context.Context, r *run, fd *format.FleetDatase
 	c := out.Plan.Cost
 	e.send(finishedMsg{Type: "finished", Run: r.id, Why: why, Iterations: res.Iterations, Elapsed: time.Since(r.start).Seconds(),
 		Improvements: len(res.Trace), BestCost: &c, Feasible: out.Plan.Feasible})
+}
+
+// sendFleetPlan sends the new best plan of a running fleet search as a
+// "plan" message, the same object as the last one of the run (checked from
+// scratch by fleet.Evaluate first; a plan that fails the check is not
+// sent, the final one reports the error). Days over 300 nodes get their
+// exports only with the last plan, as one-vehicle days do.
+func (e *Engine) sendFleetPlan(run int, fd *format.FleetDataset, obj solver.Objective, minVeh bool, p fleet.Progress) {
+	pl := p.Plan()
+	rep, err := fleet.Evaluate(fd.Problem, pl)
+	if err != nil || !rep.Feasible {
+		return
+	}
+	res := fleet.Result{Best: pl, Report: rep, Value: rep.Value(obj), Reasons: fleet.Reasons(fd.Problem, rep.Unserved),
+		Iterations: p.Iteration, Elapsed: p.Elapsed, ToBest: p.Elapsed}
+	plan := fd.PlanReport(obj, minVeh, &res)
+	var js bytes.Buffer
+	if err := format.WriteFleetJSON(&js, plan); err != nil {
+		return
+	}
+	m := planMsg{Type: "plan", Run: run, Plan: json.RawMessage(bytes.TrimSpace(js.Bytes()))}
+	if fd.Problem.N <= 300 {
+		var csv bytes.Buffer
+		if format.WriteFleetCSV(&csv, plan) == nil {
+			m.CSV, m.JSON = csv.String(), js.String()
+		}
+	}
+	e.send(m)
 }

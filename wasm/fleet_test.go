@@ -12,6 +12,7 @@ import (
 
 	"visitline/solver/app"
 	"visitline/solver/fleet"
+	"visitline/solver/format"
 )
 
 const (
@@ -60,7 +61,9 @@ func TestEngineFleetDayMatchesCommandLine(t *testing.T) {
 	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0, "iterations": 400, "seed": 3}))
 	fin := rec.wait(t, "finished")
 	require.Equal(t, "iterations", fin["why"], fin)
-	pm := rec.wait(t, "plan")
+	plans := rec.all("plan")
+	require.NotEmpty(t, plans)
+	pm := plans[len(plans)-1] // the run's last plan; earlier ones stream while it searches
 	got := withoutTimes(t, pm["json"].(string))
 	want := withoutTimes(t, readFile(t, "../testdata/fleet/boiler-team-plan.json"))
 	assert.Equal(t, want, got)
@@ -70,23 +73,7 @@ func TestEngineFleetDayMatchesCommandLine(t *testing.T) {
 	fd, _, err := app.LoadFleet(app.FleetInput{Sites: readFile(t, "../"+teamSitesName), SitesName: teamSitesName,
 		Vehicles: readFile(t, "../"+teamVehName), VehiclesName: teamVehName})
 	require.NoError(t, err)
-	pl := fleet.Plan{Routes: make([][]int, len(fd.Problem.Vehicles))}
-	ids := map[string]int{}
-	for k, v := range fd.Problem.Vehicles {
-		ids[v.ID] = k
-	}
-	for _, r := range got["routes"].([]any) {
-		r := r.(map[string]any)
-		for _, v := range r["visits"].([]any) {
-			pl.Routes[ids[r["vehicle"].(string)]] = append(pl.Routes[ids[r["vehicle"].(string)]], int(v.(float64)))
-		}
-	}
-	for _, u := range got["unserved"].([]any) {
-		pl.Unserved = append(pl.Unserved, int(u.(float64)))
-	}
-	rep, err := fleet.Evaluate(fd.Problem, pl)
-	require.NoError(t, err)
-	assert.True(t, rep.Feasible, rep.Problems)
+	rep := evaluateFleetJSON(t, fd, got)
 	assert.InDelta(t, fd.Problem.InputUnits(rep.Travel), got["cost"], 1e-9)
 	assert.Contains(t, got["unserved_ids"], "H15") // its window closes before any shift begins
 
@@ -151,7 +138,7 @@ func TestEngineSolomonByContentAndFewestVehicles(t *testing.T) {
 	assert.Equal(t, 2.0, sum["sites"])
 	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0, "iterations": 200, "seed": 1, "minimize": "vehicles"}))
 	rec.wait(t, "finished")
-	p := rec.wait(t, "plan")["plan"].(map[string]any)
+	p := rec.lastPlan()
 	assert.Equal(t, true, p["minimize_vehicles"])
 	assert.Equal(t, 2.0, p["vehicles_used"])
 	assert.InDelta(t, 20, p["cost"], 1e-9)
@@ -169,5 +156,73 @@ func TestEngineFleetStop(t *testing.T) {
 	fin := rec.wait(t, "finished")
 	assert.Equal(t, "stopped", fin["why"])
 	assert.Less(t, fin["elapsed"].(float64), 60.0, "a stop does not wait for the budget")
-	assert.Equal(t, 1, rec.count("plan"))
+	assert.GreaterOrEqual(t, rec.count("plan"), 1, "the best plan so far comes with the stop")
+}
+
+// evaluateFleetJSON rebuilds a plan from its JSON object and checks it with
+// fleet.Evaluate, written apart from the search: it must be feasible.
+func evaluateFleetJSON(t *testing.T, fd *format.FleetDataset, got map[string]any) fleet.Report {
+	t.Helper()
+	pl := fleet.Plan{Routes: make([][]int, len(fd.Problem.Vehicles))}
+	ids := map[string]int{}
+	for k, v := range fd.Problem.Vehicles {
+		ids[v.ID] = k
+	}
+	for _, r := range got["routes"].([]any) {
+		r := r.(map[string]any)
+		k, ok := ids[r["vehicle"].(string)]
+		require.True(t, ok, "plan names vehicle %v, not in the day", r["vehicle"])
+		for _, v := range r["visits"].([]any) {
+			pl.Routes[k] = append(pl.Routes[k], int(v.(float64)))
+		}
+	}
+	for _, u := range got["unserved"].([]any) {
+		pl.Unserved = append(pl.Unserved, int(u.(float64)))
+	}
+	rep, err := fleet.Evaluate(fd.Problem, pl)
+	require.NoError(t, err)
+	require.True(t, rep.Feasible, rep.Problems)
+	return rep
+}
+
+// A team search streams its new best plans while it runs, not only at the
+// end: the construction's plan comes at once, later ones as they are
+// found (at most one every 50 ms), the last just before "finished"; each
+// is a plan of the day (fleet.Evaluate), its cost and vehicle count as it
+// claims, and the costs never rise.
+func TestEngineFleetStreamsPlans(t *testing.T) {
+	rec := newRecorder()
+	e := NewEngine(rec.post)
+	loadTeam(t, e, rec)
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0, "iterations": 400, "seed": 3}))
+	rec.wait(t, "finished")
+	fd, _, err := app.LoadFleet(app.FleetInput{Sites: readFile(t, "../"+teamSitesName), SitesName: teamSitesName,
+		Vehicles: readFile(t, "../"+teamVehName), VehiclesName: teamVehName})
+	require.NoError(t, err)
+	seenFinished := false
+	var plans []map[string]any
+	for _, m := range rec.all("") {
+		switch m["type"] {
+		case "finished":
+			seenFinished = true
+		case "plan":
+			assert.False(t, seenFinished, "a plan after finished")
+			plans = append(plans, m["plan"].(map[string]any))
+		}
+	}
+	require.GreaterOrEqual(t, len(plans), 2, "the construction's plan and the last one at least")
+	for i, p := range plans {
+		rep := evaluateFleetJSON(t, fd, p)
+		assert.InDelta(t, fd.Problem.InputUnits(rep.Travel), p["cost"], 1e-9, "plan %d", i)
+		assert.Equal(t, float64(rep.VehiclesUsed), p["vehicles_used"], "plan %d", i)
+		if i == 0 {
+			continue
+		}
+		// Serve more weight first, then travel less (no vehicle minimising here).
+		u, pu := p["unserved_priority"].(float64), plans[i-1]["unserved_priority"].(float64)
+		assert.LessOrEqual(t, u, pu, "plan %d leaves more out than the one before", i)
+		if u == pu {
+			assert.LessOrEqual(t, p["cost"].(float64), plans[i-1]["cost"].(float64), "plan %d travels more than the one before", i)
+		}
+	}
 }

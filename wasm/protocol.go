@@ -76,13 +76,16 @@
 //	    (every n/2 ms for n nodes above 100). The best plan is sent once more just before
 //	    "finished", with lower_bound, gap_bound_pct and proven_optimal from
 //	    the bound, and for a day that cannot be met conflict and reason.
-//	    A fleet day's progress comes with each new best (fleet.Solve
-//	    reports values, not plans, as it goes) and carries vehicles_used,
-//	    unserved_priority and phase; its one plan comes at the end.
+//	    A fleet day's progress comes with each new best and carries
+//	    vehicles_used, unserved_priority and phase; its plans stream as the
+//	    search finds them (the construction's at once, then at most one
+//	    every 50 ms, each checked by fleet.Evaluate first), and the best
+//	    comes once more at the end.
 //	    For a fleet day, plan is the object `solve --format json` prints
 //	    for it (format.FleetPlanReport: vehicles_used, routes, unserved,
 //	    unserved_reasons...), csv has a vehicle column
-//	    (format.WriteFleetCSV), and every plan carries both exports.
+//	    (format.WriteFleetCSV); both exports come with every plan of a day
+//	    up to 300 nodes, and with the last plan on larger days.
 //	{"type":"progress", "run":1, "iterations":1234, "elapsed":1.5, "best_cost":812, "feasible":true, "weights":{...}}
 //	    About every 50 ms while searching; elapsed in seconds. One with
 //	    "explaining":true says the search is over and the worker is looking

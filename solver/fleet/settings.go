@@ -39,6 +39,10 @@ type Progress struct {
 	Elapsed   time.Duration
 	// Phase is "construction", "vehicles" (route minimisation) or "cost".
 	Phase string
+	// Plan returns a copy of the new best plan. It is set only on the
+	// Progress handed to OnImprove and valid only during that call (the
+	// search goes on changing its best afterwards); nil in Result.Trace.
+	Plan func() Plan
 }
 
 // Result is what Solve found.

@@ -121,6 +121,7 @@ func Solve(ctx context.Context, p *Problem, set Settings) (Result, error) {
 		res.Trace = append(res.Trace, pr)
 		res.ToBest = pr.Elapsed
 		if set.OnImprove != nil {
+			pr.Plan = func() Plan { return best.plan() }
 			set.OnImprove(pr)
 		}
 	}
