@@ -105,8 +105,8 @@ func solveFleet(path string, f *solveFlags, stdout, stderr io.Writer) error {
 	default:
 		return usageError{fmt.Sprintf("--minimize %q: want vehicles (the cost after them is --objective)", f.fleet.minimize)}
 	}
-	if f.format != "table" && f.format != "json" {
-		return usageError{fmt.Sprintf("--format %s: a day with several vehicles is written as table or json", f.format)}
+	if f.format != "table" && f.format != "json" && f.format != "csv" {
+		return usageError{fmt.Sprintf("--format %s: a day with several vehicles is written as table, json or csv (no calendar yet)", f.format)}
 	}
 	if f.fleet.count < 0 {
 		return usageError{fmt.Sprintf("--fleet %d: want 1 or more vehicles", f.fleet.count)}
@@ -137,8 +137,11 @@ func solveFleet(path string, f *solveFlags, stdout, stderr io.Writer) error {
 		return err
 	}
 	j := run.Plan
-	if f.format == "json" {
+	switch f.format {
+	case "json":
 		return format.WriteFleetJSON(stdout, j)
+	case "csv":
+		return format.WriteFleetCSV(stdout, j)
 	}
 	return format.WriteFleetTable(stdout, j)
 }

@@ -1,9 +1,11 @@
 package main
 
 import (
+	"encoding/csv"
 	"encoding/json"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -47,6 +49,29 @@ func TestSolveVehiclesJSON(t *testing.T) {
 	assert.Nil(t, j["route"], "route is for a fleet of one")
 }
 
+// --format csv on a team day: one row per visit with its vehicle first,
+// the unserved visits last, and a cell that a spreadsheet would run as a
+// formula neutralised with a leading apostrophe (OWASP, "CSV Injection").
+func TestSolveVehiclesCSV(t *testing.T) {
+	sites := strings.Replace(vanSites, "P2,Pharmacy,", "P2,=SUM(A1:A9),", 1) + "P5,Too late,06:00,06:30,10,5,5,1\n"
+	dir := writeFiles(t, map[string]string{"sites.csv": sites, "vans.csv": vanFleet})
+	code, out, errOut := runCmd(solveArgs("--format", "csv", "--speed", "60", "--vehicles", filepath.Join(dir, "vans.csv"), filepath.Join(dir, "sites.csv"))...)
+	require.Equal(t, 0, code, errOut)
+	rows, err := csv.NewReader(strings.NewReader(out)).ReadAll()
+	require.NoError(t, err, out)
+	require.Greater(t, len(rows), 2)
+	assert.Equal(t, "vehicle", rows[0][0])
+	byVehicle := map[string]int{}
+	for _, r := range rows[1:] {
+		byVehicle[r[0]]++
+	}
+	assert.Greater(t, byVehicle["V1"], 0, out)
+	assert.Greater(t, byVehicle["V2"], 0, out)
+	assert.Contains(t, out, "'=SUM", "formula neutralised")
+	assert.NotContains(t, strings.ReplaceAll(out, "'=SUM", ""), "=SUM")
+	assert.Contains(t, rows[len(rows)-1], "P5", "the visit no shift can reach is listed last")
+}
+
 func TestSolveFleetOfOneKeepsRoute(t *testing.T) {
 	dir := writeFiles(t, map[string]string{"sites.csv": vanSites})
 	code, out, errOut := runCmd(solveArgs("--format", "json", "--speed", "60", "--fleet", "1", filepath.Join(dir, "sites.csv"))...)
@@ -81,7 +106,7 @@ func TestSolveFleetErrors(t *testing.T) {
 	}{
 		{"start not a site", []string{"--vehicles", filepath.Join(dir, "bad.csv")}, 1, "bad.csv:2:2: start: \"DEPOT\" is not a site"},
 		{"negative capacity", []string{"--vehicles", filepath.Join(dir, "neg.csv")}, 1, "neg.csv:2:3: capacity:"},
-		{"csv output", []string{"--fleet", "2", "--format", "csv"}, 2, "--format csv: a day with several vehicles"},
+		{"calendar output", []string{"--fleet", "2", "--format", "ics"}, 2, "--format ics: a day with several vehicles"},
 		{"minimize what", []string{"--fleet", "2", "--minimize", "travel"}, 2, "--minimize \"travel\""},
 		{"minimize without fleet", []string{"--minimize", "vehicles"}, 2, "needs a fleet"},
 	}
