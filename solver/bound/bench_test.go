@@ -63,13 +63,19 @@ func loadBench(t testing.TB, k known) *solver.Instance {
 }
 
 // reportOptions reads VISITLINE_BOUND_RELAX (the share of the time for the
-// penalty ascent) for experiments; the default options otherwise.
+// penalty ascent) and VISITLINE_BOUND_NGMAX (the largest ng-neighbourhood
+// the ascent may grow to) for experiments; the default options otherwise.
 func reportOptions(t *testing.T) Options {
 	var o Options
 	if v := os.Getenv("VISITLINE_BOUND_RELAX"); v != "" {
 		f, err := strconv.ParseFloat(v, 64)
 		require.NoError(t, err)
 		o.RelaxShare = f
+	}
+	if v := os.Getenv("VISITLINE_BOUND_NGMAX"); v != "" {
+		k, err := strconv.Atoi(v)
+		require.NoError(t, err)
+		o.NeighboursMax = k
 	}
 	return o
 }
