@@ -78,6 +78,11 @@ func ParseObjective(s string) (Objective, error) {
 // bind, small enough that sums of a few thousand of them cannot overflow.
 const Horizon int64 = 1 << 50
 
+// OpenEnd says whether a window bound is absent: only Horizon (and above)
+// is, so that every output, the explanation and the page agree; a large
+// bound that a user wrote is a number, never "open".
+func OpenEnd(v int64) bool { return v >= Horizon }
+
 // Instance is one sequencing problem. Build it with a reader from
 // solver/format or by hand, then call Prepare (Solve does so itself).
 // An Instance must not be changed once solving has begun.

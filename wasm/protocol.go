@@ -339,7 +339,7 @@ func SummariseDataset(d *format.Dataset) Summary {
 }
 
 // openLate says whether a window end is "no limit" for display.
-func openLate(v int64) bool { return v >= solver.Horizon/2 }
+func openLate(v int64) bool { return solver.OpenEnd(v) }
 
 // Summarise works out the Summary of an instance.
 func Summarise(in *solver.Instance) Summary {

@@ -426,7 +426,7 @@ func reason(in *solver.Instance, ex Explanation, eo ExplainOptions) string {
 		name = in.ID
 	}
 	num := func(v int64) string {
-		if v >= solver.Horizon/2 {
+		if solver.OpenEnd(v) {
 			return "open"
 		}
 		return ft(v)
@@ -453,7 +453,7 @@ func reason(in *solver.Instance, ex Explanation, eo ExplainOptions) string {
 	}
 	if len(ex.Conflict) > 0 {
 		switch {
-		case in.Shape == solver.Closed && in.Late[in.Start] < solver.Horizon/2:
+		case in.Shape == solver.Closed && !solver.OpenEnd(in.Late[in.Start]):
 			fmt.Fprintf(&b, " and returning by %s.", num(in.Late[in.Start]))
 		case in.Shape == solver.OpenFixed:
 			fmt.Fprintf(&b, " and ending at %s.", win(in.End))

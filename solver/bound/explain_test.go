@@ -93,6 +93,23 @@ func TestExplainUnreachableAlone(t *testing.T) {
 	checkConflictByEnumeration(t, in, ex)
 }
 
+// A window bound is "open" only when it is absent (solver.OpenEnd), as in
+// every other output: large times a user wrote, here past half the
+// horizon, are written as numbers, and the return by the depot's close is
+// named.
+func TestExplainLargeTimesAreNotOpen(t *testing.T) {
+	h := solver.Horizon / 2
+	in := hand([]string{"S", "A", "B"}, solver.Closed, func(i, j int) int64 { return 10 },
+		[]int64{h, h, h}, []int64{h + 1000, h + 5, h + 1000})
+	ex, err := Explain(context.Background(), in)
+	require.NoError(t, err)
+	assert.Equal(t, []int{1}, ex.Conflict)
+	assert.NotContains(t, ex.Reason, "open", ex.Reason)
+	assert.Contains(t, ex.Reason, fmt.Sprintf("A [%d, %d]", h, h+5), ex.Reason)
+	assert.Contains(t, ex.Reason, fmt.Sprintf("returning by %d", h+1000), ex.Reason)
+	checkConflictByEnumeration(t, in, ex)
+}
+
 func TestExplainFeasibleDay(t *testing.T) {
 	in := hand([]string{"S", "A"}, solver.Closed, func(i, j int) int64 { return 1 }, []int64{0, 0}, []int64{10, 10})
 	_, err := Explain(context.Background(), in)

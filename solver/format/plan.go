@@ -248,7 +248,7 @@ func (j PlanReport) durOpen(v *float64) string {
 // OpenBound says whether a window end is absent: an empty cell in a sites
 // file reads as solver.Horizon, and only that value is open. Outputs write
 // it as JSON null or "open", never as the number.
-func OpenBound(v int64) bool { return v >= horizon }
+func OpenBound(v int64) bool { return solver.OpenEnd(v) }
 
 // CSVCell neutralises a cell that a spreadsheet would run as a formula: a
 // cell beginning with =, +, -, @, tab or carriage return gets a leading
