@@ -1,6 +1,7 @@
 package format
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"strings"
@@ -344,6 +345,16 @@ func parseMatrix(text, name string, comma rune, unit Unit, ids []string) (*Matri
 	if hasHeader {
 		skip = 1
 	}
+	// Every bad cell is listed, up to maxErrors, as the sites reader does.
+	var errs ErrorList
+	errFull := errors.New("too many errors")
+	fail := func(pe *ParseError) error {
+		errs = append(errs, pe)
+		if len(errs) >= maxErrors {
+			return errFull
+		}
+		return nil
+	}
 	r := -1
 	err = eachRecord(text, name, comma, func(line int, f []string) error {
 		r++
@@ -361,12 +372,18 @@ func parseMatrix(text, name string, comma rune, unit Unit, ids []string) (*Matri
 			}
 			field := func() string { return fmt.Sprintf("travel time from %s to %s", ids[i], ids[j]) }
 			if t == "" {
-				return &ParseError{File: name, Line: line, Column: c + off + 1, Field: field(),
-					Msg: fmt.Sprintf("missing; want %s (0 or more)", unit)}
+				if err := fail(&ParseError{File: name, Line: line, Column: c + off + 1, Field: field(),
+					Msg: fmt.Sprintf("missing; want %s (0 or more)", unit)}); err != nil {
+					return err
+				}
+				continue
 			}
 			v, msg := travelValue(t, unit, commaDecimal)
 			if msg != "" {
-				return &ParseError{File: name, Line: line, Column: c + off + 1, Field: field(), Msg: msg}
+				if err := fail(&ParseError{File: name, Line: line, Column: c + off + 1, Field: field(), Msg: msg}); err != nil {
+					return err
+				}
+				continue
 			}
 			if i != j {
 				row[j] = v
@@ -374,10 +391,19 @@ func parseMatrix(text, name string, comma rune, unit Unit, ids []string) (*Matri
 		}
 		return nil
 	})
-	if err != nil {
+	if err == errFull {
+		errs = append(errs, &ParseError{File: name, Field: "travel matrix", Msg: fmt.Sprintf("more errors follow; the first %d are listed: fix these and read again", maxErrors)})
+	} else if err != nil {
 		return nil, err
 	}
-	return m, nil
+	switch len(errs) {
+	case 0:
+		return m, nil
+	case 1:
+		return nil, errs[0]
+	default:
+		return nil, errs
+	}
 }
 
 func firstNonTime(fields []string, isNum func(string) bool) string {

@@ -122,3 +122,39 @@ func TestReadMatrixErrors(t *testing.T) {
 		})
 	}
 }
+
+// Every bad cell of a matrix is reported, each with its place, not only the
+// first; past maxErrors one more entry says that more follow.
+func TestReadMatrixListsEveryBadCell(t *testing.T) {
+	_, err := ReadMatrix(strings.NewReader("0,5,7\n6,0,\n8,-3,0\n"), "m.csv", UnitMinutes, abc)
+	require.Error(t, err)
+	var list ErrorList
+	require.ErrorAs(t, err, &list, err.Error())
+	require.Len(t, list, 2, err.Error())
+	assert.Contains(t, list[0].Error(), "m.csv:2:3: travel time from B to C: missing")
+	assert.Contains(t, list[1].Error(), `m.csv:3:2: travel time from C to B: "-3" is negative`)
+
+	ids := make([]string, 60)
+	var b strings.Builder
+	for i := range ids {
+		ids[i] = "S" + string(rune('A'+i/26)) + string(rune('a'+i%26))
+		for j := range ids {
+			if j > 0 {
+				b.WriteString(",")
+			}
+			switch {
+			case i == j:
+				b.WriteString("0")
+			case i == 0: // a first row of numbers: no header
+				b.WriteString("1")
+			default:
+				b.WriteString("?")
+			}
+		}
+		b.WriteString("\n")
+	}
+	_, err = ReadMatrix(strings.NewReader(b.String()), "big.csv", UnitMinutes, ids)
+	require.ErrorAs(t, err, &list)
+	assert.Len(t, list, maxErrors+1)
+	assert.Contains(t, list[maxErrors].Error(), "more errors follow")
+}
