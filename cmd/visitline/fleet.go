@@ -8,6 +8,7 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"time"
 
 	"visitline/solver"
 	"visitline/solver/app"
@@ -20,12 +21,14 @@ type fleetFlags struct {
 	vehicles string
 	count    int
 	minimize string
+	vehicle  string
 }
 
 func (ff *fleetFlags) register(fs *flag.FlagSet) {
 	fs.StringVar(&ff.vehicles, "vehicles", "", "vehicles CSV (id, name, start, end, shift start, shift end, capacity, max duration): plan a day for several vehicles")
 	fs.IntVar(&ff.count, "fleet", 0, "plan for N identical vehicles from the start site, with its window as their shift")
 	fs.StringVar(&ff.minimize, "minimize", "", "with several vehicles: vehicles (use as few vehicles as possible, before the travel)")
+	fs.StringVar(&ff.vehicle, "vehicle", "", "with several vehicles and --format ics: write only this vehicle's visits (its id), a calendar for one driver or technician")
 }
 
 // wanted says whether solve plans a fleet day: a vehicles file, a fleet
@@ -105,8 +108,12 @@ func solveFleet(path string, f *solveFlags, stdout, stderr io.Writer) error {
 	default:
 		return usageError{fmt.Sprintf("--minimize %q: want vehicles (the cost after them is --objective)", f.fleet.minimize)}
 	}
-	if f.format != "table" && f.format != "json" && f.format != "csv" {
-		return usageError{fmt.Sprintf("--format %s: a day with several vehicles is written as table, json or csv (no calendar yet)", f.format)}
+	if f.fleet.vehicle != "" && f.format != "ics" {
+		return usageError{fmt.Sprintf("--vehicle %s: picks one vehicle's calendar; use it with --format ics", f.fleet.vehicle)}
+	}
+	day := time.Now()
+	if f.date != "" {
+		day, _ = time.Parse("2006-01-02", f.date) // checked by solve
 	}
 	if f.fleet.count < 0 {
 		return usageError{fmt.Sprintf("--fleet %d: want 1 or more vehicles", f.fleet.count)}
@@ -142,6 +149,8 @@ func solveFleet(path string, f *solveFlags, stdout, stderr io.Writer) error {
 		return format.WriteFleetJSON(stdout, j)
 	case "csv":
 		return format.WriteFleetCSV(stdout, j)
+	case "ics":
+		return format.WriteFleetICS(stdout, fd, j, f.fleet.vehicle, format.ICSOptions{Date: day, Stamp: time.Now()})
 	}
 	return format.WriteFleetTable(stdout, j)
 }

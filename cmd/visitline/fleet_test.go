@@ -72,6 +72,36 @@ func TestSolveVehiclesCSV(t *testing.T) {
 	assert.Contains(t, rows[len(rows)-1], "P5", "the visit no shift can reach is listed last")
 }
 
+// --format ics on a team's day: an iCalendar file (RFC 5545: CRLF line
+// ends, section 3.1; VCALENDAR with VERSION and PRODID, 3.6) with one event
+// per served visit, the vehicle's name first in its summary; --vehicle
+// writes one vehicle's visits only.
+func TestSolveVehiclesICS(t *testing.T) {
+	dir := writeFiles(t, map[string]string{"sites.csv": vanSites, "vans.csv": vanFleet})
+	run := func(extra ...string) string {
+		args := append([]string{"--format", "ics", "--date", "2026-12-03", "--speed", "60", "--vehicles", filepath.Join(dir, "vans.csv")}, extra...)
+		code, out, errOut := runCmd(solveArgs(append(args, filepath.Join(dir, "sites.csv"))...)...)
+		require.Equal(t, 0, code, errOut)
+		return out
+	}
+	all := run()
+	assert.True(t, strings.HasPrefix(all, "BEGIN:VCALENDAR\r\nVERSION:2.0\r\nPRODID:"), all)
+	assert.True(t, strings.HasSuffix(all, "END:VCALENDAR\r\n"))
+	assert.NotContains(t, strings.ReplaceAll(all, "\r\n", ""), "\n", "every line ends in CRLF")
+	assert.Equal(t, 4, strings.Count(all, "BEGIN:VEVENT"), "the four visits, none for the hub")
+	assert.Equal(t, 2, strings.Count(all, "SUMMARY:Ada: "), all)
+	assert.Equal(t, 2, strings.Count(all, "SUMMARY:Bo: "), all)
+	assert.Contains(t, all, "DTSTART:20261203T")
+
+	one := run("--vehicle", "V2")
+	assert.Equal(t, 2, strings.Count(one, "BEGIN:VEVENT"), one)
+	assert.NotContains(t, one, "SUMMARY:Ada: ")
+
+	code, _, errOut := runCmd(solveArgs("--format", "ics", "--speed", "60", "--vehicles", filepath.Join(dir, "vans.csv"), "--vehicle", "V9", filepath.Join(dir, "sites.csv"))...)
+	assert.Equal(t, 1, code)
+	assert.Contains(t, errOut, `vehicle "V9": not a vehicle of this day`)
+}
+
 func TestSolveFleetOfOneKeepsRoute(t *testing.T) {
 	dir := writeFiles(t, map[string]string{"sites.csv": vanSites})
 	code, out, errOut := runCmd(solveArgs("--format", "json", "--speed", "60", "--fleet", "1", filepath.Join(dir, "sites.csv"))...)
@@ -106,7 +136,7 @@ func TestSolveFleetErrors(t *testing.T) {
 	}{
 		{"start not a site", []string{"--vehicles", filepath.Join(dir, "bad.csv")}, 1, "bad.csv:2:2: start: \"DEPOT\" is not a site"},
 		{"negative capacity", []string{"--vehicles", filepath.Join(dir, "neg.csv")}, 1, "neg.csv:2:3: capacity:"},
-		{"calendar output", []string{"--fleet", "2", "--format", "ics"}, 2, "--format ics: a day with several vehicles"},
+		{"vehicle without calendar", []string{"--fleet", "2", "--vehicle", "V1"}, 2, "--vehicle V1: picks one vehicle's calendar; use it with --format ics"},
 		{"minimize what", []string{"--fleet", "2", "--minimize", "travel"}, 2, "--minimize \"travel\""},
 		{"minimize without fleet", []string{"--minimize", "vehicles"}, 2, "needs a fleet"},
 	}

@@ -1,0 +1,100 @@
+package format
+
+import (
+	"errors"
+	"fmt"
+	"hash/fnv"
+	"io"
+	"math"
+	"strings"
+	"time"
+)
+
+// WriteFleetICS writes a team's plan as an iCalendar file (RFC 5545), one
+// event per visit from the start of service to its end, with the vehicle's
+// name (or id) first in each event's summary. vehicle, when not empty, is
+// the id of the one vehicle whose visits are written (a calendar to hand to
+// that driver or technician). Times are floating local times (section
+// 3.3.5, form 1), lines end in CRLF and are folded at 75 octets (3.1), as
+// WriteICS does for one vehicle.
+func WriteFleetICS(w io.Writer, d *FleetDataset, j FleetPlanReport, vehicle string, o ICSOptions) error {
+	if d.Unit == "" {
+		return errors.New("a calendar needs a sites file with clock times; a benchmark file does not say what its times are")
+	}
+	if o.Stamp.IsZero() {
+		return errors.New("a calendar needs the time it was made (DTSTAMP)")
+	}
+	base := d.Time.Origin
+	if d.Time.Mode != Dated {
+		if o.Date.IsZero() {
+			return errors.New("the sites file has no dates: say which day the plan is for")
+		}
+		y, m, dd := o.Date.Date()
+		base = time.Date(y, m, dd, 0, 0, 0, 0, time.UTC)
+	}
+	if vehicle != "" {
+		found := false
+		for _, v := range d.Problem.Vehicles {
+			found = found || v.ID == vehicle
+		}
+		if !found {
+			return fmt.Errorf("vehicle %s: not a vehicle of this day", clipQ(vehicle))
+		}
+	}
+	// Report times are minutes from the day's origin.
+	at := func(min float64) time.Time { return base.Add(time.Duration(math.Round(min*60)) * time.Second) }
+	const local = "20060102T150405"
+	var b strings.Builder
+	line := func(name, value string) { writeFolded(&b, name+":"+value) }
+	line("BEGIN", "VCALENDAR")
+	line("VERSION", "2.0")
+	line("PRODID", "-//Visitline//Visitline team plan//EN")
+	line("CALSCALE", "GREGORIAN")
+	line("METHOD", "PUBLISH")
+	stamp := o.Stamp.UTC().Format("20060102T150405Z")
+	day := base.Format("20060102")
+	for _, r := range j.Routes {
+		if vehicle != "" && r.Vehicle != vehicle {
+			continue
+		}
+		who := r.VehicleName
+		if who == "" {
+			who = r.Vehicle
+		}
+		for k, v := range r.Schedule {
+			h := fnv.New64a()
+			h.Write([]byte(r.Vehicle + "\x00" + v.ID))
+			line("BEGIN", "VEVENT")
+			line("UID", fmt.Sprintf("%s-%016x@visitline.invalid", day, h.Sum64()))
+			line("DTSTAMP", stamp)
+			line("DTSTART", at(v.Start).Format(local))
+			if v.Departure > v.Start {
+				line("DTEND", at(v.Departure).Format(local))
+			}
+			name := v.Name
+			if name == "" {
+				name = v.ID
+			}
+			line("SUMMARY", escapeText(fmt.Sprintf("%s: %s", who, name)))
+			desc := []string{fmt.Sprintf("Vehicle %s, visit %d of %d", r.Vehicle, k+1, len(r.Schedule)), "Site " + v.ID}
+			win := v.EarliestClock + " to " + v.LatestClock
+			if v.Latest == nil {
+				win = "from " + v.EarliestClock + ", no latest"
+			}
+			desc = append(desc, "Window "+win)
+			arr := "Arrive " + v.ArrivalClock
+			if v.ArrivalClock == "" {
+				arr = "Arrive " + at(v.Arrival).Format("15:04")
+			}
+			if v.Wait > 0 {
+				arr += fmt.Sprintf(", wait %s min", strings.TrimSuffix(strings.TrimRight(fmt.Sprintf("%.2f", v.Wait), "0"), "."))
+			}
+			desc = append(desc, arr, "Travel times are estimates: obey traffic law and working-time rules.")
+			line("DESCRIPTION", escapeText(strings.Join(desc, "\n")))
+			line("END", "VEVENT")
+		}
+	}
+	line("END", "VCALENDAR")
+	_, err := io.WriteString(w, b.String())
+	return err
+}
