@@ -489,12 +489,17 @@ func (e *Engine) export(m inbound) {
 		reply("", "no data is loaded")
 		return
 	}
-	if fd := e.fleetDay(); fd != nil {
-		reply("", "the calendar of a day with several vehicles is not written yet: export the CSV or the JSON")
-		return
-	}
 	if m.Format != "ics" {
 		reply("", fmt.Sprintf("format %q: want ics", m.Format))
+		return
+	}
+	if fd := e.fleetDay(); fd != nil {
+		text, err := fleetICS(fd, m)
+		if err != nil {
+			reply("", err.Error())
+			return
+		}
+		reply(text, "")
 		return
 	}
 	in := d.Instance

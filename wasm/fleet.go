@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"fmt"
 	"strconv"
 	"sync"
 	"time"
@@ -235,4 +236,56 @@ func (e *Engine) sendFleetPlan(run int, fd *format.FleetDataset, obj solver.Obje
 		}
 	}
 	e.send(m)
+}
+
+// fleetICS writes a fleet plan sent back by the page as a calendar: the
+// routes are rebuilt into a fleet.Plan (the visits in no route are the
+// unserved ones), checked by fleet.Evaluate, and written from the report
+// recomputed from them, not from the page's figures.
+func fleetICS(fd *format.FleetDataset, m inbound) (string, error) {
+	p := fd.Problem
+	pl := fleet.Plan{Routes: make([][]int, len(p.Vehicles))}
+	byID := map[string]int{}
+	for k, v := range p.Vehicles {
+		byID[v.ID] = k
+	}
+	in := map[int]bool{}
+	for _, r := range m.Routes {
+		k, ok := byID[r.Vehicle]
+		if !ok {
+			return "", fmt.Errorf("the plan does not fit the loaded data: vehicle %q is not in the vehicles table", r.Vehicle)
+		}
+		for _, v := range r.Visits {
+			if v < 0 || v >= p.N {
+				return "", fmt.Errorf("the plan does not fit the loaded data: node %d is not a site", v)
+			}
+			in[v] = true
+		}
+		pl.Routes[k] = append(pl.Routes[k], r.Visits...)
+	}
+	for _, v := range p.Visits() {
+		if !in[v] {
+			pl.Unserved = append(pl.Unserved, v)
+		}
+	}
+	rep, err := fleet.Evaluate(p, pl)
+	if err != nil {
+		return "", fmt.Errorf("the plan does not fit the loaded data: %v", err)
+	}
+	if !rep.Feasible {
+		return "", fmt.Errorf("the plan does not fit the loaded data: %v", rep.Problems)
+	}
+	var day time.Time
+	if m.Date != "" {
+		if day, err = time.Parse("2006-01-02", m.Date); err != nil {
+			return "", fmt.Errorf("day %q: want YYYY-MM-DD", m.Date)
+		}
+	}
+	obj, _ := solver.ParseObjective(m.Objective)
+	res := fleet.Result{Best: pl, Report: rep, Value: rep.Value(obj), Reasons: fleet.Reasons(p, rep.Unserved)}
+	var b bytes.Buffer
+	if err := format.WriteFleetICS(&b, fd, fd.PlanReport(obj, false, &res), m.Vehicle, format.ICSOptions{Date: day, Stamp: time.Now()}); err != nil {
+		return "", err
+	}
+	return b.String(), nil
 }

@@ -226,3 +226,46 @@ func TestEngineFleetStreamsPlans(t *testing.T) {
 		}
 	}
 }
+
+// A team's calendar from the worker: the plan's routes come back, are
+// checked by fleet.Evaluate and written as one iCalendar file (RFC 5545)
+// with the vehicle first in each event's summary, or one vehicle's only;
+// a route naming a vehicle not in the table is refused.
+func TestEngineFleetCalendar(t *testing.T) {
+	rec := newRecorder()
+	e := NewEngine(rec.post)
+	loadTeam(t, e, rec)
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0, "iterations": 200, "seed": 3}))
+	rec.wait(t, "finished")
+	p := rec.lastPlan()
+	var routes []map[string]any
+	served := 0
+	for _, r := range p["routes"].([]any) {
+		r := r.(map[string]any)
+		routes = append(routes, map[string]any{"vehicle": r["vehicle"], "visits": r["visits"]})
+		served += len(r["visits"].([]any))
+	}
+	require.NotEmpty(t, routes)
+	e.Handle(msg(t, map[string]any{"type": "export", "format": "ics", "routes": routes, "date": "2026-12-03"}))
+	x := rec.wait(t, "export")
+	require.Empty(t, x["error"])
+	text := x["text"].(string)
+	assert.True(t, strings.HasPrefix(text, "BEGIN:VCALENDAR\r\n"))
+	assert.Equal(t, served, strings.Count(text, "BEGIN:VEVENT"))
+	first := p["routes"].([]any)[0].(map[string]any)
+	name := first["vehicle_name"].(string)
+	assert.Equal(t, len(first["visits"].([]any)), strings.Count(text, "SUMMARY:"+name+": "), text)
+
+	rec2 := newRecorder()
+	e2 := NewEngine(rec2.post)
+	loadTeam(t, e2, rec2)
+	e2.Handle(msg(t, map[string]any{"type": "export", "format": "ics", "routes": routes, "vehicle": first["vehicle"], "date": "2026-12-03"}))
+	one := rec2.wait(t, "export")
+	assert.Equal(t, len(first["visits"].([]any)), strings.Count(one["text"].(string), "BEGIN:VEVENT"))
+
+	rec3 := newRecorder()
+	e3 := NewEngine(rec3.post)
+	loadTeam(t, e3, rec3)
+	e3.Handle(msg(t, map[string]any{"type": "export", "format": "ics", "routes": []any{map[string]any{"vehicle": "NOPE", "visits": []int{1}}}, "date": "2026-12-03"}))
+	assert.Contains(t, rec3.wait(t, "export")["error"], `vehicle "NOPE" is not in the vehicles table`)
+}

@@ -57,6 +57,11 @@
 //	    Write a plan of the loaded data (its route, 0-based nodes as in a
 //	    plan's "route") as an iCalendar file; date is the day for files
 //	    whose times carry no date. Replies "export".
+//	    A fleet day: "routes" ([{"vehicle":"T1","visits":[3,5]}, ...], as
+//	    in its plan) instead of "route", and "vehicle" (an id) for one
+//	    vehicle's calendar, else every vehicle's visits, each event's
+//	    summary beginning with the vehicle's name. The plan is checked
+//	    with fleet.Evaluate and its times recomputed.
 //
 // Worker to page:
 //
@@ -155,10 +160,20 @@ type inbound struct {
 	Worker int    `json:"worker"`
 	// adopt, export: a plan's route, 0-based nodes as in a plan's "route".
 	Route []int `json:"route"`
+	// export, a fleet day: the plan's routes (vehicle id and visits, as in
+	// its "routes") and, when not empty, the one vehicle to write.
+	Routes  []routeIn `json:"routes"`
+	Vehicle string    `json:"vehicle"`
 	// export: the format (ics) and the day of the plan, YYYY-MM-DD, for
 	// sites files whose times carry no date.
 	Format string `json:"format"`
 	Date   string `json:"date"`
+}
+
+// routeIn is one route of a fleet plan sent back for export.
+type routeIn struct {
+	Vehicle string `json:"vehicle"`
+	Visits  []int  `json:"visits"`
 }
 
 // Worker-to-page messages, one type each.

@@ -111,7 +111,15 @@ func TestPageFleetDayLanesUnservedAndExports(t *testing.T) {
 	require.NoError(t, err)
 	assert.Equal(t, format.FleetCSVHeader, recs[0])
 	assert.Len(t, recs, 1+p.Served+len(p.Unserved))
-	assert.True(t, eval[bool](t, ctx, `document.querySelector('[data-testid=export-ics]').disabled`), "no calendar for a team yet")
+	// The calendar: one event per visit served (RFC 5545 VEVENT), the
+	// vehicle's name first in each summary.
+	name, icsText := exportText(t, ctx, "export-ics")
+	assert.True(t, strings.HasSuffix(name, ".ics"), name)
+	assert.True(t, strings.HasPrefix(icsText, "BEGIN:VCALENDAR\r\n"), icsText)
+	assert.Equal(t, p.Served, strings.Count(icsText, "BEGIN:VEVENT"))
+	for _, r := range p.Routes {
+		assert.Equal(t, len(r.VisitIDs), strings.Count(icsText, "SUMMARY:"+r.VehicleName+": "), "events of %s", r.Vehicle)
+	}
 
 	screenshot(t, ctx, "fleet-1366")
 	viewport(t, ctx, 390, 844)

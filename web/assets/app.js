@@ -414,8 +414,8 @@ function showPlan(m) {
   for (const id in exporters) $(id).disabled = false;
   $("export-csv").disabled = !state.planCSV;
   const ics = $("export-ics");
-  ics.disabled = !(state.summary && state.summary.unit) || fleet;
-  ics.title = fleet ? "The calendar of a team's day is not written yet: take the CSV or the JSON." : ics.disabled ? "A calendar needs a sites file with clock times; this data has no times of day." : "";
+  ics.disabled = !(state.summary && state.summary.unit);
+  ics.title = ics.disabled ? "A calendar needs a sites file with clock times; this data has no times of day." : fleet ? "One calendar for the team: each event names its vehicle first." : "";
   if (fleet) $("why").hidden = true;
   else showWhy(p);
   drawUnserved(p);
@@ -563,7 +563,11 @@ const exporters = {
   "export-ics": () => {
     if (!state.plan) return;
     setStatus("Writing the calendar file…");
-    send({ type: "export", format: "ics", route: state.plan.route, date: $("ics-date").value, objective: state.plan.objective || $("objective").value });
+    const p = state.plan;
+    const m = { type: "export", format: "ics", date: $("ics-date").value, objective: p.objective || $("objective").value };
+    if (isFleetPlan(p)) m.routes = p.routes.map((r) => ({ vehicle: r.vehicle, visits: r.visits }));
+    else m.route = p.route;
+    send(m);
   },
   "print-plan": () => window.print(),
 };
