@@ -8,6 +8,7 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"strings"
 	"time"
 
 	"visitline/solver"
@@ -125,6 +126,19 @@ func solveFleet(path string, f *solveFlags, stdout, stderr io.Writer) error {
 	fd, err := loadFleet(path, f)
 	if err != nil {
 		return err
+	}
+	if v := f.fleet.vehicle; v != "" {
+		var ids []string
+		for _, x := range fd.Problem.Vehicles {
+			if x.ID == v {
+				ids = nil
+				break
+			}
+			ids = append(ids, x.ID)
+		}
+		if ids != nil {
+			return usageError{fmt.Sprintf("--vehicle %s: not a vehicle of this day; want one of %s", format.Printable(v), strings.Join(ids, ", "))}
+		}
 	}
 	for _, w := range fd.Warnings {
 		fmt.Fprintf(stderr, "warning: %s\n", w)

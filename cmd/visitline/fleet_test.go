@@ -98,8 +98,8 @@ func TestSolveVehiclesICS(t *testing.T) {
 	assert.NotContains(t, one, "SUMMARY:Ada: ")
 
 	code, _, errOut := runCmd(solveArgs("--format", "ics", "--speed", "60", "--vehicles", filepath.Join(dir, "vans.csv"), "--vehicle", "V9", filepath.Join(dir, "sites.csv"))...)
-	assert.Equal(t, 1, code)
-	assert.Contains(t, errOut, `vehicle "V9": not a vehicle of this day`)
+	assert.Equal(t, 2, code)
+	assert.Contains(t, errOut, "--vehicle V9: not a vehicle of this day; want one of V1, V2")
 }
 
 func TestSolveFleetOfOneKeepsRoute(t *testing.T) {
