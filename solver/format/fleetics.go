@@ -1,9 +1,7 @@
 package format
 
 import (
-	"errors"
 	"fmt"
-	"hash/fnv"
 	"io"
 	"math"
 	"strings"
@@ -18,19 +16,9 @@ import (
 // 3.3.5, form 1), lines end in CRLF and are folded at 75 octets (3.1), as
 // WriteICS does for one vehicle.
 func WriteFleetICS(w io.Writer, d *FleetDataset, j FleetPlanReport, vehicle string, o ICSOptions) error {
-	if d.Unit == "" {
-		return errors.New("a calendar needs a sites file with clock times; a benchmark file does not say what its times are")
-	}
-	if o.Stamp.IsZero() {
-		return errors.New("a calendar needs the time it was made (DTSTAMP)")
-	}
-	base := d.Time.Origin
-	if d.Time.Mode != Dated {
-		if o.Date.IsZero() {
-			return errors.New("the sites file has no dates: say which day the plan is for")
-		}
-		y, m, dd := o.Date.Date()
-		base = time.Date(y, m, dd, 0, 0, 0, 0, time.UTC)
+	base, err := icsDay(d.Unit, d.Time, o)
+	if err != nil {
+		return err
 	}
 	if vehicle != "" {
 		found := false
@@ -43,16 +31,9 @@ func WriteFleetICS(w io.Writer, d *FleetDataset, j FleetPlanReport, vehicle stri
 	}
 	// Report times are minutes from the day's origin.
 	at := func(min float64) time.Time { return base.Add(time.Duration(math.Round(min*60)) * time.Second) }
-	const local = "20060102T150405"
 	var b strings.Builder
 	line := func(name, value string) { writeFolded(&b, name+":"+value) }
-	line("BEGIN", "VCALENDAR")
-	line("VERSION", "2.0")
-	line("PRODID", "-//Visitline//Visitline team plan//EN")
-	line("CALSCALE", "GREGORIAN")
-	line("METHOD", "PUBLISH")
-	stamp := o.Stamp.UTC().Format("20060102T150405Z")
-	day := base.Format("20060102")
+	stamp, day := icsHeader(line, "team", base, o)
 	for _, r := range j.Routes {
 		if vehicle != "" && r.Vehicle != vehicle {
 			continue
@@ -62,15 +43,7 @@ func WriteFleetICS(w io.Writer, d *FleetDataset, j FleetPlanReport, vehicle stri
 			who = r.Vehicle
 		}
 		for k, v := range r.Schedule {
-			h := fnv.New64a()
-			h.Write([]byte(r.Vehicle + "\x00" + v.ID))
-			line("BEGIN", "VEVENT")
-			line("UID", fmt.Sprintf("%s-%016x@visitline.invalid", day, h.Sum64()))
-			line("DTSTAMP", stamp)
-			line("DTSTART", at(v.Start).Format(local))
-			if v.Departure > v.Start {
-				line("DTEND", at(v.Departure).Format(local))
-			}
+			icsEventStart(line, r.Vehicle+"\x00"+v.ID, day, stamp, at(v.Start), at(v.Departure))
 			name := v.Name
 			if name == "" {
 				name = v.ID
@@ -95,6 +68,6 @@ func WriteFleetICS(w io.Writer, d *FleetDataset, j FleetPlanReport, vehicle stri
 		}
 	}
 	line("END", "VCALENDAR")
-	_, err := io.WriteString(w, b.String())
+	_, err = io.WriteString(w, b.String())
 	return err
 }

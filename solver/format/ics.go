@@ -27,50 +27,23 @@ type ICSOptions struct {
 // Times are floating local times (RFC 5545 section 3.3.5, form 1), as in
 // the sites file. Lines end in CRLF and are folded at 75 octets (3.1).
 func WriteICS(w io.Writer, d *Dataset, p solver.Plan, o ICSOptions) error {
-	if d.Unit == "" {
-		return errors.New("a calendar needs a sites file with clock times; a benchmark file does not say what its times are")
-	}
-	if o.Stamp.IsZero() {
-		return errors.New("a calendar needs the time it was made (DTSTAMP)")
-	}
 	in := d.Instance
-	base := d.Time.Origin
-	if d.Time.Mode != Dated {
-		if o.Date.IsZero() {
-			return errors.New("the sites file has no dates: say which day the plan is for")
-		}
-		y, m, dd := o.Date.Date()
-		base = time.Date(y, m, dd, 0, 0, 0, 0, time.UTC)
+	base, err := icsDay(d.Unit, d.Time, o)
+	if err != nil {
+		return err
 	}
 	at := func(v int64) time.Time {
 		return base.Add(time.Duration((v+perSecond/2)/perSecond) * time.Second)
 	}
-	const local = "20060102T150405"
 	var b strings.Builder
 	line := func(name, value string) { writeFolded(&b, name+":"+value) }
-	line("BEGIN", "VCALENDAR")
-	line("VERSION", "2.0")
-	line("PRODID", "-//Visitline//Visitline route plan//EN")
-	line("CALSCALE", "GREGORIAN")
-	line("METHOD", "PUBLISH")
-	stamp := o.Stamp.UTC().Format("20060102T150405Z")
-	day := base.Format("20060102")
+	stamp, day := icsHeader(line, "route", base, o)
 	for k, v := range p.Schedule.Visits {
 		node := v.Node
 		if k == 0 && in.Service[node] == 0 {
 			continue
 		}
-		h := fnv.New64a()
-		h.Write([]byte(in.ID(node)))
-		line("BEGIN", "VEVENT")
-		line("UID", fmt.Sprintf("%s-%016x@visitline.invalid", day, h.Sum64()))
-		line("DTSTAMP", stamp)
-		line("DTSTART", at(v.Start).Format(local))
-		if v.Departure > v.Start {
-			// DTEND must be later than DTSTART (3.8.2.2); without it the
-			// event ends when it starts (3.6.1).
-			line("DTEND", at(v.Departure).Format(local))
-		}
+		icsEventStart(line, in.ID(node), day, stamp, at(v.Start), at(v.Departure))
 		summary := d.Name(node)
 		if v.Lateness > 0 {
 			summary = "LATE: " + summary
@@ -99,8 +72,59 @@ func WriteICS(w io.Writer, d *Dataset, p solver.Plan, o ICSOptions) error {
 		line("END", "VEVENT")
 	}
 	line("END", "VCALENDAR")
-	_, err := io.WriteString(w, b.String())
+	_, err = io.WriteString(w, b.String())
 	return err
+}
+
+// localForm is a floating local date-time (RFC 5545 section 3.3.5, form 1).
+const localForm = "20060102T150405"
+
+// icsDay checks what a calendar needs (clock times, a DTSTAMP) and gives
+// the midnight that report times count from: the file's own day, or
+// o.Date for files whose times carry no date.
+func icsDay(unit string, tb TimeBase, o ICSOptions) (time.Time, error) {
+	if unit == "" {
+		return time.Time{}, errors.New("a calendar needs a sites file with clock times; a benchmark file does not say what its times are")
+	}
+	if o.Stamp.IsZero() {
+		return time.Time{}, errors.New("a calendar needs the time it was made (DTSTAMP)")
+	}
+	if tb.Mode == Dated {
+		return tb.Origin, nil
+	}
+	if o.Date.IsZero() {
+		return time.Time{}, errors.New("the sites file has no dates: say which day the plan is for")
+	}
+	y, m, dd := o.Date.Date()
+	return time.Date(y, m, dd, 0, 0, 0, 0, time.UTC), nil
+}
+
+// icsHeader writes the VCALENDAR lines (section 3.6) and returns the
+// DTSTAMP value and the day as UIDs carry it.
+func icsHeader(line func(name, value string), what string, base time.Time, o ICSOptions) (stamp, day string) {
+	line("BEGIN", "VCALENDAR")
+	line("VERSION", "2.0")
+	line("PRODID", "-//Visitline//Visitline "+what+" plan//EN")
+	line("CALSCALE", "GREGORIAN")
+	line("METHOD", "PUBLISH")
+	return o.Stamp.UTC().Format("20060102T150405Z"), base.Format("20060102")
+}
+
+// icsEventStart opens a VEVENT: a UID from key (stable for the same visit
+// on the same day), DTSTAMP, DTSTART and, when the service takes time,
+// DTEND.
+func icsEventStart(line func(name, value string), key, day, stamp string, start, end time.Time) {
+	h := fnv.New64a()
+	h.Write([]byte(key))
+	line("BEGIN", "VEVENT")
+	line("UID", fmt.Sprintf("%s-%016x@visitline.invalid", day, h.Sum64()))
+	line("DTSTAMP", stamp)
+	line("DTSTART", start.Format(localForm))
+	if end.After(start) {
+		// DTEND must be later than DTSTART (3.8.2.2); without it the
+		// event ends when it starts (3.6.1).
+		line("DTEND", end.Format(localForm))
+	}
 }
 
 // escapeText escapes a TEXT value (RFC 5545 section 3.3.11): backslash,
