@@ -165,7 +165,7 @@ func (e *Engine) searchFleet(ctx context.Context, r *run, fd *format.FleetDatase
 	var mu sync.Mutex
 	obj, _ := solver.ParseObjective(o.Objective) // checked by startFleet
 	improved, iters := 0, 0
-	last := time.Time{}
+	last, lastPlan, every := time.Time{}, time.Time{}, planEvery(fd.Problem.N)
 	onImprove := func(p fleet.Progress) {
 		mu.Lock()
 		defer mu.Unlock()
@@ -177,7 +177,8 @@ func (e *Engine) searchFleet(ctx context.Context, r *run, fd *format.FleetDatase
 		last = time.Now()
 		e.send(progressMsg{Type: "progress", Run: r.id, Iterations: p.Iteration, Elapsed: p.Elapsed.Seconds(), BestCost: fd.Problem.InputUnits(p.Value.Cost),
 			Feasible: true, VehiclesUsed: p.Value.Vehicles, UnservedPriority: p.Value.Unserved, Phase: p.Phase})
-		if p.Plan != nil {
+		if p.Plan != nil && time.Since(lastPlan) >= every {
+			lastPlan = last
 			e.sendFleetPlan(r.id, fd, obj, minVeh, p)
 		}
 	}
@@ -216,13 +217,11 @@ func (e *Engine) searchFleet(ctx context.Context, r *run, fd *format.FleetDatase
 // sent, the final one reports the error). Days over 300 nodes get their
 // exports only with the last plan, as one-vehicle days do.
 func (e *Engine) sendFleetPlan(run int, fd *format.FleetDataset, obj solver.Objective, minVeh bool, p fleet.Progress) {
-	pl := p.Plan()
-	rep, err := fleet.Evaluate(fd.Problem, pl)
-	if err != nil || !rep.Feasible {
+	res, err := evaluated(fd.Problem, p.Plan(), obj)
+	if err != nil {
 		return
 	}
-	res := fleet.Result{Best: pl, Report: rep, Value: rep.Value(obj), Reasons: fleet.Reasons(fd.Problem, rep.Unserved),
-		Iterations: p.Iteration, Elapsed: p.Elapsed, ToBest: p.Elapsed}
+	res.Iterations, res.Elapsed, res.ToBest = p.Iteration, p.Elapsed, p.Elapsed
 	plan := fd.PlanReport(obj, minVeh, &res)
 	var js bytes.Buffer
 	if err := format.WriteFleetJSON(&js, plan); err != nil {
@@ -268,12 +267,10 @@ func fleetICS(fd *format.FleetDataset, m inbound) (string, error) {
 			pl.Unserved = append(pl.Unserved, v)
 		}
 	}
-	rep, err := fleet.Evaluate(p, pl)
+	obj, _ := solver.ParseObjective(m.Objective)
+	res, err := evaluated(p, pl, obj)
 	if err != nil {
 		return "", fmt.Errorf("the plan does not fit the loaded data: %v", err)
-	}
-	if !rep.Feasible {
-		return "", fmt.Errorf("the plan does not fit the loaded data: %v", rep.Problems)
 	}
 	var day time.Time
 	if m.Date != "" {
@@ -281,11 +278,23 @@ func fleetICS(fd *format.FleetDataset, m inbound) (string, error) {
 			return "", fmt.Errorf("day %q: want YYYY-MM-DD", m.Date)
 		}
 	}
-	obj, _ := solver.ParseObjective(m.Objective)
-	res := fleet.Result{Best: pl, Report: rep, Value: rep.Value(obj), Reasons: fleet.Reasons(p, rep.Unserved)}
 	var b bytes.Buffer
 	if err := format.WriteFleetICS(&b, fd, fd.PlanReport(obj, false, &res), m.Vehicle, format.ICSOptions{Date: day, Stamp: time.Now()}); err != nil {
 		return "", err
 	}
 	return b.String(), nil
+}
+
+// evaluated checks a plan from scratch with fleet.Evaluate and gives it as
+// a Result, with the reasons for its unserved visits, for PlanReport; a
+// plan that is not a plan of the day, or breaks a constraint, is an error.
+func evaluated(p *fleet.Problem, pl fleet.Plan, obj solver.Objective) (fleet.Result, error) {
+	rep, err := fleet.Evaluate(p, pl)
+	if err != nil {
+		return fleet.Result{}, err
+	}
+	if !rep.Feasible {
+		return fleet.Result{}, fmt.Errorf("%v", rep.Problems)
+	}
+	return fleet.Result{Best: pl, Report: rep, Value: rep.Value(obj), Reasons: fleet.Reasons(p, rep.Unserved)}, nil
 }

@@ -37,6 +37,15 @@ func withoutTimes(t *testing.T, text string) map[string]any {
 	return j
 }
 
+// teamEngine is a new worker engine with the boiler firm's team day loaded.
+func teamEngine(t *testing.T) (*Engine, *recorder) {
+	t.Helper()
+	rec := newRecorder()
+	e := NewEngine(rec.post)
+	loadTeam(t, e, rec)
+	return e, rec
+}
+
 func loadTeam(t *testing.T, e *Engine, rec *recorder) map[string]any {
 	t.Helper()
 	e.Handle(msg(t, map[string]any{"type": "load", "name": teamSitesName, "text": readFile(t, "../"+teamSitesName),
@@ -187,13 +196,11 @@ func evaluateFleetJSON(t *testing.T, fd *format.FleetDataset, got map[string]any
 
 // A team search streams its new best plans while it runs, not only at the
 // end: the construction's plan comes at once, later ones as they are
-// found (at most one every 50 ms), the last just before "finished"; each
+// found (held back as one-vehicle plans are), the last just before "finished"; each
 // is a plan of the day (fleet.Evaluate), its cost and vehicle count as it
 // claims, and the costs never rise.
 func TestEngineFleetStreamsPlans(t *testing.T) {
-	rec := newRecorder()
-	e := NewEngine(rec.post)
-	loadTeam(t, e, rec)
+	e, rec := teamEngine(t)
 	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0, "iterations": 400, "seed": 3}))
 	rec.wait(t, "finished")
 	fd, _, err := app.LoadFleet(app.FleetInput{Sites: readFile(t, "../"+teamSitesName), SitesName: teamSitesName,
@@ -232,9 +239,7 @@ func TestEngineFleetStreamsPlans(t *testing.T) {
 // with the vehicle first in each event's summary, or one vehicle's only;
 // a route naming a vehicle not in the table is refused.
 func TestEngineFleetCalendar(t *testing.T) {
-	rec := newRecorder()
-	e := NewEngine(rec.post)
-	loadTeam(t, e, rec)
+	e, rec := teamEngine(t)
 	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0, "iterations": 200, "seed": 3}))
 	rec.wait(t, "finished")
 	p := rec.lastPlan()
@@ -256,16 +261,12 @@ func TestEngineFleetCalendar(t *testing.T) {
 	name := first["vehicle_name"].(string)
 	assert.Equal(t, len(first["visits"].([]any)), strings.Count(text, "SUMMARY:"+name+": "), text)
 
-	rec2 := newRecorder()
-	e2 := NewEngine(rec2.post)
-	loadTeam(t, e2, rec2)
+	e2, rec2 := teamEngine(t)
 	e2.Handle(msg(t, map[string]any{"type": "export", "format": "ics", "routes": routes, "vehicle": first["vehicle"], "date": "2026-12-03"}))
 	one := rec2.wait(t, "export")
 	assert.Equal(t, len(first["visits"].([]any)), strings.Count(one["text"].(string), "BEGIN:VEVENT"))
 
-	rec3 := newRecorder()
-	e3 := NewEngine(rec3.post)
-	loadTeam(t, e3, rec3)
+	e3, rec3 := teamEngine(t)
 	e3.Handle(msg(t, map[string]any{"type": "export", "format": "ics", "routes": []any{map[string]any{"vehicle": "NOPE", "visits": []int{1}}}, "date": "2026-12-03"}))
 	assert.Contains(t, rec3.wait(t, "export")["error"], `vehicle "NOPE" is not in the vehicles table`)
 }

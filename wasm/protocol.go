@@ -83,8 +83,8 @@
 //	    the bound, and for a day that cannot be met conflict and reason.
 //	    A fleet day's progress comes with each new best and carries
 //	    vehicles_used, unserved_priority and phase; its plans stream as the
-//	    search finds them (the construction's at once, then at most one
-//	    every 50 ms, each checked by fleet.Evaluate first), and the best
+//	    search finds them (the construction's at once, then as often as
+//	    one-vehicle plans, each checked by fleet.Evaluate first), and the best
 //	    comes once more at the end.
 //	    For a fleet day, plan is the object `solve --format json` prints
 //	    for it (format.FleetPlanReport: vehicles_used, routes, unserved,
