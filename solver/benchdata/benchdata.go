@@ -60,6 +60,9 @@ func Read(r io.Reader, name string) ([]Known, error) {
 			tsplib = true
 			continue
 		}
+		if first && len(rec) >= 3 && strings.TrimSpace(rec[0]) == "instance" && strings.TrimSpace(rec[2]) == "vehicles" {
+			return nil, fmt.Errorf("%s:%d: this is the table of the team benchmark (instance,customers,vehicles,distance), read with team days in Solomon's format; for one-vehicle days want family,instance,best_known[,lower_bound,bound_from]", name, line)
+		}
 		if tsplib {
 			if len(rec) < 4 {
 				return nil, fmt.Errorf("%s:%d: want instance,type,nodes,optimal[,source], got %d fields", name, line, len(rec))

@@ -115,7 +115,13 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 	if *budget <= 0 && *iterations <= 0 {
 		return usageError{"set a --budget above 0 or an --iterations count"}
 	}
-	if files, err := collectFiles(fs.Args()); err == nil && isFleetBench(files) {
+	// The instances first: a path that does not exist is named as such,
+	// before the best-known file is read in the format the instances ask for.
+	files, err := collectFiles(fs.Args())
+	if err != nil {
+		return err
+	}
+	if isFleetBench(files) {
 		return benchFleet(files, fleetBenchOptions{budget: *budget, iterations: *iterations, seeds: *seeds, bounds: *bounds, jsonOut: *jsonOut,
 			quiet: *quiet, cpuBudget: *cpuBudget, command: benchCommand(args)}, stdout)
 	}
@@ -125,10 +131,6 @@ func runBench(args []string, stdout, stderr io.Writer) error {
 		if known, err = readBestKnown(*bounds); err != nil {
 			return err
 		}
-	}
-	files, err := collectFiles(fs.Args())
-	if err != nil {
-		return err
 	}
 	if len(files) == 0 {
 		return errors.New("no instance files found in the given paths")
@@ -355,8 +357,11 @@ func machine() string {
 
 func readBestKnown(path string) (map[string]bestKnown, error) {
 	ks, err := benchdata.Load(path)
-	if err != nil {
+	if errors.Is(err, os.ErrNotExist) || errors.Is(err, os.ErrPermission) {
 		return nil, fmt.Errorf("%s: cannot open: %w", path, unwrapPath(err))
+	}
+	if err != nil {
+		return nil, err
 	}
 	out := map[string]bestKnown{}
 	for _, k := range ks {

@@ -249,3 +249,17 @@ func TestReplaceBetweenOnlyUsesMarkerLines(t *testing.T) {
 	assert.Equal(t, "Use `<!-- bench:start -->` and `<!-- bench:end -->` in prose.\n\n<!-- bench:start -->\nnew table\n<!-- bench:end -->\nafter\n", string(data))
 	assert.ErrorContains(t, replaceBetween(p, "<!-- x:start -->", "<!-- x:end -->", "y"), "no line <!-- x:start -->")
 }
+
+// A missing instance path is named as missing, not reported as a fault of
+// the best-known file read in the wrong format for it.
+func TestBenchNamesMissingInstanceBeforeReadingBounds(t *testing.T) {
+	dir := t.TempDir()
+	bounds := filepath.Join(dir, "best-known.csv")
+	require.NoError(t, os.WriteFile(bounds, []byte("instance,customers,vehicles,distance,found\nc1_2_1,200,20,2704.5678,2001-01-01\n"), 0o644))
+	missing := filepath.Join(dir, "nothing-here.txt")
+	var out, errOut bytes.Buffer
+	code := Main([]string{"bench", "--budget", "1s", "--bounds", bounds, missing}, &out, &errOut)
+	assert.Equal(t, 1, code)
+	assert.Contains(t, errOut.String(), "nothing-here.txt: no such file or directory")
+	assert.NotContains(t, errOut.String(), "not a number")
+}
