@@ -252,7 +252,11 @@ function onLoaded(s) {
     send(st);
     return;
   }
-  if (s.fleet) showTeam(s.fleet, state.model);
+  if (s.fleet) {
+    showTeam(s.fleet, state.model);
+    // A team's day shows its section open, "fewest vehicles" in view.
+    $("team-box").open = true;
+  }
   setStatus("Loaded " + plural(s.sites, "visit", "visits") + (s.fleet ? " and " + plural(s.fleet.vehicles.length, "vehicle", "vehicles") : "") +
     " from " + (s.name || state.data.name) + ". Press Start to search.");
   if (state.restorePlan) {
