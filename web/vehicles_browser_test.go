@@ -104,3 +104,25 @@ func TestPageVehicleEditorThreeVehiclesStart(t *testing.T) {
 	view(t, ctx, "testout", "vehicle-editor-cards-390")
 	assert.LessOrEqual(t, eval[int](t, ctx, `document.documentElement.scrollWidth`), 390, "the editor fits a phone")
 }
+
+// What the editor wrote and nobody read yet comes back with a kept
+// session after a reload: the text box and its cards.
+func TestPageVehicleEditorKeptUnread(t *testing.T) {
+	ctx, _ := tab(t)
+	openPage(t, ctx, "")
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("keep-session"))))
+	paste(t, ctx, readText(t, filepath.Join("..", "testdata", "fleet", "boiler-team-sites.csv")))
+	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(chromedp.CSS(`#team-box > summary`))))
+	setField(t, ctx, "fleet-size", "2")
+	eval[bool](t, ctx, `(() => { const e = document.querySelector('[data-testid=vehicle-cards] li[data-row="1"] input[data-field="name"]');
+	  e.value = 'Petra'; e.dispatchEvent(new Event('input', {bubbles: true})); return true; })()`)
+	want := "id,name,start,end,shift start,shift end,capacity\n1,,,,,,\n2,Petra,,,,,\n"
+	require.Equal(t, want, eval[string](t, ctx, `document.querySelector('[data-testid=vehicles-input]').value`))
+	time.Sleep(1200 * time.Millisecond) // the page saves typing after 0.8 s
+	openPage(t, ctx, "")
+	waitFor(t, ctx, `document.getElementById('summary').textContent.includes('pasted text')`, 10*time.Second)
+	assert.Equal(t, want, eval[string](t, ctx, `document.querySelector('[data-testid=vehicles-input]').value`), "the editor's table is kept, unread")
+	assert.Equal(t, "Petra", eval[string](t, ctx, `document.querySelector('[data-testid=vehicle-cards] li[data-row="1"] input[data-field="name"]').value`))
+	assert.Equal(t, "2", eval[string](t, ctx, `document.querySelector('[data-testid=fleet-size]').value`))
+}
