@@ -199,12 +199,20 @@ func TestPageFleetStop(t *testing.T) {
 
 // A team's plan comes back from a share link and from the tab's kept
 // session: the vehicles, the "fewest vehicles" choice and the plan itself
-// (the same lanes and the same cost, before any new search).
+// (the same lanes and the same cost, before any new search). The choice
+// "came back unticked" because this test's click on it, in the closed
+// section, ticked nothing: the box is now ticked as a person would, and
+// checked before the link is made.
 func TestPageFleetPlanBackFromLinkAndKeptSession(t *testing.T) {
 	ctx, _ := tab(t)
 	openPage(t, ctx, "")
 	setField(t, ctx, "vehicles-input", readText(t, filepath.Join("..", "testdata", "fleet", "boiler-team-vehicles.csv")))
+	// The section is closed on a fresh page: open it as a person would,
+	// then tick the box (a click on a control in a closed section lands
+	// nowhere).
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(chromedp.CSS(`#team-box > summary`))))
 	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("fewest-vehicles"))))
+	require.True(t, eval[bool](t, ctx, `document.querySelector('[data-testid=fewest-vehicles]').checked`), "ticked")
 	paste(t, ctx, readText(t, filepath.Join("..", "testdata", "fleet", "boiler-team-sites.csv")))
 	waitFor(t, ctx, `!!document.querySelector('[data-testid=team-summary]')`, 10*time.Second)
 	run(t, ctx, "0.5")
@@ -221,6 +229,8 @@ func TestPageFleetPlanBackFromLinkAndKeptSession(t *testing.T) {
 	assert.Equal(t, wantLanes, eval[string](t, ctx, lanes), "the link's team plan is drawn")
 	assert.Equal(t, wantCost, eval[string](t, ctx, cost))
 	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=vehicles-input]').value`), "Marek")
+	assert.True(t, eval[bool](t, ctx, `document.querySelector('[data-testid=fewest-vehicles]').checked`), "the link's \"fewest vehicles\" comes back ticked")
+	assert.True(t, eval[bool](t, ctx, `document.querySelector('[data-testid=team-box]').open`), "a team's day shows its section open")
 
 	// Kept in the tab, it comes back after a reload.
 	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("keep-session"))))
@@ -230,4 +240,5 @@ func TestPageFleetPlanBackFromLinkAndKeptSession(t *testing.T) {
 	assert.Equal(t, wantLanes, eval[string](t, ctx, lanes), "the kept team plan is drawn")
 	assert.Equal(t, wantCost, eval[string](t, ctx, cost))
 	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=status]').textContent`), "kept session")
+	assert.True(t, eval[bool](t, ctx, `document.querySelector('[data-testid=fewest-vehicles]').checked`), "the kept \"fewest vehicles\" comes back ticked")
 }

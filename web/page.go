@@ -189,25 +189,47 @@ func dataPanel(ex []Example) g.Node {
 }
 
 // teamBox takes a day for several vehicles: a vehicles file (opened,
-// dropped with the sites or pasted) or a number of like vehicles from the
-// start site. Read with the sites by "Read the text" or a file.
+// dropped with the sites or pasted), or the table made and changed in
+// its small editor (web/assets/vehicle-editor.mjs), which writes the
+// text box below it. Read with the sites, and again at Start when it
+// changed.
 func teamBox() g.Node {
 	return h.Details(h.ID("team-box"), testid("team-box"), h.Class("more team"),
 		h.Summary(g.Text("Several vehicles")),
-		h.P(h.Class("help"), g.Text("Plan a team's day: give a vehicles file (id, name, start, end, shift start, shift end, capacity, max duration), "+
-			"or a number of like vehicles that leave the start site within its window. Sites may add demand and priority columns.")),
+		h.P(h.Class("help"), g.Text("Plan a team's day: open a vehicles file (id, name, start, end, shift start, shift end, capacity, max duration), "+
+			"or give a count of vehicles and set their shift and capacity here. Sites may add demand and priority columns.")),
 		h.Div(h.Class("row"),
 			h.Label(h.For("vehicles-file"), h.Class("file-pick small"), g.Text("Open a vehicles file"),
 				h.Input(h.Type("file"), h.ID("vehicles-file"), testid("vehicles-file"), h.Accept(".csv,.tsv,.txt,text/csv,text/plain"))),
-			h.Label(h.For("fleet-size"), h.Class("field-label inline"), g.Text("or like vehicles")),
-			h.Input(h.Type("number"), h.ID("fleet-size"), testid("fleet-size"), h.Min("0"), h.Max("200"), h.Step("1"), h.Placeholder("0"), g.Attr("inputmode", "numeric"), h.Class("fleet-size")),
 		),
-		h.Label(h.For("vehicles-input"), h.Class("field-label"), g.Text("Vehicles CSV, as text")),
+		h.FieldSet(h.Class("veh-editor"), testid("vehicles-editor"),
+			h.Legend(g.Text("The team, vehicle by vehicle")),
+			h.Div(h.Class("veh-all"),
+				h.Label(h.Class("veh-cell"), h.Span(h.Class("veh-lab"), g.Text("count")),
+					h.Input(h.Type("number"), h.ID("fleet-size"), testid("fleet-size"), h.Min("1"), h.Max("200"), h.Step("1"), h.Placeholder("1"),
+						g.Attr("inputmode", "numeric"), h.Class("fleet-size"))),
+				h.Label(h.Class("veh-cell"), h.Span(h.Class("veh-lab"), g.Text("shift start")),
+					h.Input(h.Type("text"), h.ID("all-shift-start"), testid("all-shift-start"), h.AutoComplete("off"), h.Placeholder("08:00"))),
+				h.Label(h.Class("veh-cell"), h.Span(h.Class("veh-lab"), g.Text("shift end")),
+					h.Input(h.Type("text"), h.ID("all-shift-end"), testid("all-shift-end"), h.AutoComplete("off"), h.Placeholder("16:00"))),
+				h.Label(h.Class("veh-cell"), h.Span(h.Class("veh-lab"), g.Text("capacity")),
+					h.Input(h.Type("text"), h.ID("all-capacity"), testid("all-capacity"), h.AutoComplete("off"), h.Placeholder("none"))),
+			),
+			h.Div(h.Class("row"),
+				h.Button(h.Type("button"), h.ID("vehicles-set-all"), testid("vehicles-set-all"), h.Class("secondary"), g.Text("Set on every vehicle")),
+			),
+			h.P(h.Class("help"), g.Text("The count makes the table (vehicles 1, 2, … from the start site) or adds and takes off vehicles at its end; "+
+				"the button puts this shift and capacity on every vehicle; each card changes one vehicle. Every change goes straight into the text below.")),
+			h.Ol(h.ID("vehicle-cards"), testid("vehicle-cards"), h.Class("veh-cards"), h.Aria("label", "Vehicles"), h.Hidden("")),
+			h.P(h.ID("veh-note"), testid("veh-note"), h.Class("help"), h.Role("status")),
+			h.Div(h.ID("vehicles-problems"), testid("vehicles-problems"), h.Class("errors veh-problems"), h.Role("alert"), h.Hidden("")),
+		),
+		h.Label(h.For("vehicles-input"), h.Class("field-label"), g.Text("Vehicles CSV, as text (the editor writes here)")),
 		h.Textarea(h.ID("vehicles-input"), testid("vehicles-input"), h.Rows("3"), g.Attr("spellcheck", "false"), h.AutoComplete("off"),
 			h.Placeholder("id,name,start,end,shift start,shift end,capacity\nT1,Ines,DEPOT,,07:30,16:00,5\n…")),
 		h.Label(h.Class("check"), h.Input(h.Type("checkbox"), h.ID("fewest-vehicles"), testid("fewest-vehicles")),
 			g.Text(" Use as few vehicles as the day allows, before the least driving")),
-		h.P(h.Class("help"), g.Text("Empty both to plan one vehicle. Read the sites again after a change here.")),
+		h.P(h.Class("help"), g.Text("Empty the text to plan one vehicle. Start reads the vehicles again when they changed since the sites were read.")),
 	)
 }
 

@@ -15,6 +15,7 @@ import { baseName, download } from "./exports.mjs";
 import { pack, unpack, linkPayload, isShareHash, LinkError, MAX_LINK } from "./share.mjs";
 import { KEEP_SENTENCE, keepWanted, setKeep, save, forget, startup, readKept } from "./session.mjs";
 import { connectEngine, defaultCores, MAX_CORES } from "./engine.mjs";
+import { wireVehicleEditor, vehiclesText, vehicleProblems, focusFirstProblem, editorSeesSites } from "./vehicle-editor.mjs";
 
 const state = {
   engine: null,
@@ -111,7 +112,7 @@ function currentData(name) {
   const vehicles = $("vehicles-input").value;
   return { name: name, text: $("paste-input").value, matrix: matrix,
     matrix_name: matrix.trim() ? state.matrixName || "pasted matrix" : "", options: readOptions(),
-    vehicles: vehicles, vehicles_name: vehicles.trim() ? state.vehiclesName || "pasted vehicles" : "", fleet: readFleetSize() };
+    vehicles: vehicles, vehicles_name: vehicles.trim() ? state.vehiclesName || "pasted vehicles" : "", fleet: vehicles.trim() ? 0 : readFleetSize() };
 }
 
 // readFleetSize is the number of like vehicles asked for (0: none).
@@ -125,9 +126,9 @@ function applyData(d) {
   $("matrix-input").value = d.matrix || "";
   state.matrixName = d.matrix_name || "";
   $("matrix-box").open = !!d.matrix;
-  $("vehicles-input").value = d.vehicles || "";
+  vehiclesText(d.vehicles);
   state.vehiclesName = d.vehicles_name || "";
-  $("fleet-size").value = d.fleet ? String(d.fleet) : "";
+  if (!(d.vehicles || "").trim()) $("fleet-size").value = d.fleet ? String(d.fleet) : "";
   if (d.vehicles || d.fleet) $("team-box").open = true;
   applyOptions(d.options);
 }
@@ -185,7 +186,7 @@ async function loadMatrixFile(file) {
 async function loadVehiclesFile(file) {
   if (!file) return;
   const read = decodeBytes(new Uint8Array(await file.arrayBuffer()));
-  $("vehicles-input").value = read.text;
+  vehiclesText(read.text);
   state.vehiclesName = file.name;
   $("team-box").open = true;
   setStatus("Vehicles " + file.name + " are ready: open or paste the sites, or read them again.");
@@ -246,13 +247,16 @@ function onLoaded(s) {
   $("start").disabled = false;
   $("share-link").disabled = false;
   document.body.dataset.loaded = "yes";
+  editorSeesSites();
+  if (s.fleet) showTeam(s.fleet, state.model);
   if (state.pendingStart) {
     const st = state.pendingStart;
     state.pendingStart = null;
     send(st);
     return;
   }
-  if (s.fleet) showTeam(s.fleet, state.model);
+  // A team's day shows its section open, "fewest vehicles" in view.
+  if (s.fleet) $("team-box").open = true;
   setStatus("Loaded " + plural(s.sites, "visit", "visits") + (s.fleet ? " and " + plural(s.fleet.vehicles.length, "vehicle", "vehicles") : "") +
     " from " + (s.name || state.data.name) + ". Press Start to search.");
   if (state.restorePlan) {
@@ -274,6 +278,7 @@ function onLoaded(s) {
       showWarnings(s.warnings || [], state.data.matrix_name, ["The text box holds your text as you left it; it was not read yet. Read it to use it."]);
     }
     if (d.matrix !== undefined) $("matrix-input").value = d.matrix;
+    if (d.vehicles !== undefined && d.vehicles !== (state.data.vehicles || "")) vehiclesText(d.vehicles);
   }
   saveSession();
 }
@@ -358,15 +363,25 @@ function start() {
     openExperts();
     return;
   }
+  const vp = vehicleProblems();
+  if (vp.length) {
+    setStatus(vp[0].message + (vp.length > 1 ? " (" + plural(vp.length - 1, "more problem", "more problems") + " under the vehicles)" : ""), "error");
+    focusFirstProblem();
+    return;
+  }
   if (state.engine && state.engine.setCores) state.engine.setCores(cores);
   state.budget = budget;
   document.body.dataset.run = "starting";
   const msg = { type: "start", budget: budget, seed: seed, mix: mix, fixed: $("fixed-mix").checked, objective: $("objective").value,
     fewest_late: $("fewest-late").checked, no_bound: !$("with-bound").checked, cores: cores, minimize: $("fewest-vehicles").checked ? "vehicles" : "" };
   const opts = readOptions();
-  if (state.data && !sameOptions(opts, state.data.options)) {
+  // The vehicles as the box and the editor have them now.
+  const cur = currentData("");
+  const team = { vehicles: cur.vehicles, vehicles_name: cur.vehicles_name, fleet: cur.fleet };
+  const teamChanged = state.data && (team.vehicles !== (state.data.vehicles || "") || team.fleet !== (state.data.fleet || 0));
+  if (state.data && (!sameOptions(opts, state.data.options) || teamChanged)) {
     state.pendingStart = msg;
-    loadData(Object.assign({}, state.data, { options: opts }), state.origin);
+    loadData(Object.assign({}, state.data, { options: opts }, team), state.origin);
     return;
   }
   send(msg);
@@ -604,7 +619,7 @@ function applySettings(st) {
 function snapshot() {
   return { data: state.data ? { name: state.data.name, text: state.data.text, matrix: state.data.matrix, matrix_name: state.data.matrix_name, options: state.data.options,
     vehicles: state.data.vehicles, vehicles_name: state.data.vehicles_name, fleet: state.data.fleet } : null,
-    origin: state.origin, draft: { text: $("paste-input").value, matrix: $("matrix-input").value }, options: readOptions(), settings: settings(),
+    origin: state.origin, draft: { text: $("paste-input").value, matrix: $("matrix-input").value, vehicles: $("vehicles-input").value }, options: readOptions(), settings: settings(),
     plan: state.plan ? { plan: state.plan, csv: state.planCSV, json: state.planJSON } : null, saved: Date.now() };
 }
 
@@ -632,6 +647,7 @@ function restore(snap, from) {
   } else if (snap.draft) {
     $("paste-input").value = snap.draft.text || "";
     $("matrix-input").value = snap.draft.matrix || "";
+    vehiclesText(snap.draft.vehicles || "");
     if (snap.options) applyOptions(snap.options);
     setStatus("The text box holds your text as you left it; it was not read yet.");
   }
@@ -827,6 +843,7 @@ function wire() {
   $("cores").value = String(defaultCores(navigator.hardwareConcurrency));
   $("cores").max = String(MAX_CORES);
   wireTimeline();
+  wireVehicleEditor({ summary: () => state.summary, changed: saveSoon });
   // The axis sticks under the run bar, whatever its height.
   const bar = document.querySelector(".runbar");
   const barHeight = () => document.documentElement.style.setProperty("--runbar-h", (innerWidth > 900 ? bar.offsetHeight : 0) + "px");
