@@ -1,6 +1,7 @@
 // Package lab measures the engine: it runs it on the published benchmark
 // collections (bench), on generated days of growing size (scale), compares
-// the WebAssembly build with the native one (wasm-speed), draws the charts
+// the WebAssembly build with the native one (wasm-speed), bounds a tour
+// from below (heldkarp), draws the charts
 // and rewrites the tables of docs/results.md between their marker
 // comments. It is the body of the visitline-lab command; the product
 // command, visitline, never imports it.
@@ -24,6 +25,8 @@ usage:
   visitline-lab scale [flags]          solve generated instances of growing size
   visitline-lab wasm-speed [flags] FILES
                                        compare the WebAssembly build's iteration rate with the native one
+  visitline-lab heldkarp [flags] FILES
+                                       Held-Karp (1-tree) lower bound on each closed tour's travel
 
 Each command takes -h for its flags. --readme FILE rewrites the part of FILE
 (docs/results.md) between the command's marker comments.
@@ -48,6 +51,8 @@ func run(args []string, stdout, stderr io.Writer) int {
 		err = runScale(args[1:], stdout, stderr)
 	case "wasm-speed":
 		err = runSpeed(args[1:], stdout, stderr)
+	case "heldkarp":
+		err = runHeldKarp(args[1:], stdout, stderr)
 	case "-h", "--help", "help":
 		fmt.Fprint(stdout, usage)
 		return 0
