@@ -498,9 +498,9 @@ function onProgress(m) {
     return;
   }
   state.lastProgress = m;
-  if (typeof m.vehicles_used === "number" && !state.plan) {
+  if (typeof m.vehicles_used === "number") {
     setStatus("Searching a team's day: so far " + plural(m.vehicles_used, "vehicle", "vehicles") + ", " + longDuration(m.best_cost, state.model) + ($("objective").value === "completion" ? " of completions" : " driving") +
-      (m.unserved_priority ? ", some visits not yet served" : ", every visit served") + ". The plan shows when the search ends.");
+      (m.unserved_priority ? ", some visits not yet served" : ", every visit served") + ".");
   }
   $("progress").value = Math.min(m.elapsed, state.budget);
   $("iterations").textContent = m.iterations.toLocaleString();
