@@ -13,7 +13,12 @@ import "visitline/solver"
 //
 // Only moves that touch a route changed since the last polish (the routes
 // the repair changed, then those the polish changed) are tried.
-func (s *state) polish() {
+//
+// Cross-exchange is the dearest of the moves (a stretch of each route
+// against every stretch beside a near visit of the other), so it is tried
+// only when deep is set: the search asks for it on plans that come close to
+// the best one, where the last per mille counts.
+func (s *state) polish(deep bool) {
 	active := make([]bool, len(s.routes))
 	for round := 0; round < 50; round++ {
 		any := false
@@ -36,7 +41,9 @@ func (s *state) polish() {
 		}
 		s.exchange()
 		s.twoOptStar()
-		s.crossExchange()
+		if deep {
+			s.crossExchange()
+		}
 		for r := range s.routes {
 			if active[r] {
 				s.twoOpt(r)
@@ -460,4 +467,11 @@ func (s *state) cross(a, i, b, j int) bool {
 	s.refresh(b)
 	s.countUsed()
 	return true
+}
+
+// markAllDirty has the next polish try moves on every route.
+func (s *state) markAllDirty() {
+	for r := range s.dirty {
+		s.dirty[r] = true
+	}
 }

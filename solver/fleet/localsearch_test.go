@@ -33,7 +33,7 @@ func TestPolishLeavesNoImprovingCrossExchange(t *testing.T) {
 			for r := range s.dirty {
 				s.dirty[r] = true
 			}
-			s.polish()
+			s.polish(true)
 			if equalPlans(before, s.plan()) {
 				break
 			}
