@@ -4,15 +4,21 @@ import "visitline/solver"
 
 // polish improves the plan by first-improvement local search until no
 // move helps: relocate a visit (within its route or to another), exchange
-// two visits of different routes, and 2-opt* (swap the tails of two routes
-// that end at the same place). Every move is judged in constant time (or,
+// two visits of different routes, 2-opt* (swap the tails of two routes
+// that end at the same place) and cross-exchange (swap stretches of up to
+// three visits between two routes). Every move is judged in constant time (or,
 // for a relocation within a route, by one incremental scan) with the
 // routes' segment summaries; only moves that keep every route feasible
 // are made.
 //
 // Only moves that touch a route changed since the last polish (the routes
 // the repair changed, then those the polish changed) are tried.
-func (s *state) polish() {
+//
+// Cross-exchange is the dearest of the moves (a stretch of each route
+// against every stretch beside a near visit of the other), so it is tried
+// only when deep is set: the search asks for it on plans that come close to
+// the best one, where the last per mille counts.
+func (s *state) polish(deep bool) {
 	active := make([]bool, len(s.routes))
 	for round := 0; round < 50; round++ {
 		any := false
@@ -35,6 +41,9 @@ func (s *state) polish() {
 		}
 		s.exchange()
 		s.twoOptStar()
+		if deep {
+			s.crossExchange()
+		}
 		for r := range s.routes {
 			if active[r] {
 				s.twoOpt(r)
@@ -342,4 +351,127 @@ func (s *state) twoOpt(a int) bool {
 		}
 	}
 	return improved
+}
+
+// crossMax is the longest stretch of visits a cross-exchange moves.
+const crossMax = 3
+
+// crossExchange swaps a stretch of up to crossMax visits of a changed
+// route with a stretch of up to crossMax visits of another route, either
+// of them possibly empty (Taillard et al. 1997, "A tabu search heuristic
+// for the vehicle routing problem with soft time windows"). The stretch of
+// route a that starts at visit v goes where a stretch of route b starts,
+// beside one of v's nearest visits; the best such swap is made where it
+// lowers the cost (one visit for one visit, or one visit moved alone, are
+// exchange's and relocate's).
+func (s *state) crossExchange() bool {
+	improved := false
+	for a := range s.routes {
+		if !s.active[a] {
+			continue
+		}
+	next:
+		for i := 0; i < len(s.routes[a]); i++ {
+			v := s.routes[a][i]
+			for _, w := range s.m.near[v] {
+				b := s.where[w]
+				if b < 0 || b == a {
+					continue
+				}
+				for _, j := range [2]int{s.pos[w], s.pos[w] + 1} {
+					if s.cross(a, i, b, j) {
+						improved = true
+						continue next
+					}
+				}
+			}
+		}
+	}
+	return improved
+}
+
+// cross makes the best swap of route a's stretch from i with route b's
+// stretch from j (each 0 to crossMax visits long), if one lowers the cost.
+func (s *state) cross(a, i, b, j int) bool {
+	m := s.m
+	ra, rb := s.routes[a], s.routes[b]
+	var sa, sb [crossMax + 1]solver.Seg
+	la := min(crossMax, len(ra)-i)
+	lb := min(crossMax, len(rb)-j)
+	for k := 1; k <= la; k++ {
+		if k == 1 {
+			sa[1] = m.unit[ra[i]]
+		} else {
+			sa[k] = solver.JoinSeg(sa[k-1], m.unit[ra[i+k-1]], m.tt(ra[i+k-2], ra[i+k-1]))
+		}
+	}
+	for k := 1; k <= lb; k++ {
+		if k == 1 {
+			sb[1] = m.unit[rb[j]]
+		} else {
+			sb[k] = solver.JoinSeg(sb[k-1], m.unit[rb[j+k-1]], m.tt(rb[j+k-2], rb[j+k-1]))
+		}
+	}
+	// with is route r's cost with its stretch [p, p+lp) replaced by the
+	// other route's stretch [q, q+lq) (summary x), and whether it holds.
+	with := func(r, p, lp int, x solver.Seg, other []int, q, lq int) (int64, bool) {
+		if len(s.routes[r])-lp+lq == 0 {
+			return 0, true
+		}
+		var y solver.Seg
+		if lq == 0 {
+			y = solver.JoinSeg(s.fwd[r][p], s.bwd[r][p+lp], m.tt(s.prevNode(r, p), s.nextNode(r, p+lp)))
+		} else {
+			y = solver.JoinSeg(s.fwd[r][p], x, m.tt(s.prevNode(r, p), other[q]))
+			if y.TW > 0 {
+				return 0, false
+			}
+			y = solver.JoinSeg(y, s.bwd[r][p+lp], m.tt(other[q+lq-1], s.nextNode(r, p+lp)))
+		}
+		return m.routeCost(y), m.ok(r, y)
+	}
+	best, bestA, bestB := s.rcost[a]+s.rcost[b], -1, -1
+	for x := 0; x <= la; x++ {
+		if x > 0 && sa[x].TW > 0 {
+			break
+		}
+		loadA := s.pload[a][i+x] - s.pload[a][i]
+		for y := 0; y <= lb; y++ {
+			if y > 0 && sb[y].TW > 0 {
+				break
+			}
+			if x+y <= 1 || x == 1 && y == 1 {
+				continue
+			}
+			loadB := s.pload[b][j+y] - s.pload[b][j]
+			if s.load[a]-loadA+loadB > m.veh[a].cap || s.load[b]-loadB+loadA > m.veh[b].cap {
+				continue
+			}
+			ca, okA := with(a, i, x, sb[y], rb, j, y)
+			if !okA || ca >= best {
+				continue
+			}
+			cb, okB := with(b, j, y, sa[x], ra, i, x)
+			if okB && ca+cb < best {
+				best, bestA, bestB = ca+cb, x, y
+			}
+		}
+	}
+	if bestA < 0 {
+		return false
+	}
+	na := append(append(append(make([]int, 0, len(ra)-bestA+bestB), ra[:i]...), rb[j:j+bestB]...), ra[i+bestA:]...)
+	nb := append(append(append(make([]int, 0, len(rb)-bestB+bestA), rb[:j]...), ra[i:i+bestA]...), rb[j+bestB:]...)
+	s.routes[a], s.routes[b] = na, nb
+	s.refresh(a)
+	s.refresh(b)
+	s.countUsed()
+	return true
+}
+
+// markAllDirty has the next polish try moves on every route.
+func (s *state) markAllDirty() {
+	for r := range s.dirty {
+		s.dirty[r] = true
+	}
 }

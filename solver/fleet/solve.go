@@ -113,7 +113,7 @@ func Solve(ctx context.Context, p *Problem, set Settings) (Result, error) {
 
 	cur := newState(m)
 	cur.repair(rng, 3, 0)
-	cur.polish()
+	cur.polish(true)
 	best := cur.clone()
 	bestV := best.value()
 	record := func(it int, phase string) {
@@ -218,8 +218,15 @@ func Solve(ctx context.Context, p *Problem, set Settings) (Result, error) {
 		cand.repair(rng, rp, noise)
 		candV := cand.value()
 		if candV.Unserved <= bestV.Unserved && cand.score(candV) < cand.score(bestV)+float64(bestV.Cost)*0.02 {
-			cand.polish()
+			cand.polish(false)
 			candV = cand.value()
+			if candV.Better(bestV, set.MinimizeVehicles) {
+				// A new best plan: the deep polish, with
+				// cross-exchange, on what the shallow one left.
+				cand.markAllDirty()
+				cand.polish(true)
+				candV = cand.value()
+			}
 		}
 		var reward float64
 		cs, ns := cur.score(curV), cand.score(candV)
