@@ -381,3 +381,20 @@ func TestEngineRejectsUnknownRole(t *testing.T) {
 	e.Handle(msg(t, map[string]any{"type": "start", "budget": 1, "role": "helper"}))
 	assert.Contains(t, r.wait(t, "failed")["message"], `role "helper"`)
 }
+
+// The hand-written plan message decodes to what encoding/json makes of
+// the same message, for texts with every kind of character a JSON string
+// must escape (and some it need not).
+func TestPlanMessageIsTheEncodedMessage(t *testing.T) {
+	js := []byte("{\n  \"cost\": 12.5,\n  \"route_ids\": [\"D\", \"a\\\"b\"],\n  \"name\": \"Caf\u00e9 \\\\ \\u001b\"\n}\n")
+	csv := []byte("order,site,name\r\n1,\"a\"\"b\",\"two\nlines\ttab\x01\x1b \\ caf\u00e9 \u2028 <&>\"\r\n")
+	got := map[string]any{}
+	require.NoError(t, json.Unmarshal(planMessage(7, js, csv), &got))
+	b, err := json.Marshal(planMsg{Type: "plan", Run: 7, Plan: json.RawMessage(js), CSV: string(csv), JSON: string(js)})
+	require.NoError(t, err)
+	want := map[string]any{}
+	require.NoError(t, json.Unmarshal(b, &want))
+	assert.Equal(t, want, got)
+	assert.Equal(t, string(csv), got["csv"])
+	assert.Equal(t, string(js), got["json"])
+}

@@ -425,7 +425,7 @@ func TestPageExampleRunTimelineTableExport(t *testing.T) {
 		chromedp.SetValue(byTestID("budget"), "1.5"),
 		chromedp.Click(byTestID("start"))))
 	waitFor(t, ctx, `document.querySelectorAll('[data-testid=timeline] [data-visit]').length > 0`, 10*time.Second)
-	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 15*time.Second)
+	waitFor(t, ctx, `document.body.dataset.run === "finished" && !document.body.dataset.drawing`, 15*time.Second)
 	screenshot(t, ctx, "3-finished")
 
 	_, js := exportText(t, ctx, "export-json")
@@ -600,7 +600,7 @@ func TestPageBadPasteShowsPlaceAndKeepsWorking(t *testing.T) {
 		chromedp.Click(byTestID("paste-load"))))
 	waitFor(t, ctx, `document.querySelector('[data-testid=errors]').hidden && !document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
 	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), "0.3"), chromedp.Click(byTestID("start"))))
-	waitFor(t, ctx, `document.body.dataset.run === "finished" && document.querySelectorAll('[data-testid=timeline] [data-visit]').length === 3`, 10*time.Second)
+	waitFor(t, ctx, `document.body.dataset.run === "finished" && !document.body.dataset.drawing && document.querySelectorAll('[data-testid=timeline] [data-visit]').length === 3`, 10*time.Second)
 }
 
 func TestPageOpenExampleFromAddress(t *testing.T) {
@@ -640,7 +640,7 @@ func TestSingleFileWorksFromDisk(t *testing.T) {
 	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(chromedp.ID("example-pick"), "warehouse/picks.txt"), chromedp.Click(byTestID("example-load"))))
 	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
 	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), "0.5"), chromedp.Click(byTestID("start"))))
-	waitFor(t, ctx, `document.body.dataset.run === "finished" && document.querySelectorAll('[data-testid=timeline] [data-visit]').length === 16`, 15*time.Second)
+	waitFor(t, ctx, `document.body.dataset.run === "finished" && !document.body.dataset.drawing && document.querySelectorAll('[data-testid=timeline] [data-visit]').length === 16`, 15*time.Second)
 	screenshot(t, ctx, "7-single-file")
 	for _, r := range rec.list() {
 		assert.True(t, strings.HasPrefix(r, "file://") || strings.HasPrefix(r, "data:") || strings.HasPrefix(r, "blob:"), "request from the single file: %s", r)
@@ -684,7 +684,7 @@ func TestMeasure(t *testing.T) {
 	// The engine alone, as the native run below: no bound beside it.
 	eval[bool](t, ctx, `document.querySelector('[data-testid=with-bound]').checked = false; true`)
 	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), fmt.Sprint(budget)), chromedp.Click(byTestID("start"))))
-	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 30*time.Second)
+	waitFor(t, ctx, `document.body.dataset.run === "finished" && !document.body.dataset.drawing`, 30*time.Second)
 	iters := eval[float64](t, ctx, `Number(document.getElementById('iterations').textContent.replace(/,/g, ''))`)
 	in, err := readBench(text)
 	require.NoError(t, err)
@@ -713,7 +713,7 @@ func TestPageSessionRestoredAndForgotten(t *testing.T) {
 	require.NoError(t, chromedp.Do(ctx,
 		chromedp.SetValue(byTestID("budget"), "0.4"),
 		chromedp.Click(byTestID("start"))))
-	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 10*time.Second)
+	waitFor(t, ctx, `document.body.dataset.run === "finished" && !document.body.dataset.drawing`, 10*time.Second)
 	rows := tableRows(t, ctx)
 	// Reload: data, settings and the best plan come back.
 	openPage(t, ctx, "")
@@ -782,7 +782,7 @@ func TestPagePrintsThirtyVisitsOnOnePage(t *testing.T) {
 		chromedp.Click(byTestID("paste-load"))))
 	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
 	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), "0.4"), chromedp.Click(byTestID("start"))))
-	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 10*time.Second)
+	waitFor(t, ctx, `document.body.dataset.run === "finished" && !document.body.dataset.drawing`, 10*time.Second)
 	for name, paper := range map[string]chromedp.PaperSize{"a4": chromedp.PaperA4, "letter": chromedp.PaperLetter} {
 		pdf, err := chromedp.Run(ctx, chromedp.PrintToPDF(chromedp.PDFPaper(paper), chromedp.PDFMargin(0.4),
 			func(p *page.PrintToPDFParams) { p.PrintBackground = ptr(true) }))
@@ -821,7 +821,7 @@ func TestPageFileAndDropLoadAndLatenessShows(t *testing.T) {
 	  return true; })()`)
 	waitFor(t, ctx, `document.getElementById('summary').textContent.includes('tight.txt')`, 10*time.Second)
 	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), "0.3"), chromedp.Click(byTestID("start"))))
-	waitFor(t, ctx, `document.body.dataset.run === "finished" && document.querySelectorAll('[data-testid=timeline] [data-visit]').length === 3`, 10*time.Second)
+	waitFor(t, ctx, `document.body.dataset.run === "finished" && !document.body.dataset.drawing && document.querySelectorAll('[data-testid=timeline] [data-visit]').length === 3`, 10*time.Second)
 	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=best-cost]').textContent`), "1 visit late")
 	assert.Equal(t, 1, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .visit.is-late .late').length`), "the late visit carries a lateness block")
 	assert.Equal(t, 1, eval[int](t, ctx, `document.querySelectorAll('[data-testid=plan-table] tr.is-late').length`))
@@ -839,7 +839,7 @@ func TestPageSitesExamplesWithClockTimesAndCalendar(t *testing.T) {
 	assert.Contains(t, summary, at435+" to", "times in the browser's locale")
 	assert.Contains(t, summary, "from matrix")
 	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), "1"), chromedp.Click(byTestID("start"))))
-	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 15*time.Second)
+	waitFor(t, ctx, `document.body.dataset.run === "finished" && !document.body.dataset.drawing`, 15*time.Second)
 	rows := tableRows(t, ctx)
 	col := tableColumns(t, ctx)
 	assert.Equal(t, "BAK", rows[0][col["Site"]])
@@ -865,7 +865,7 @@ func TestPageSitesExamplesWithClockTimesAndCalendar(t *testing.T) {
 	waitFor(t, ctx, `document.getElementById('summary').textContent.includes('ends at SOUTH')`, 10*time.Second)
 	assert.Equal(t, "site", eval[string](t, ctx, `document.querySelector('[data-testid=route-end]').value`))
 	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), "0.5"), chromedp.Click(byTestID("start"))))
-	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 15*time.Second)
+	waitFor(t, ctx, `document.body.dataset.run === "finished" && !document.body.dataset.drawing`, 15*time.Second)
 	visits := eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=timeline] [data-visit]')].map(e => e.dataset.visit)`)
 	require.NotEmpty(t, visits)
 	assert.Equal(t, "NORTH", visits[0])
@@ -878,7 +878,7 @@ func TestPageSitesExamplesWithClockTimesAndCalendar(t *testing.T) {
 	require.NoError(t, chromedp.Do(ctx, chromedp.SetValue(byTestID("budget"), "1"), chromedp.Click(byTestID("start"))))
 	// Generous: after its budget the engine still works on the lateness of
 	// a day that cannot be met.
-	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 60*time.Second)
+	waitFor(t, ctx, `document.body.dataset.run === "finished" && !document.body.dataset.drawing`, 60*time.Second)
 	assert.False(t, eval[bool](t, ctx, `document.querySelector('[data-testid=why]').hidden`))
 	why := eval[string](t, ctx, `document.querySelector('[data-testid=why]').textContent`)
 	assert.Regexp(t, `W\d+ by (\d+ min|\d+:\d\d h)`, why, "late visits named with their lateness in the file's unit")

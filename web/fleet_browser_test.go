@@ -192,7 +192,7 @@ func TestPageFleetStop(t *testing.T) {
 	waitFor(t, ctx, `document.body.dataset.run === "running"`, 10*time.Second)
 	time.Sleep(500 * time.Millisecond)
 	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("stop"))))
-	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 20*time.Second)
+	waitFor(t, ctx, `document.body.dataset.run === "finished" && !document.body.dataset.drawing`, 20*time.Second)
 	assert.Equal(t, "stopped", eval[string](t, ctx, `document.querySelector('[data-testid=status]').dataset.why`))
 	assert.Equal(t, 4, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .lane-head').length`), "the best plan so far is drawn")
 }

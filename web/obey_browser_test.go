@@ -263,7 +263,7 @@ func TestPageBudgetEndsAsBudget(t *testing.T) {
 	openPage(t, ctx, "")
 	loadPaste(t, ctx, text)
 	clickStart(t, ctx, "1", true)
-	waitFor(t, ctx, `document.body.dataset.run === "finished"`, 20*time.Second)
+	waitFor(t, ctx, `document.body.dataset.run === "finished" && !document.body.dataset.drawing`, 20*time.Second)
 	assert.Equal(t, "budget", eval[string](t, ctx, `document.querySelector('[data-testid=status]').dataset.why`))
 }
 

@@ -364,7 +364,10 @@ func planPanel() g.Node {
 		h.Div(h.ID("timeline"), testid("timeline"), h.Class("timeline"), h.Role("list"), h.Aria("label", "Visits in route order"),
 			h.P(h.Class("muted"), g.Text("The plan appears here as soon as the search finds one."))),
 		h.Div(h.ID("visit-detail"), testid("visit-detail"), h.Class("visit-detail"), h.Aria("live", "polite")),
-		h.Table(h.ID("plan-table"), testid("plan-table"),
+		// The table in a box that the browser may leave unlaid while it is
+		// out of view (CSS content-visibility): at 1,000 visits laying it out
+		// takes a tenth of a second or more, and it sits below the timeline.
+		h.Div(h.Class("table-wrap"), h.Table(h.ID("plan-table"), testid("plan-table"),
 			h.Caption(g.Text("The plan in words"), h.Span(h.ID("table-day"), testid("table-day"), h.Class("units"))),
 			h.THead(h.Tr(
 				h.Th(h.Scope("col"), h.Class("c-ord"), g.Text("Order")), h.Th(h.Scope("col"), h.Class("c-site"), g.Text("Site")),
@@ -374,7 +377,7 @@ func planPanel() g.Node {
 				h.Th(h.Scope("col"), h.Class("win-col"), g.Text("Window")), h.Th(h.Scope("col"), h.Class("c-slack"), g.Text("Slack")),
 			)),
 			h.TBody(),
-		),
+		)),
 	)
 }
 

@@ -7,8 +7,8 @@ import { $, el, setStatus } from "./dom.mjs";
 import { timeModel, costWords, boundWords, boundDetails, duration, longDuration, plural } from "./fmt.mjs";
 import { decodeBytes } from "./textin.mjs";
 import { readOptions, applyOptions, sameOptions, showSummary, showWarnings, showErrors, hideErrors } from "./input.mjs";
-import { drawTimeline, clearTimeline, wireTimeline } from "./timeline.mjs";
-import { drawTable, clearTable } from "./table.mjs";
+import { timelineDrawing, clearTimeline, wireTimeline } from "./timeline.mjs";
+import { tableDrawing, clearTable } from "./table.mjs";
 import { isFleetPlan, drawFleetTimeline, drawFleetTable, drawUnserved, fleetWords, vehicleColumn } from "./fleet.mjs";
 import { drawChart } from "./chart.mjs";
 import { baseName, download } from "./exports.mjs";
@@ -418,7 +418,8 @@ function onPlan(m) {
 function showPlan(m) {
   state.plan = m.plan;
   state.planCSV = m.csv || "";
-  state.planJSON = m.json || JSON.stringify(m.plan, null, 2);
+  // The worker's JSON export when it sent one; else written when asked for.
+  state.planJSON = m.json || "";
   const p = m.plan;
   const model = state.model;
   const late = p.late ? p.late.length : 0;
@@ -442,33 +443,91 @@ function showPlan(m) {
   drawSoon();
 }
 
-// drawSoon draws the best plan at the next frame: plans that arrive faster
-// than the page can draw them are skipped, not queued.
+// drawSoon draws the best plan soon: plans that arrive faster than the
+// page can draw them are skipped, not queued.
 // A timer, not an animation frame: frames do not come to a tab in the
 // background, and the plan must be there when the user comes back.
-// The wait grows with the drawing time (twice the last one), so that a big
-// day's plans, each taking a good part of a second to draw, leave the page
-// free for the user most of the time.
+// The wait grows with the drawing's own time (twice the last one).
 let drawTimer = 0;
 let lastDrawMs = 0;
 function drawSoon() {
   if (!drawTimer) drawTimer = setTimeout(drawNow, Math.max(30, 2 * lastDrawMs));
 }
+
+// A plan is drawn in slices of a few milliseconds, each a task of its own
+// (a MessageChannel message: not slowed in a background tab, as timers
+// are), so that clicks, weight changes and the engine's messages get in
+// between; the rows are built off the page and put on it at once at the
+// end, without any forced layout. A newer plan or a new run cancels the
+// drawing under way. body[data-drawing] is set while one is under way.
+const SLICE_MS = 8;
+let drawing = null;
+const slices = typeof MessageChannel === "function" ? new MessageChannel() : null;
+if (slices) slices.port1.onmessage = () => { if (drawing) drawing.next(); };
+function later() {
+  if (slices) slices.port2.postMessage(0);
+  else setTimeout(() => { if (drawing) drawing.next(); }, 0);
+}
+
+function cancelDrawing() {
+  if (!drawing) return;
+  drawing = null;
+  delete document.body.dataset.drawing;
+}
+
 function drawNow() {
   clearTimeout(drawTimer);
   drawTimer = 0;
+  cancelDrawing();
   if (!state.plan) return;
+  const plan = state.plan;
+  const model = state.model;
+  const fleet = isFleetPlan(plan);
   const t0 = performance.now();
-  const fleet = isFleetPlan(state.plan);
-  if (fleet) drawFleetTimeline(state.plan, state.model);
-  else drawTimeline(state.plan, state.model);
-  const t1 = performance.now();
-  if (!fleet) vehicleColumn(false);
-  if (fleet) drawFleetTable(state.plan, state.model);
-  else drawTable(state.plan, state.model);
-  $("plan-table").dataset.drawMs = String(Math.round(performance.now() - t1));
-  chart();
-  lastDrawMs = Math.min(2000, performance.now() - t0);
+  let busy = 0;
+  let parts = null; // the timeline's and the table's drawings, one vehicle
+  let stage = 0;
+  const job = {
+    next() {
+      if (drawing !== job) return;
+      const a = performance.now();
+      const deadline = a + SLICE_MS;
+      let done = false;
+      if (fleet) {
+        // A team's day: its lanes and table in one task.
+        drawFleetTimeline(plan, model);
+        drawFleetTable(plan, model);
+        done = true;
+      } else {
+        if (!parts) parts = [timelineDrawing(plan, model), tableDrawing(plan, model)];
+        while (stage < 2 && performance.now() < deadline && parts[stage].step(deadline)) stage++;
+        if (stage === 2) {
+          vehicleColumn(false);
+          parts[0].commit();
+          parts[1].commit();
+          done = true;
+        }
+      }
+      busy += performance.now() - a;
+      if (!done) {
+        later();
+        return;
+      }
+      drawing = null;
+      delete document.body.dataset.drawing;
+      chart();
+      const total = performance.now() - t0;
+      lastDrawMs = Math.min(2000, busy);
+      $("timeline").dataset.drawMs = String(Math.round(total * 10) / 10);
+      $("plan-table").dataset.drawMs = String(Math.round(total));
+      // The engine client sends the next plan no sooner than the page can
+      // draw it.
+      if (state.engine && state.engine.planDrawn) state.engine.planDrawn(total);
+    },
+  };
+  drawing = job;
+  document.body.dataset.drawing = "yes";
+  later();
 }
 
 function chart() {
@@ -525,8 +584,8 @@ function onMixAck(m) {
   else setStatus("Weights set: " + parts + ". They apply to the next search.");
 }
 
+// onFinished says so at once; the last plan is drawn after, in slices.
 function onFinished(m) {
-  drawNow();
   state.running = false;
   $("start").disabled = !state.summary;
   $("stop").disabled = true;
@@ -545,11 +604,15 @@ function onFinished(m) {
     error: "The search failed: " + (m.message || "unknown error"),
   };
   setStatus(why[m.why] || "Finished" + took + ".", m.why === "error" ? "error" : "done");
-  chart();
-  saveSession();
+  drawNow();
+  if (!state.plan) chart();
+  setTimeout(saveSession, 0);
 }
 
 function clearPlan() {
+  cancelDrawing();
+  clearTimeout(drawTimer);
+  drawTimer = 0;
   state.plan = null;
   state.planCSV = state.planJSON = "";
   $("best-cost").textContent = "–";
@@ -567,6 +630,13 @@ function clearPlan() {
 }
 
 // ---------- exports ----------
+// planJSON is the plan's JSON export: the worker's own, or the plan as the
+// page holds it (the bound's figures merged in).
+function planJSON() {
+  if (state.planJSON) return state.planJSON;
+  return state.plan ? JSON.stringify(state.plan, null, 2) + "\n" : "";
+}
+
 function saved(name, type, text) {
   download(name, type, text);
   setStatus("Saved " + name + " to your downloads.", "done");
@@ -574,7 +644,7 @@ function saved(name, type, text) {
 
 const exporters = {
   "export-csv": () => saved(baseName(state.data && state.data.name) + "-plan.csv", "text/csv", state.planCSV),
-  "export-json": () => saved(baseName(state.data && state.data.name) + "-plan.json", "application/json", state.planJSON),
+  "export-json": () => saved(baseName(state.data && state.data.name) + "-plan.json", "application/json", planJSON()),
   "export-ics": () => {
     if (!state.plan) return;
     setStatus("Writing the calendar file…");
@@ -620,7 +690,7 @@ function snapshot() {
   return { data: state.data ? { name: state.data.name, text: state.data.text, matrix: state.data.matrix, matrix_name: state.data.matrix_name, options: state.data.options,
     vehicles: state.data.vehicles, vehicles_name: state.data.vehicles_name, fleet: state.data.fleet } : null,
     origin: state.origin, draft: { text: $("paste-input").value, matrix: $("matrix-input").value, vehicles: $("vehicles-input").value }, options: readOptions(), settings: settings(),
-    plan: state.plan ? { plan: state.plan, csv: state.planCSV, json: state.planJSON } : null, saved: Date.now() };
+    plan: state.plan ? { plan: state.plan, csv: state.planCSV, json: planJSON() } : null, saved: Date.now() };
 }
 
 let saveTimer = 0;

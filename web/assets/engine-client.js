@@ -91,6 +91,7 @@
 
   function create(opts) {
     const onMessage = opts.onMessage;
+    const paced = !!opts.paced; // the page says when it has drawn a plan
     const client = { cores: clampCores(opts.cores || defaultCores()) };
     const src = sources();
     const workers = []; // index 0..: search workers; boundWorker apart
@@ -311,9 +312,9 @@
 
     function onPlan(w, m) {
       const p = m.plan;
-      // Large days' plans come without the exports but the last: the JSON
-      // one is the plan itself (the CSV stays with the last full plan).
-      if (typeof m.json !== "string") m.json = JSON.stringify(p, null, 2) + "\n";
+      // Large days' plans come without the exports but the last: the page
+      // writes the JSON one from the plan itself when it is asked for (the
+      // CSV stays with the last full plan).
       if (!better(p, run.best && run.best.plan, run.fewestLate)) return;
       run.best = m;
       run.bestFrom = w.kind === "bound" ? -1 : w.index;
@@ -344,14 +345,18 @@
         p.reason = v.reason;
         changed = true;
       }
-      if (changed) m.json = JSON.stringify(p, null, 2) + "\n";
+      if (changed) m.json = null; // the worker's export no longer says it all
     }
 
     // queuePlan posts the best plan to the page, at most one every
     // run.every ms (longer for large days), and at once when now is set.
+    // A page that draws in slices (paced) says when it has drawn a plan
+    // (planDrawn): none is sent while it draws one, and the next waits
+    // twice the drawing's time after it.
     function queuePlan(now) {
       run.pending = run.best;
-      const every = Math.max(50, 4 * (run.drawMs || 0));
+      if (run.drawing && !now) return; // planDrawn sends it
+      const every = paced ? Math.max(50, 2 * (run.drawMs || 0)) : Math.max(50, 4 * (run.drawMs || 0));
       const wait = every - (performance.now() - run.lastPost);
       if (now || wait <= 0) {
         flushPlan();
@@ -364,21 +369,42 @@
       }
     }
 
-    // flushPlan hands the pending plan to the page. The page draws it at
-    // once, which for a large day takes a while: the next plan waits four
-    // times as long as the page took (so drawing takes at most a fifth of
-    // the page's time, and clicks get in between).
+    // flushPlan hands the pending plan to the page. A page that is not
+    // paced draws it at once, which for a large day takes a while: the next
+    // plan waits four times as long as the page took (so drawing takes at
+    // most a fifth of the page's time, and clicks get in between).
     function flushPlan() {
       if (!run.pending) return;
       const m = run.pending;
       run.pending = null;
       const t0 = performance.now();
+      if (paced && !run.finished) {
+        run.drawing = true;
+        // Should the page never say (it dropped the plan), go on after 5 s.
+        const r = run;
+        clearTimeout(r.drawGuard);
+        r.drawGuard = setTimeout(function () { if (r.drawing) client.planDrawn(5000); }, 5000);
+      }
       onMessage(Object.assign({}, m, { run: run.id }));
       const t1 = performance.now();
-      run.drawMs = t1 - t0;
+      if (!paced) {
+        run.drawMs = t1 - t0;
+        client.lastDrawMs = run.drawMs;
+      }
       run.lastPost = t1;
-      client.lastDrawMs = run.drawMs;
     }
+
+    // planDrawn: the page has drawn the last plan it was given, in ms from
+    // the start of its drawing to the end.
+    client.planDrawn = function (ms) {
+      if (!run || !run.drawing) return;
+      run.drawing = false;
+      clearTimeout(run.drawGuard);
+      run.drawMs = Math.min(ms, 2000);
+      client.lastDrawMs = run.drawMs;
+      run.lastPost = performance.now();
+      if (run.pending && !run.finished) queuePlan(false);
+    };
 
     function sumIterations() {
       let n = 0;
@@ -439,6 +465,8 @@
         return;
       }
       run.finished = true;
+      run.drawing = false;
+      clearTimeout(run.drawGuard);
       if (run.timer) clearTimeout(run.timer);
       if (run.progressTimer) clearTimeout(run.progressTimer);
       if (run.best) {

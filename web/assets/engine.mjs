@@ -15,7 +15,7 @@ export function connectEngine(onMessage, cores, onFail) {
     return null;
   }
   try {
-    return api.create({ onMessage: onMessage, cores: cores });
+    return api.create({ onMessage: onMessage, cores: cores, paced: true });
   } catch (e) {
     onFail(e && e.message ? e.message : String(e));
     return null;

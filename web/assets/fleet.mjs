@@ -166,8 +166,6 @@ export function drawFleetTimeline(p, model) {
   tl.dataset.count = String(p.served);
   tl.dataset.lanes = String(p.routes.length);
   tl.dataset.buildMs = String(Math.round((performance.now() - t00) * 10) / 10);
-  void tl.offsetHeight;
-  tl.dataset.drawMs = String(Math.round((performance.now() - t00) * 10) / 10);
 }
 
 // drawUnserved lists the visits left out, each with its reason.

@@ -13,35 +13,54 @@ export function clearTable() {
   $("table-day").textContent = "";
 }
 
-export function drawTable(p, model) {
-  const body = $("plan-table").tBodies[0];
+// tableDrawing prepares plan p's table without touching the page: step
+// builds rows into a body of its own until performance.now() passes the
+// deadline and says whether all are built; commit() swaps it in.
+export function tableDrawing(p, model) {
+  const table = $("plan-table");
   const rows = planRows(p);
-  $("plan-table").classList.toggle("no-names", !rows.some((r) => r.v.name));
-  const day = dayHeading(model);
-  $("table-day").textContent = (day ? day + " · " : "") + (model.clock ? "times of day" : "times in the file's units") +
-    ", waits and slack in " + (model.minutes ? "minutes (H:MM from an hour)" : "the file's units");
   // Every clock in whole minutes, one format for all (the exports keep
   // the exact times).
   const c = (v) => clock(v, model);
-  const frag = document.createDocumentFragment();
-  for (const r of rows) {
-    const v = r.v;
-    const tr = document.createElement("tr");
-    if (v.lateness > 0) tr.className = "is-late";
-    const win = isOpen(v.latest) ? "from " + c(v.earliest, "window") : c(v.earliest, "window") + "–" + c(v.latest, "window");
-    let slack = isOpen(v.latest) ? "open" : duration(v.slack, model, "floor");
-    if (v.lateness > 0) slack = "late by " + duration(v.lateness, model, "ceil");
-    const cells = [r.ret ? "back" : String(r.order), v.id, v.name || "", c(v.arrival, "arrival"), c(v.start, "start"),
-      v.wait > 0 ? duration(v.wait, model) : "–", c(v.departure, "departure"), win, slack];
-    cells.forEach((text, i) => {
-      const td = document.createElement(i === 1 ? "th" : "td");
-      if (i === 1) td.scope = "row";
-      td.className = COLS[i];
-      td.textContent = text;
-      tr.appendChild(td);
-    });
-    frag.appendChild(tr);
-  }
-  body.textContent = "";
-  body.appendChild(frag);
+  const body = document.createElement("tbody");
+  let next = 0;
+  return {
+    step(deadline) {
+      while (next < rows.length) {
+        const r = rows[next++];
+        const v = r.v;
+        const tr = document.createElement("tr");
+        if (v.lateness > 0) tr.className = "is-late";
+        const win = isOpen(v.latest) ? "from " + c(v.earliest, "window") : c(v.earliest, "window") + "–" + c(v.latest, "window");
+        let slack = isOpen(v.latest) ? "open" : duration(v.slack, model, "floor");
+        if (v.lateness > 0) slack = "late by " + duration(v.lateness, model, "ceil");
+        const cells = [r.ret ? "back" : String(r.order), v.id, v.name || "", c(v.arrival, "arrival"), c(v.start, "start"),
+          v.wait > 0 ? duration(v.wait, model) : "–", c(v.departure, "departure"), win, slack];
+        cells.forEach((text, i) => {
+          const td = document.createElement(i === 1 ? "th" : "td");
+          if (i === 1) td.scope = "row";
+          td.className = COLS[i];
+          td.textContent = text;
+          tr.appendChild(td);
+        });
+        body.appendChild(tr);
+        if ((next & 15) === 0 && performance.now() > deadline) break;
+      }
+      return next >= rows.length;
+    },
+    commit() {
+      table.classList.toggle("no-names", !rows.some((r) => r.v.name));
+      const day = dayHeading(model);
+      $("table-day").textContent = (day ? day + " · " : "") + (model.clock ? "times of day" : "times in the file's units") +
+        ", waits and slack in " + (model.minutes ? "minutes (H:MM from an hour)" : "the file's units");
+      table.replaceChild(body, table.tBodies[0]);
+    },
+  };
+}
+
+// drawTable draws plan p's table at once.
+export function drawTable(p, model) {
+  const d = tableDrawing(p, model);
+  while (!d.step(Infinity));
+  d.commit();
 }

@@ -51,7 +51,7 @@ export function axisRow(tl, label, gutter, t0, t1, x, model) {
   axis.appendChild(el("div", "who", label));
   const tk = el("div", "track ticks");
   // About one tick per 80 px of track, so that the labels never overlap.
-  const trackPx = Math.max(120, (tl.clientWidth || 800) - gutter);
+  const trackPx = Math.max(120, (timelineWidth || tl.clientWidth || 800) - gutter);
   for (const t of ticks(t0, t1, model.clock, Math.max(2, Math.min(8, Math.floor(trackPx / 80))))) {
     const at = x(t);
     // Labels near an end of the track lean inwards, so none is cut off.
@@ -63,77 +63,109 @@ export function axisRow(tl, label, gutter, t0, t1, x, model) {
   return axis;
 }
 
-export function drawTimeline(p, model) {
-  const t00 = performance.now();
+// timelineWidth is the timeline's width as last laid out, kept by a
+// ResizeObserver (wireTimeline) so that drawing never forces a layout.
+let timelineWidth = 0;
+
+// timelineDrawing prepares the timeline of plan p without touching the
+// page: step(deadline) builds rows until performance.now() passes the
+// deadline and says whether all are built; commit() puts them on the page
+// at once (the old plan stays until then).
+export function timelineDrawing(p, model) {
   const rows = planRows(p);
   const tl = $("timeline");
   const [t0, t1] = axisSpan(rows);
   const span = t1 - t0;
   const x = (t) => ((Math.max(t0, Math.min(t1, t)) - t0) / span) * 100;
-  const focused = document.activeElement && document.activeElement.closest && document.activeElement.closest("[data-row]");
-  const focusRow = focused ? focused.dataset.row : null;
   const frag = document.createDocumentFragment();
   const dens = density(rows.length);
+  let busy = 0;
+  let next = 0;
+  let prevDep = null;
 
   frag.appendChild(axisRow(tl, "stop · site", dens === "full" ? 180 : 110, t0, t1, x, model));
 
-  // Rows as one HTML string: at 500 visits this is several times faster
-  // than building the nodes one by one. Every text goes through esc().
-  // The page's policy allows no style attributes in markup: positions are
-  // collected here and set through the style object after parsing.
-  const spots = [];
-  const pos = (a, b, minPct) => {
-    const left = x(a);
-    spots.push(left + "%", Math.max(minPct || 0, x(b) - left) + "%");
-    return "data-p";
+  // Rows as HTML strings, a slice at a time: at 500 visits this is several
+  // times faster than building the nodes one by one. Every text goes
+  // through esc(). The page's policy allows no style attributes in markup:
+  // positions are collected here and set through the style object after
+  // parsing.
+  function slice(deadline) {
+    const spots = [];
+    const pos = (a, b, minPct) => {
+      const left = x(a);
+      spots.push(left + "%", Math.max(minPct || 0, x(b) - left) + "%");
+      return "data-p";
+    };
+    const html = [];
+    while (next < rows.length) {
+      const r = rows[next++];
+      const v = r.v;
+      const text = esc(describeVisit(r, model));
+      const cls = "visit" + (r.ret ? " return" : "") + (v.lateness > 0 ? " is-late" : "") + (v.wait > 0 ? " has-wait" : "");
+      let h = '<div class="' + cls + '" role="listitem" tabindex="0" data-row="' + r.order + '" ' + (r.ret ? "data-return" : "data-visit") + '="' + esc(v.id) +
+        '" aria-label="' + text + '"><div class="who"><span class="ord">' +
+        (r.ret ? "↩" : r.order) + '</span><span class="sid">' + esc(v.id) + "</span>" + (v.name && dens === "full" ? '<span class="nm">' + esc(v.name) + "</span>" : "") +
+        '</div><div class="track">';
+      const open = isOpen(v.latest) || v.latest > t1;
+      h += '<span class="band' + (open ? " open-end" : "") + '" ' + pos(isOpen(v.earliest) ? t0 : v.earliest, open ? t1 : v.latest, 0.4) + "></span>";
+      if (prevDep !== null && v.arrival > prevDep) h += '<span class="drive" ' + pos(prevDep, v.arrival, 0) + "></span>";
+      if (v.wait > 0) h += '<span class="wait" ' + pos(v.arrival, v.start, 0.3) + "></span>";
+      if (v.lateness > 0) h += '<span class="late" ' + pos(v.latest, v.start, 0.6) + "></span>";
+      if (r.ret) h += '<span class="arrive" ' + pos(v.arrival, v.arrival, 0.5) + "></span>";
+      else if (r.order > 0) h += '<span class="service" ' + pos(v.start, v.departure, 0.5) + "></span>";
+      else h += '<span class="depart" ' + pos(v.departure, v.departure, 0.5) + "></span>";
+      html.push(h + "</div></div>");
+      prevDep = v.departure;
+      if ((next & 31) === 0 && performance.now() > deadline) break;
+    }
+    const body = document.createElement("template");
+    body.innerHTML = html.join("");
+    const marks = body.content.querySelectorAll("[data-p]");
+    for (let i = 0; i < marks.length; i++) {
+      const st = marks[i].style;
+      st.left = spots[2 * i];
+      st.width = spots[2 * i + 1];
+    }
+    frag.appendChild(body.content);
+  }
+
+  return {
+    step(deadline) {
+      const a = performance.now();
+      slice(deadline);
+      busy += performance.now() - a;
+      return next >= rows.length;
+    },
+    commit() {
+      const a = performance.now();
+      const focused = document.activeElement && document.activeElement.closest && document.activeElement.closest("[data-row]");
+      const focusRow = focused && tl.contains(focused) ? focused.dataset.row : null;
+      tl.textContent = "";
+      tl.className = "timeline rows-" + dens;
+      tl.appendChild(frag);
+      tl.dataset.count = String(p.schedule.length);
+      if (focusRow !== null) {
+        const again = tl.querySelector('[data-row="' + focusRow + '"]');
+        if (again) again.focus({ preventScroll: true });
+      }
+      busy += performance.now() - a;
+      // The script time the rows took, for the browser tests to report.
+      tl.dataset.buildMs = String(Math.round(busy * 10) / 10);
+    },
   };
-  const html = [];
-  let prevDep = null;
-  for (const r of rows) {
-    const v = r.v;
-    const text = esc(describeVisit(r, model));
-    const cls = "visit" + (r.ret ? " return" : "") + (v.lateness > 0 ? " is-late" : "") + (v.wait > 0 ? " has-wait" : "");
-    let h = '<div class="' + cls + '" role="listitem" tabindex="0" data-row="' + r.order + '" ' + (r.ret ? "data-return" : "data-visit") + '="' + esc(v.id) +
-      '" aria-label="' + text + '"><div class="who"><span class="ord">' +
-      (r.ret ? "↩" : r.order) + '</span><span class="sid">' + esc(v.id) + "</span>" + (v.name && dens === "full" ? '<span class="nm">' + esc(v.name) + "</span>" : "") +
-      '</div><div class="track">';
-    const open = isOpen(v.latest) || v.latest > t1;
-    h += '<span class="band' + (open ? " open-end" : "") + '" ' + pos(isOpen(v.earliest) ? t0 : v.earliest, open ? t1 : v.latest, 0.4) + "></span>";
-    if (prevDep !== null && v.arrival > prevDep) h += '<span class="drive" ' + pos(prevDep, v.arrival, 0) + "></span>";
-    if (v.wait > 0) h += '<span class="wait" ' + pos(v.arrival, v.start, 0.3) + "></span>";
-    if (v.lateness > 0) h += '<span class="late" ' + pos(v.latest, v.start, 0.6) + "></span>";
-    if (r.ret) h += '<span class="arrive" ' + pos(v.arrival, v.arrival, 0.5) + "></span>";
-    else if (r.order > 0) h += '<span class="service" ' + pos(v.start, v.departure, 0.5) + "></span>";
-    else h += '<span class="depart" ' + pos(v.departure, v.departure, 0.5) + "></span>";
-    html.push(h + "</div></div>");
-    prevDep = v.departure;
-  }
-  const body = document.createElement("template");
-  body.innerHTML = html.join("");
-  const marks = body.content.querySelectorAll("[data-p]");
-  for (let i = 0; i < marks.length; i++) {
-    const st = marks[i].style;
-    st.left = spots[2 * i];
-    st.width = spots[2 * i + 1];
-  }
-  frag.appendChild(body.content);
-  tl.textContent = "";
-  tl.className = "timeline rows-" + dens;
-  tl.appendChild(frag);
-  tl.dataset.count = String(p.schedule.length);
-  if (focusRow !== null) {
-    const again = tl.querySelector('[data-row="' + focusRow + '"]');
-    if (again) again.focus({ preventScroll: true });
-  }
-  // How long the drawing took, building the rows and then with the layout
-  // forced, for the browser tests to report.
-  tl.dataset.buildMs = String(Math.round((performance.now() - t00) * 10) / 10);
-  void tl.offsetHeight;
-  tl.dataset.drawMs = String(Math.round((performance.now() - t00) * 10) / 10);
+}
+
+// drawTimeline draws plan p's timeline at once.
+export function drawTimeline(p, model) {
+  const d = timelineDrawing(p, model);
+  while (!d.step(Infinity));
+  d.commit();
 }
 
 export function wireTimeline() {
   const tl = $("timeline");
+  if (typeof ResizeObserver === "function") new ResizeObserver(() => { timelineWidth = tl.clientWidth; }).observe(tl);
   const show = (ev) => {
     const row = ev.target.closest && ev.target.closest(".visit");
     if (row) $("visit-detail").textContent = row.getAttribute("aria-label");
