@@ -68,6 +68,18 @@ func Load(sites, matrix io.Reader, sitesName, matrixName string, o LoadOptions) 
 	return format.Load(sites, matrix, f)
 }
 
+// LoadProgress is Load with progress: progress is called as the readers
+// get through the input (see format.Options.Progress), and an error it
+// returns ends the load with that error (the web worker's cancel).
+func LoadProgress(sites, matrix io.Reader, sitesName, matrixName string, o LoadOptions, progress func(done, total int64) error) (*format.Dataset, error) {
+	f, err := o.Format(sitesName, matrixName)
+	if err != nil {
+		return nil, err
+	}
+	f.Progress = progress
+	return format.Load(sites, matrix, f)
+}
+
 // RunOptions say how to search: the command line's flags of the same
 // names, and the fields of the worker's start message.
 type RunOptions struct {
