@@ -72,19 +72,23 @@ func (m *model) lateRange() (lo, hi int) {
 
 // descendLateness relocates single visits, and swaps pairs, with full
 // re-evaluation until no move lowers (lateness, cost). It gives up after
-// maxEvals evaluations.
-func descendLateness(m *model, r []int, obj Objective, maxEvals int) (late, cost int64) {
+// maxEvals evaluations, or when halt (if set) says so: it is asked every
+// 64 evaluations, each of which walks the whole route.
+func descendLateness(m *model, r []int, obj Objective, maxEvals int, halt func() bool) (late, cost int64) {
 	in := m.in
 	lo, hi := m.lateRange()
 	late, cost = lateScore(in, r, obj, m.fewest)
 	cand := make([]int, len(r))
-	evals := 0
+	evals, steps := 0, 0
 	for improved := true; improved && evals < maxEvals; {
 		improved = false
 		for i := lo; i <= hi && evals < maxEvals; i++ {
 			for j := lo; j <= hi; j++ {
 				if j == i {
 					continue
+				}
+				if steps++; steps&63 == 1 && halt != nil && halt() {
+					return late, cost
 				}
 				copy(cand, r)
 				v := cand[i]
@@ -128,7 +132,8 @@ func (s *search) lateSearch(ctx context.Context, e *engine) {
 		return
 	}
 	evals := max(2000, min(40000, 4_000_000/len(cur)))
-	curL, curC := descendLateness(m, cur, m.obj, evals)
+	halt := func() bool { return e.interrupted(ctx) }
+	curL, curC := descendLateness(m, cur, m.obj, evals, halt)
 	e.offerExternal(cur, "lateness")
 	x := make([]int, len(cur))
 	for {
@@ -143,7 +148,7 @@ func (s *search) lateSearch(ctx context.Context, e *engine) {
 			j := lo + s.rng.Intn(hi-lo+1)
 			x[i], x[j] = x[j], x[i]
 		}
-		l, c := descendLateness(m, x, m.obj, evals)
+		l, c := descendLateness(m, x, m.obj, evals, halt)
 		if l < curL || l == curL && c <= curC {
 			if l < curL || c < curC {
 				e.offerExternal(x, "lateness")
@@ -154,10 +159,11 @@ func (s *search) lateSearch(ctx context.Context, e *engine) {
 	}
 }
 
-// minimiseLateness is the last polish of an infeasible best plan.
-func minimiseLateness(m *model, route []int, obj Objective) Plan {
+// minimiseLateness is the last polish of an infeasible best plan; halt
+// (when set) ends it early, with the best order found so far.
+func minimiseLateness(m *model, route []int, obj Objective, halt func() bool) Plan {
 	r := append([]int(nil), route...)
-	descendLateness(m, r, obj, max(2000, 20_000_000/len(r)))
+	descendLateness(m, r, obj, max(2000, 20_000_000/len(r)), halt)
 	s := Evaluate(m.in, r)
 	return Plan{Route: r, Schedule: s, Cost: s.Cost(obj), Feasible: s.Feasible}
 }

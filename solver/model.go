@@ -237,7 +237,7 @@ func buildModel(in *Instance, obj Objective, halt func() bool) (*model, error) {
 	}
 	m.buildArcs()
 	if debugMode == "" || debugMode == "normal" {
-		m.buildPrecedence()
+		m.buildPrecedence(halt)
 	} else {
 		m.before = make([][]uint64, n)
 		for u := range m.before {
@@ -340,7 +340,10 @@ func (m *model) buildArcs() {
 // Stretches of a route that would break a precedence are skipped by the
 // local search. With the triangle inequality broken this is a heuristic
 // filter only: it never makes a plan infeasible, it may hide a move.
-func (m *model) buildPrecedence() {
+//
+// halt (when set) is asked every 64 rows: rows not reached keep no
+// precedence, which is valid (the search only prunes less).
+func (m *model) buildPrecedence(halt func() bool) {
 	n := m.n
 	words := (n + 63) / 64
 	m.before = make([][]uint64, n)
@@ -351,8 +354,11 @@ func (m *model) buildPrecedence() {
 	if m.infeas {
 		return
 	}
-	for _, u := range m.movable {
+	for x, u := range m.movable {
 		turn.Due()
+		if halt != nil && x%64 == 0 && halt() {
+			return
+		}
 		for _, k := range m.movable {
 			if u != k && m.e[k]+m.s[k]+m.tk(k*n+u) > m.l[u] {
 				m.before[u][k>>6] |= 1 << (k & 63)

@@ -79,7 +79,14 @@ func Solve(ctx context.Context, in *Instance, s Settings) (Result, error) {
 		res.Best = e.planOf(identityRoute(m), 0, "construct")
 	}
 	if !res.Best.Feasible && ctx.Err() == nil {
-		p := minimiseLateness(m, res.Best.Route, s.Objective)
+		// The last polish gets a twentieth of the budget past its end, at
+		// most 100 ms (a large day's polish could take seconds).
+		var halt func() bool
+		if !e.deadline.IsZero() {
+			end := e.deadline.Add(min(s.Budget/20, 100*time.Millisecond))
+			halt = func() bool { return ctx.Err() != nil || !time.Now().Before(end) }
+		}
+		p := minimiseLateness(m, res.Best.Route, s.Objective, halt)
 		if e.better(p, res.Best) {
 			p.Iteration, p.Elapsed, p.Operator = e.iters, time.Since(e.start), "lateness"
 			res.Best = p
@@ -314,6 +321,12 @@ func (e *engine) giveTurn() {
 
 // interrupted is checked inside long steps (a polish of a big route): it
 // keeps progress and pauses flowing and says when the run must end now.
+// pastBudget says whether the time budget is over (without ending the
+// run: construction asks it to skip what it can do without).
+func (e *engine) pastBudget() bool {
+	return !e.deadline.IsZero() && !time.Now().Before(e.deadline)
+}
+
 func (e *engine) interrupted(ctx context.Context) bool {
 	e.mu.Lock()
 	defer e.mu.Unlock()

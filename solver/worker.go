@@ -57,12 +57,17 @@ func (e *engine) work(ctx context.Context, id int, seed int64) {
 
 	// Construction: windows by latest start, then drive time warp to zero.
 	s.cur = newRoute(m, constructOrder(m))
-	starts := [][]int32{greedyOrder(m)}
+	starts := []func(*model) []int32{greedyOrder}
 	if len(m.movable) >= nearestStartMin {
-		starts = append(starts, nearestOrder(m))
+		starts = append(starts, nearestOrder)
 	}
-	for _, r := range starts {
-		if alt := newRoute(m, r); alt.total().tw < s.cur.total().tw ||
+	for _, order := range starts {
+		// Each other start is quadratic: past the budget the first order
+		// has to do (the budget is then too short for a searched plan).
+		if e.pastBudget() {
+			break
+		}
+		if alt := newRoute(m, order(m)); alt.total().tw < s.cur.total().tw ||
 			alt.total().tw == s.cur.total().tw && m.cost(alt.total()) < m.cost(s.cur.total()) {
 			s.cur = alt
 		}

@@ -15,6 +15,7 @@ import (
 	"visitline/solver/app"
 	"visitline/solver/bound"
 	"visitline/solver/format"
+	"visitline/solver/turn"
 )
 
 // planEvery is the least time between two plans posted to the page, for a
@@ -38,7 +39,17 @@ type Engine struct {
 	fd  *format.FleetDataset // a fleet day (then d is its sites, or nil)
 	cur *run
 	ids int
+
+	// The load under way (its number and how to cancel it) and the
+	// highest load number the page has cancelled.
+	loading    int
+	loadCancel context.CancelFunc
+	cancelled  int
 }
+
+// readingEvery is the least time between two "reading" messages (a
+// variable for the tests, which set it to 0: a report at every step).
+var readingEvery = 100 * time.Millisecond
 
 type run struct {
 	id     int
@@ -78,6 +89,36 @@ func (e *Engine) Ready() {
 
 // Handle acts on one message from the page (JSON text).
 func (e *Engine) Handle(raw string) {
+	e.handle(raw, nil)
+}
+
+// HandleLoad acts on a load message whose text and matrix come apart from
+// the rest (raw, JSON text), so that a large paste is not decoded from
+// JSON.
+func (e *Engine) HandleLoad(raw, text, matrix string) {
+	e.handle(raw, &[2]string{text, matrix})
+}
+
+// CancelLoad gives up the load numbered id, and every earlier one: the
+// one reading stops at its next look at the clock, one still waiting is
+// skipped. id 0 cancels whatever load is under way. It may be called from
+// any goroutine, also while Handle is reading (the worker calls it from
+// the event loop's callback, which runs while the load gives its turns).
+func (e *Engine) CancelLoad(id int) {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	if id == 0 {
+		id = e.loading
+	}
+	if id > e.cancelled {
+		e.cancelled = id
+	}
+	if e.loadCancel != nil && e.loading <= e.cancelled {
+		e.loadCancel()
+	}
+}
+
+func (e *Engine) handle(raw string, big *[2]string) {
 	var m inbound
 	if err := json.Unmarshal([]byte(raw), &m); err != nil {
 		var te *json.UnmarshalTypeError
@@ -88,7 +129,12 @@ func (e *Engine) Handle(raw string) {
 		e.fail("message is not valid JSON: %s", format.JSONError(err))
 		return
 	}
+	if big != nil {
+		m.Text, m.Matrix = big[0], big[1]
+	}
 	switch m.Type {
+	case "cancel_load":
+		e.CancelLoad(m.LoadID)
 	case "load":
 		e.stopRun()
 		e.load(m)
@@ -104,7 +150,44 @@ func (e *Engine) Handle(raw string) {
 	case "export":
 		e.export(m)
 	default:
-		e.fail("unknown message type %q; want load, start, mix, adopt, stop or export", m.Type)
+		e.fail("unknown message type %q; want load, cancel_load, start, mix, adopt, stop or export", m.Type)
+	}
+}
+
+// beginLoad marks load id as under way and gives its context, or nil when
+// the page has cancelled it already.
+func (e *Engine) beginLoad(id int) context.Context {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	if id != 0 && id <= e.cancelled {
+		return nil
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	e.loading, e.loadCancel = id, cancel
+	return ctx
+}
+
+func (e *Engine) endLoad() {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	if e.loadCancel != nil {
+		e.loadCancel()
+	}
+	e.loading, e.loadCancel = 0, nil
+}
+
+// progress is the readers' progress callback of one load: it gives the
+// host a turn when one is due (so that a cancel gets in), reports
+// "reading" about every readingEvery, and ends the load when ctx is done.
+func (e *Engine) progress(ctx context.Context, id int) func(done, total int64) error {
+	last := time.Now() // a load over within readingEvery says nothing of it
+	return func(done, total int64) error {
+		turn.Due()
+		if now := time.Now(); now.Sub(last) >= readingEvery {
+			last = now
+			e.send(readingMsg{Type: "reading", LoadID: id, Done: done, Total: total})
+		}
+		return ctx.Err()
 	}
 }
 
@@ -113,8 +196,14 @@ func (e *Engine) load(m inbound) {
 	if name == "" {
 		name = "pasted text"
 	}
+	ctx := e.beginLoad(m.LoadID)
+	if ctx == nil {
+		e.send(loadCancelledMsg{Type: "load_cancelled", LoadID: m.LoadID})
+		return
+	}
+	defer e.endLoad()
 	if strings.TrimSpace(m.Text) == "" {
-		e.send(errorsMsg{Type: "errors", Errors: []InputError{{File: name, Line: 1, Message: "there is no data: paste a matrix or CSV, or choose a file",
+		e.send(errorsMsg{Type: "errors", LoadID: m.LoadID, Errors: []InputError{{File: name, Line: 1, Message: "there is no data: paste a matrix or CSV, or choose a file",
 			Text: name + ":1: there is no data: paste a matrix or CSV, or choose a file"}}})
 		return
 	}
@@ -128,22 +217,34 @@ func (e *Engine) load(m inbound) {
 	}
 	var d *format.Dataset
 	var err error
+	progress := e.progress(ctx, m.LoadID)
 	if matrix != nil {
-		d, err = app.Load(strings.NewReader(m.Text), matrix, name, m.MatrixName, m.Options)
+		d, err = app.LoadProgress(strings.NewReader(m.Text), matrix, name, m.MatrixName, m.Options, progress)
 	} else {
-		d, err = app.Load(strings.NewReader(m.Text), nil, name, m.MatrixName, m.Options)
+		d, err = app.LoadProgress(strings.NewReader(m.Text), nil, name, m.MatrixName, m.Options, progress)
+	}
+	if ctx.Err() != nil {
+		// Cancelled: whatever was loaded before stays, as if this load
+		// had never been asked for.
+		e.send(loadCancelledMsg{Type: "load_cancelled", LoadID: m.LoadID})
+		return
 	}
 	if err != nil {
 		e.mu.Lock()
 		e.d, e.fd = nil, nil
 		e.mu.Unlock()
-		e.send(errorsMsg{Type: "errors", Errors: inputErrors(err, name)})
+		e.send(errorsMsg{Type: "errors", LoadID: m.LoadID, Errors: inputErrors(err, name)})
+		return
+	}
+	s := SummariseDataset(d)
+	if ctx.Err() != nil {
+		e.send(loadCancelledMsg{Type: "load_cancelled", LoadID: m.LoadID})
 		return
 	}
 	e.mu.Lock()
 	e.d, e.fd = d, nil
 	e.mu.Unlock()
-	e.send(loadedMsg{Type: "loaded", Summary: SummariseDataset(d)})
+	e.send(loadedMsg{Type: "loaded", LoadID: m.LoadID, Summary: s})
 }
 
 func (e *Engine) start(m inbound) {

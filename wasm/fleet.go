@@ -112,13 +112,13 @@ func (e *Engine) loadFleet(m inbound, name string) {
 		e.mu.Lock()
 		e.d, e.fd = nil, nil
 		e.mu.Unlock()
-		e.send(errorsMsg{Type: "errors", Errors: inputErrors(err, name)})
+		e.send(errorsMsg{Type: "errors", LoadID: m.LoadID, Errors: inputErrors(err, name)})
 		return
 	}
 	e.mu.Lock()
 	e.d, e.fd = d, fd
 	e.mu.Unlock()
-	e.send(loadedMsg{Type: "loaded", Summary: SummariseFleet(fd, d)})
+	e.send(loadedMsg{Type: "loaded", LoadID: m.LoadID, Summary: SummariseFleet(fd, d)})
 }
 
 // startFleet runs a fleet day's search through app.RunFleet, as `solve`

@@ -25,6 +25,20 @@
 //	    "vehicles_name", or "fleet" (N identical vehicles), as --vehicles
 //	    and --fleet; a text in Solomon's format is one by content. Its
 //	    summary carries "fleet" (the vehicles), through app.LoadFleet.
+//	    Also "load_id", the page's number for this load, echoed in every
+//	    reply to it. While it reads, the worker replies "reading" about
+//	    every 100 ms, and gives the event loop a turn about every 20 ms so
+//	    that a "cancel_load" is taken at once.
+//	    worker.js passes "text" and "matrix" to the engine apart from the
+//	    rest of the message (Engine.HandleLoad), so that a large paste is
+//	    not decoded from JSON.
+//	{"type":"cancel_load", "load_id":3}
+//	    Give up the load with that number (and any earlier one), whether it
+//	    is reading or still waiting: the data loaded before it stays
+//	    loaded, as if the load had never been asked for. worker.js hands it
+//	    to the engine at once (Engine.CancelLoad), not behind the load.
+//	    Replies "load_cancelled" if the load was given up (nothing if it
+//	    had already ended: its "loaded" or "errors" went first).
 //	{"type":"start", "budget":10, "seed":1, "mix":{"random":1,...}, "fixed":false, "objective":"travel",
 //	 "fewest_late":false, "no_bound":false}
 //	    Search the loaded instance for budget seconds (0 < budget <= 3600)
@@ -67,6 +81,11 @@
 //
 //	{"type":"ready", "operators":["random",...]}
 //	    The engine is up; operators are the names of the --mix weights.
+//	{"type":"reading", "load_id":3, "done":1048576, "total":33743601}
+//	    How far a load has got: bytes of the input read (a travel matrix
+//	    counts twice: it is read in two passes); total is 0 when unknown.
+//	{"type":"load_cancelled", "load_id":3}
+//	    The load was given up; the data loaded before it is still loaded.
 //	{"type":"loaded", "summary":{...}}
 //	    See Summary; its warnings are suspicious but legal input.
 //	{"type":"errors", "errors":[{"file","line","column","field","message","text"}]}
@@ -146,6 +165,9 @@ type inbound struct {
 	Vehicles     string `json:"vehicles"`
 	VehiclesName string `json:"vehicles_name"`
 	Fleet        int    `json:"fleet"`
+	// load, cancel_load: the page's number for this load, echoed in the
+	// replies ("reading", "loaded", "errors", "load_cancelled").
+	LoadID int `json:"load_id"`
 	// start, a fleet day: "vehicles" uses as few vehicles as it can
 	// before the travel (--minimize vehicles).
 	Minimize string `json:"minimize"`
@@ -184,11 +206,23 @@ type (
 	}
 	loadedMsg struct {
 		Type    string  `json:"type"`
+		LoadID  int     `json:"load_id,omitempty"`
 		Summary Summary `json:"summary"`
 	}
 	errorsMsg struct {
 		Type   string       `json:"type"`
+		LoadID int          `json:"load_id,omitempty"`
 		Errors []InputError `json:"errors"`
+	}
+	readingMsg struct {
+		Type   string `json:"type"`
+		LoadID int    `json:"load_id,omitempty"`
+		Done   int64  `json:"done"`
+		Total  int64  `json:"total"`
+	}
+	loadCancelledMsg struct {
+		Type   string `json:"type"`
+		LoadID int    `json:"load_id,omitempty"`
 	}
 	startedMsg struct {
 		Type      string             `json:"type"`

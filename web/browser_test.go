@@ -171,6 +171,12 @@ func chromiumPath() string {
 // page and its worker make.
 func tab(t *testing.T) (context.Context, *requests) {
 	t.Helper()
+	return tabFor(t, 90*time.Second)
+}
+
+// tabFor is tab for a test that may take up to d.
+func tabFor(t *testing.T, d time.Duration) (context.Context, *requests) {
+	t.Helper()
 	path := chromiumPath()
 	if path == "" {
 		if os.Getenv("CI") == "true" {
@@ -208,7 +214,7 @@ func tab(t *testing.T) (context.Context, *requests) {
 	// A browser context of its own per test: storage starts empty.
 	ctx, cancel := chromedp.NewContext(shared.browser, chromedp.WithNewBrowserContext())
 	t.Cleanup(cancel)
-	ctx, cancel2 := context.WithTimeout(ctx, 90*time.Second)
+	ctx, cancel2 := context.WithTimeout(ctx, d)
 	t.Cleanup(cancel2)
 	require.NoError(t, chromedp.Do(ctx, chromedp.Navigate("about:blank")))
 	rec := &requests{from: &shared.seen, mark: len(shared.seen.list())}

@@ -68,6 +68,18 @@ func Load(sites, matrix io.Reader, sitesName, matrixName string, o LoadOptions) 
 	return format.Load(sites, matrix, f)
 }
 
+// LoadProgress is Load with progress: progress is called as the readers
+// get through the input (see format.Options.Progress), and an error it
+// returns ends the load with that error (the web worker's cancel).
+func LoadProgress(sites, matrix io.Reader, sitesName, matrixName string, o LoadOptions, progress func(done, total int64) error) (*format.Dataset, error) {
+	f, err := o.Format(sitesName, matrixName)
+	if err != nil {
+		return nil, err
+	}
+	f.Progress = progress
+	return format.Load(sites, matrix, f)
+}
+
 // RunOptions say how to search: the command line's flags of the same
 // names, and the fields of the worker's start message.
 type RunOptions struct {
@@ -163,6 +175,7 @@ func Run(ctx context.Context, d *format.Dataset, o RunOptions, h Hooks) (Outcome
 	s.OnImprove, s.OnProgress, s.MixUpdates, s.Adopt, s.ProgressEvery = h.OnImprove, h.OnProgress, h.MixUpdates, h.Adopt, h.ProgressEvery
 	in := d.Instance
 	var out Outcome
+	began := time.Now()
 	if o.NoBound {
 		out.Result, err = solver.Solve(ctx, in, s)
 	} else {
@@ -180,7 +193,9 @@ func Run(ctx context.Context, d *format.Dataset, o RunOptions, h Hooks) (Outcome
 			if h.OnExplaining != nil {
 				h.OnExplaining()
 			}
-			Explain(ctx, &out.Plan, d, ExplainLimit(s.Budget))
+			if limit := explainTime(s.Budget, time.Since(began)); limit > 0 {
+				Explain(ctx, &out.Plan, d, limit)
+			}
 		}
 	}
 	if s.Budget > 0 && res.FirstPlan > s.Budget {
@@ -203,6 +218,18 @@ func ExplainLimit(budget time.Duration) time.Duration {
 		return 5 * time.Second
 	}
 	return min(max(budget/10, 400*time.Millisecond), 5*time.Second)
+}
+
+// explainTime is how long the explanation may take when the search has
+// taken used of budget: ExplainLimit, cut to what is left of the leeway a
+// budget has (a tenth of it or half a second, whichever is more), less
+// 100 ms for writing the plan. 0 or less: no time for it.
+func explainTime(budget, used time.Duration) time.Duration {
+	if budget <= 0 {
+		return ExplainLimit(budget)
+	}
+	left := budget + max(budget/10, 500*time.Millisecond) - 100*time.Millisecond - used
+	return min(ExplainLimit(budget), left)
 }
 
 // fillBound adds the bound side's verdict to the plan's JSON.

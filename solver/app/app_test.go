@@ -4,6 +4,7 @@ import (
 	"context"
 	"os"
 	"testing"
+	"time"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -77,4 +78,22 @@ func TestRunSaysWhenTheBudgetIsTooShort(t *testing.T) {
 	assert.Contains(t, out.Note, "ended before the first plan")
 	require.NotNil(t, out.Result.Best.Route)
 	require.NoError(t, solver.CheckRoute(d.Instance, out.Result.Best.Route))
+}
+
+// TestExplainTimeKeepsToTheLeeway: the explanation gets ExplainLimit, cut
+// to what is left of a budget's leeway (a tenth, at least half a second)
+// less 100 ms; nothing when the search has used it up. Worked by hand.
+func TestExplainTimeKeepsToTheLeeway(t *testing.T) {
+	cases := []struct {
+		budget, used, want time.Duration
+	}{
+		{time.Second, 500 * time.Millisecond, 400 * time.Millisecond},  // ExplainLimit: 0.4 s
+		{time.Second, 1300 * time.Millisecond, 100 * time.Millisecond}, // 1 + 0.5 - 0.1 - 1.3
+		{time.Second, 1500 * time.Millisecond, -100 * time.Millisecond},
+		{10 * time.Second, 10 * time.Second, 900 * time.Millisecond}, // 10 + 1 - 0.1 - 10
+		{0, time.Minute, 5 * time.Second},                            // iterations only
+	}
+	for _, c := range cases {
+		assert.Equal(t, c.want, explainTime(c.budget, c.used), "budget %v used %v", c.budget, c.used)
+	}
 }

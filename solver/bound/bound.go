@@ -181,6 +181,10 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 	}
 	y := &yielder{}
 	p := newProbCtx(ctx, in)
+	if p.cut {
+		b.Notes = append(b.Notes, "the budget ended before preprocessing did: no bound")
+		return b
+	}
 	obj := o.Objective
 	kind := dpTravel
 	if obj == solver.CompletionTime {

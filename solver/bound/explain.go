@@ -26,6 +26,9 @@ func FeasibleExists(ctx context.Context, in *solver.Instance) (feasible, proven 
 // route when it finds one.
 func decide(ctx context.Context, in *solver.Instance, stageCap int) (feasible, proven bool, route []int) {
 	p := newProbCtx(ctx, in)
+	if p.cut {
+		return false, false, nil
+	}
 	if p.infeasible {
 		return false, true, nil
 	}
@@ -158,6 +161,9 @@ func ExplainWith(ctx context.Context, in *solver.Instance, eo ExplainOptions) (E
 	// Order the candidates by tightened latest start: conflicts are mostly
 	// among visits with neighbouring deadlines.
 	p := newProbCtx(ctx, free)
+	if p.cut {
+		return ex, ErrUndecided
+	}
 	sort.SliceStable(cands, func(a, b int) bool {
 		if p.lt[cands[a]] != p.lt[cands[b]] {
 			return p.lt[cands[a]] < p.lt[cands[b]]
@@ -381,7 +387,7 @@ func widening(ctx context.Context, in *solver.Instance, v int) (by int64, exact,
 		return 0, false, false
 	}
 	p := newProbCtx(ctx, w)
-	if p.infeasible {
+	if p.cut || p.infeasible {
 		return 0, false, false
 	}
 	y := &yielder{}

@@ -37,6 +37,7 @@ type prob struct {
 	words      int
 	mustBefore [][]uint64 // per node, the set (by rank) of nodes that must precede it; nil when not computed
 	infeasible bool       // preprocessing alone shows that no plan is feasible
+	cut        bool       // ctx ended before the tables were built: use nothing of p
 	why        string     // a short reason when infeasible
 	pinned     bool       // some node other than the start is pinned (fixed prefix or positions)
 
@@ -121,6 +122,13 @@ func newProbCtx(ctx context.Context, in *solver.Instance) *prob {
 	p.arc = make([]bool, n*n)
 	for i := 0; i < n; i++ {
 		p.y.tick()
+		if n > largeN && i%64 == 0 && ctx.Err() != nil {
+			// Out of time before the arcs were even listed (a large day
+			// late in its budget): a quadratic pass or two more would
+			// only overrun it.
+			p.cut = true
+			return p
+		}
 		for j := 0; j < n; j++ {
 			p.arc[i*n+j] = p.structural(i, j)
 		}
@@ -146,6 +154,10 @@ func newProbCtx(ctx context.Context, in *solver.Instance) *prob {
 		if p.countArcs() == before && round > 0 {
 			break
 		}
+	}
+	if ctx.Err() != nil && n > largeN {
+		p.cut = true // finishSets is quadratic too
+		return p
 	}
 	p.finishSets()
 	return p

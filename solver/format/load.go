@@ -46,6 +46,16 @@ type Options struct {
 	// departure worked out by driving the done visits in order from the
 	// start.
 	Now string
+	// Progress, when set, is called as the readers get through the input:
+	// done bytes of total (the sites input once, a travel matrix twice,
+	// for its two passes; total is 0 when the readers cannot tell the
+	// sizes, as for a pipe). An error it returns ends the load with that
+	// error: the web worker reports progress and takes a cancel through it.
+	// It is called often (about every 4 KiB and every row): it should be
+	// cheap.
+	Progress func(done, total int64) error
+
+	meter *meter
 }
 
 // Dataset is an instance with what the plan writers need to speak the
@@ -153,7 +163,15 @@ func IsBenchmark(text string) bool {
 // the original start, so each moves forward by the number of visits done;
 // a pin whose place has passed is dropped with a warning.
 func Load(sites io.Reader, matrix io.Reader, opt Options) (*Dataset, error) {
+	opt.meter = newMeter(opt.Progress, sites, matrix)
+	if opt.meter != nil {
+		sites = opt.meter.reader(sites)
+	}
 	d, err := load(sites, matrix, opt)
+	if e := opt.meter.failed(); e != nil {
+		// Progress said stop: that is the answer, not what a reader made of it.
+		return nil, e
+	}
 	if err != nil {
 		return nil, tidy(err)
 	}
@@ -292,7 +310,7 @@ func fromSites(s *Sites, matrix io.Reader, opt Options) (*Dataset, error) {
 		in.Service[i], in.Early[i], in.Late[i] = st.Service, st.Earliest, st.Latest
 	}
 	if matrix != nil {
-		m, err := ReadMatrix(matrix, opt.MatrixName, opt.MatrixUnit, in.IDs)
+		m, err := readMatrixWith(matrix, opt, in.IDs)
 		if err != nil {
 			return nil, err
 		}

@@ -62,8 +62,9 @@ type MatrixReader struct {
 	// runs of spaces when none of them occurs.
 	Comma rune
 	// Unit of the numbers.
-	Unit Unit
-	r    io.Reader
+	Unit  Unit
+	r     io.Reader
+	meter *meter // counts the two passes for Options.Progress
 }
 
 // NewMatrixReader returns a reader of r.
@@ -73,6 +74,14 @@ func NewMatrixReader(r io.Reader) *MatrixReader { return &MatrixReader{r: r} }
 func ReadMatrix(r io.Reader, name string, unit Unit, ids []string) (*Matrix, error) {
 	mr := NewMatrixReader(r)
 	mr.Name, mr.Unit = name, unit
+	return mr.Read(ids)
+}
+
+// readMatrixWith reads a travel matrix as Load does, counting its passes
+// for opt.Progress.
+func readMatrixWith(r io.Reader, opt Options, ids []string) (*Matrix, error) {
+	mr := NewMatrixReader(r)
+	mr.Name, mr.Unit, mr.meter = opt.MatrixName, opt.MatrixUnit, opt.meter
 	return mr.Read(ids)
 }
 
@@ -100,7 +109,7 @@ func (mr *MatrixReader) read(ids []string) (*Matrix, error) {
 	if comma == 0 {
 		comma = sniffComma(text)
 	}
-	return parseMatrix(text, mr.Name, comma, mr.Unit, ids)
+	return parseMatrix(text, mr.Name, comma, mr.Unit, ids, mr.meter)
 }
 
 // rowShape is what the first pass of parseMatrix keeps of a row: not its
@@ -115,12 +124,12 @@ type rowShape struct {
 // the shape (header, labels, widths) keeping a few numbers per row, the
 // second reads the cells into the matrix. Memory is the text and the
 // matrix, not a string per cell.
-func parseMatrix(text, name string, comma rune, unit Unit, ids []string) (*Matrix, error) {
+func parseMatrix(text, name string, comma rune, unit Unit, ids []string, mt *meter) (*Matrix, error) {
 	n := len(ids)
 	commaDecimal := comma != ','
 	var shapes []rowShape
 	var firstRows [][]string // the cells of the first two rows
-	err := eachRecord(text, name, comma, func(line int, f []string) error {
+	err := eachRecord(text, name, comma, mt.pass(), func(line int, f []string) error {
 		te := 0
 		for te < len(f) && f[len(f)-1-te] == "" {
 			te++
@@ -356,7 +365,7 @@ func parseMatrix(text, name string, comma rune, unit Unit, ids []string) (*Matri
 		return nil
 	}
 	r := -1
-	err = eachRecord(text, name, comma, func(line int, f []string) error {
+	err = eachRecord(text, name, comma, mt.pass(), func(line int, f []string) error {
 		r++
 		if r < skip {
 			return nil

@@ -285,7 +285,7 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 			Msg: fmt.Sprintf("the first row has %d columns; a sites file has a dozen or so (at most %d). Is this a sites file, and does it have line ends?", cols, maxColumns)}
 	}
 	var recs []record
-	err := eachRecord(text, name, comma, func(line int, f []string) error {
+	err := eachRecord(text, name, comma, nil, func(line int, f []string) error {
 		if len(recs) == 0 && len(f) > maxColumns {
 			return &ParseError{File: name, Line: line, Field: "header",
 				Msg: fmt.Sprintf("the first row has %d columns; a sites file has a dozen or so (at most %d). Is this a sites file, and does it have line ends?", len(f), maxColumns)}

@@ -28,7 +28,10 @@ const SolomonScale = 1_000_000
 func IsSolomon(text string) bool {
 	text = strings.TrimPrefix(text, "\ufeff")
 	k := 0
-	for _, l := range strings.Split(text, "\n") {
+	// Line by line up to the second: a large paste is not split whole.
+	for rest := text; rest != ""; {
+		var l string
+		l, rest, _ = strings.Cut(rest, "\n")
 		t := strings.TrimSpace(l)
 		if t == "" {
 			continue

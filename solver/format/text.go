@@ -218,7 +218,7 @@ func sniffComma(text string) rune {
 // only and lines starting with '#' are skipped. Fields are trimmed.
 func readRecords(text, name string, comma rune) ([]record, error) {
 	var out []record
-	err := eachRecord(text, name, comma, func(line int, fields []string) error {
+	err := eachRecord(text, name, comma, nil, func(line int, fields []string) error {
 		out = append(out, record{line: line, fields: append([]string(nil), fields...)})
 		return nil
 	})
@@ -226,14 +226,19 @@ func readRecords(text, name string, comma rune) ([]record, error) {
 }
 
 // eachRecord calls fn with each record of text, as readRecords splits them.
-// The fields slice is reused between calls: fn copies what it keeps.
-func eachRecord(text, name string, comma rune, fn func(line int, fields []string) error) error {
+// The fields slice is reused between calls: fn copies what it keeps. p,
+// when not nil, counts the pass's progress through text (and its error,
+// a cancel, ends the pass).
+func eachRecord(text, name string, comma rune, p *pass, fn func(line int, fields []string) error) error {
 	if comma == 0 {
 		line := 0
 		for rest := text; rest != ""; {
 			l, r, _ := strings.Cut(rest, "\n")
 			rest = r
 			line++
+			if err := p.at(int64(len(text) - len(rest))); err != nil {
+				return err
+			}
 			t := strings.TrimSpace(l)
 			if t == "" || strings.HasPrefix(t, "#") {
 				continue
@@ -244,7 +249,8 @@ func eachRecord(text, name string, comma rune, fn func(line int, fields []string
 		}
 		return nil
 	}
-	cr := csv.NewReader(strings.NewReader(text))
+	sr := strings.NewReader(text)
+	cr := csv.NewReader(sr)
 	cr.Comma = comma
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
@@ -255,7 +261,10 @@ func eachRecord(text, name string, comma rune, fn func(line int, fields []string
 	for {
 		rec, err := cr.Read()
 		if err == io.EOF {
-			return nil
+			return p.end(text)
+		}
+		if e := p.at(int64(len(text) - sr.Len())); e != nil {
+			return e
 		}
 		if err != nil {
 			var pe *csv.ParseError

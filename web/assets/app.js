@@ -34,6 +34,9 @@ const state = {
   mixAcks: 0,
   pendingExample: null,
   pendingData: null, // sent to the engine, until it answers
+  loadSeq: 0, // the number of the last load asked for (load_id)
+  reading: 0, // the number of the load under way (0: none)
+  beforeLoad: null, // the status and Start as they were before the load under way
   pendingStart: null, // a start waiting for the options to be applied
   data: null, // {name, text, matrix, matrix_name, options} read last
   origin: "", // where the data came from: example, file, paste, link, kept
@@ -65,10 +68,19 @@ function onEngine(m) {
       document.body.dataset.readyMs = String(Math.round(performance.now()));
       startupData();
       break;
+    case "reading":
+      if (readingNow(m)) onReading(m);
+      break;
+    case "load_cancelled":
+      break; // the page went back when Cancel was pressed
     case "loaded":
+      if (!readingNow(m)) break;
+      endReading();
       onLoaded(m.summary);
       break;
     case "errors":
+      if (!readingNow(m)) break;
+      endReading();
       onErrors(m.errors || []);
       break;
     case "started":
@@ -153,10 +165,59 @@ function loadData(d, origin) {
     setStatus("The engine is still starting; try again in a moment.", "error");
     return;
   }
-  state.pendingData = Object.assign({}, d, { origin: origin });
+  if (state.reading) {
+    // A new load replaces the one under way: that one is given up.
+    send({ type: "cancel_load", load_id: state.reading });
+  } else {
+    const s = $("status");
+    state.beforeLoad = { text: s.textContent, kind: s.dataset.kind, start: $("start").disabled };
+  }
+  const id = ++state.loadSeq;
+  state.pendingData = Object.assign({}, d, { origin: origin, load_id: id });
+  state.reading = id;
+  $("start").disabled = true;
   setStatus("Reading " + d.name + "…");
-  send({ type: "load", name: d.name, text: d.text, matrix: d.matrix || "", matrix_name: d.matrix_name || "", options: d.options || {},
+  document.body.dataset.reading = "0";
+  $("cancel-load").hidden = false;
+  send({ type: "load", load_id: id, name: d.name, text: d.text, matrix: d.matrix || "", matrix_name: d.matrix_name || "", options: d.options || {},
     vehicles: d.vehicles || "", vehicles_name: d.vehicles_name || "", fleet: d.fleet || 0 });
+}
+
+// readingNow says whether an answer of the engine is to the load under
+// way (answers to a load given up, or to an earlier one, are dropped).
+function readingNow(m) {
+  return !!state.reading && (!m.load_id || m.load_id === state.reading);
+}
+
+function onReading(m) {
+  const d = state.pendingData;
+  const f = m.total > 0 ? Math.min(1, m.done / m.total) : 0;
+  document.body.dataset.reading = String(f);
+  const mb = (b) => (b / 1048576).toLocaleString(undefined, { maximumFractionDigits: 1 });
+  setStatus("Reading " + d.name + "… " + (m.total > 0 ? Math.floor(100 * f) + " % of " + mb(m.total) + " MB" : mb(m.done) + " MB") +
+    ". Cancel gives up reading it and keeps your text.");
+}
+
+function endReading() {
+  state.reading = 0;
+  $("cancel-load").hidden = true;
+  delete document.body.dataset.reading;
+  state.beforeLoad = null;
+}
+
+// cancelLoad gives up the load under way: the engine keeps the data it
+// had, and the page goes back to how it was, the text boxes as they are.
+function cancelLoad() {
+  const d = state.pendingData;
+  if (!state.reading || !d) return;
+  send({ type: "cancel_load", load_id: state.reading });
+  state.pendingData = null;
+  state.pendingStart = null;
+  const before = state.beforeLoad;
+  endReading();
+  if (before) $("start").disabled = before.start;
+  setStatus("Stopped reading " + d.name + ". " + (state.data ? "The data read before, " + state.data.name + ", is still loaded" : "Nothing is loaded") +
+    "; the text box keeps your text as it is.", "done");
 }
 
 async function loadFile(file) {
@@ -868,6 +929,7 @@ function wire() {
     $("example-about").textContent = ex ? ex.about : "";
   });
   $("start").addEventListener("click", start);
+  $("cancel-load").addEventListener("click", cancelLoad);
   $("stop").addEventListener("click", () => {
     $("stop").disabled = true;
     setStatus("Stopping…");

@@ -96,13 +96,16 @@
     const src = sources();
     const workers = []; // index 0..: search workers; boundWorker apart
     let boundWorker = null;
-    let lastLoad = null;
+    let lastLoad = null; // the load whose data the workers hold (or are reading)
+    let doneLoad = null; // the last load that ended (loaded or errors)
+    let reading = null; // the load under way, until worker 0 answers it
+    const cancelledLoads = new Set();
     let readySent = false;
     let run = null; // the run under way (or the last one)
     let fatal = false;
 
     function spawn(kind, index) {
-      const w = { kind: kind, index: index, ready: false, pendingStarts: 0, memory: 0, worker: null };
+      const w = { kind: kind, index: index, ready: false, pendingStarts: 0, memory: 0, worker: null, holds: 0 };
       try {
         w.worker = new Worker(src.workerURL);
       } catch (e) {
@@ -144,7 +147,11 @@
       switch (msg.type) {
         case "load":
           lastLoad = msg;
+          reading = msg;
           for (const w of allWorkers()) post(w, msg);
+          break;
+        case "cancel_load":
+          cancelLoad(msg);
           break;
         case "start":
           start(msg);
@@ -173,6 +180,25 @@
       workers.length = 0;
       boundWorker = null;
     };
+
+    // cancelLoad gives up the load under way: every worker stops reading
+    // it, and one that has already read it reads the data before it
+    // again, so that every worker holds what the page shows.
+    function cancelLoad(msg) {
+      if (!reading || reading.load_id !== msg.load_id) return;
+      cancelledLoads.add(msg.load_id);
+      reading = null;
+      lastLoad = doneLoad;
+      for (const w of allWorkers()) {
+        post(w, msg);
+        if (w.holds === msg.load_id) restoreLoad(w);
+      }
+    }
+
+    function restoreLoad(w) {
+      w.holds = doneLoad ? doneLoad.load_id : 0;
+      if (doneLoad) post(w, doneLoad);
+    }
 
     function start(msg) {
       if (msg.cores) client.setCores(msg.cores);
@@ -234,8 +260,24 @@
             onMessage(m);
           }
           return;
+        case "reading":
+        case "load_cancelled":
+          if (w.kind === "search" && w.index === 0 && reading && m.load_id === reading.load_id) onMessage(m);
+          return;
         case "loaded":
         case "errors":
+          if (m.load_id && cancelledLoads.has(m.load_id)) {
+            // It ended before the cancel got there: back to the data before.
+            restoreLoad(w);
+            return;
+          }
+          w.holds = m.load_id || 0;
+          if (w.kind === "search" && w.index === 0) {
+            if (m.load_id && (!reading || m.load_id !== reading.load_id)) return; // an earlier load read again
+            if (reading) doneLoad = reading;
+            reading = null;
+          }
+        // falls through
         case "export":
           if (w.kind === "search" && w.index === 0) {
             if (m.type !== "export") client.fleetDay = m.type === "loaded" && !!(m.summary && m.summary.fleet);

@@ -29,7 +29,7 @@ if (typeof Go === "undefined") {
       ready = true;
       // Hand queued messages over after this call returns to Go.
       setTimeout(function () {
-        while (queue.length) self.visitlineEngine.handle(queue.shift());
+        while (queue.length) queue.shift()();
       }, 0);
     }
     if (msg.type === "progress" || msg.type === "finished" || msg.type === "bound") msg.memory_mb = memoryMB();
@@ -65,8 +65,23 @@ if (typeof Go === "undefined") {
       });
       return;
     }
-    const text = JSON.stringify(m);
-    if (ready) self.visitlineEngine.handle(text);
-    else queue.push(text);
+    let give;
+    if (m && m.type === "cancel_load") {
+      // At once, not behind the load it cancels (which gives the event
+      // loop turns while it reads, so this runs in one of them).
+      give = function () { self.visitlineEngine.cancelLoad(Number(m.load_id) || 0); };
+    } else if (m && m.type === "load") {
+      // The texts go apart from the JSON: a large paste is not encoded
+      // and decoded as JSON on its way in.
+      const text = typeof m.text === "string" ? m.text : "";
+      const matrix = typeof m.matrix === "string" ? m.matrix : "";
+      const json = JSON.stringify(Object.assign({}, m, { text: "", matrix: "" }));
+      give = function () { self.visitlineEngine.handle(json, text, matrix); };
+    } else {
+      const json = JSON.stringify(m);
+      give = function () { self.visitlineEngine.handle(json); };
+    }
+    if (ready) give();
+    else queue.push(give);
   };
 })();
