@@ -126,6 +126,10 @@ func TestPageFleetDayLanesUnservedAndExports(t *testing.T) {
 		assert.Equal(t, len(r.VisitIDs), strings.Count(icsText, "SUMMARY:"+r.VehicleName+": "), "events of %s", r.Vehicle)
 	}
 
+	// The hint line under the lanes covers none of their rows.
+	eval[bool](t, ctx, `window.scrollTo(0, 0); true`)
+	assert.Equal(t, 0, eval[int](t, ctx, hintOverlaps), "the hint line overlaps no row")
+	assert.Contains(t, eval[string](t, ctx, `getComputedStyle(document.getElementById('visit-detail'), '::before').content`), "Point at a visit")
 	screenshot(t, ctx, "fleet-1366")
 	viewport(t, ctx, 390, 844)
 	eval[bool](t, ctx, `window.dispatchEvent(new Event('resize')); true`)
@@ -345,3 +349,10 @@ func pdfPages(t *testing.T, ctx context.Context) int {
 	require.NoError(t, os.WriteFile(filepath.Join("testout", "fleet-print-"+t.Name()+".pdf"), buf, 0o644))
 	return len(regexp.MustCompile(`/Type\s*/Page[^s]`).FindAll(buf, -1))
 }
+
+// hintOverlaps counts the timeline's rows the empty hint line under the
+// plan ("Point at a visit…") lies over.
+const hintOverlaps = `(() => {
+  const h = document.getElementById('visit-detail').getBoundingClientRect();
+  return [...document.querySelectorAll('#timeline .visit, #timeline .lane-head')].filter(e => {
+    const r = e.getBoundingClientRect(); return r.bottom > h.top + 0.5 && r.top < h.bottom - 0.5; }).length; })()`
