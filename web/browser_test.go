@@ -410,6 +410,8 @@ func tableColumns(t *testing.T, ctx context.Context) map[string]int {
 }
 
 func tableRows(t *testing.T, ctx context.Context) [][]string {
+	// A long team's table is drawn a task after its lanes.
+	waitFor(t, ctx, `!document.querySelector('[data-testid=plan-table]').dataset.pending`, 5*time.Second)
 	return eval[[][]string](t, ctx, `[...document.querySelectorAll('[data-testid=plan-table] tbody tr')].map(tr => [...tr.children].map(c => c.textContent))`)
 }
 

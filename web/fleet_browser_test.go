@@ -1,15 +1,20 @@
 package web_test
 
 import (
+	"context"
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 	"time"
 
+	"github.com/chromedp/cdproto/cdp"
+	"github.com/chromedp/cdproto/emulation"
+	"github.com/chromedp/cdproto/page"
 	"github.com/chromedp/chromedp"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -121,6 +126,10 @@ func TestPageFleetDayLanesUnservedAndExports(t *testing.T) {
 		assert.Equal(t, len(r.VisitIDs), strings.Count(icsText, "SUMMARY:"+r.VehicleName+": "), "events of %s", r.Vehicle)
 	}
 
+	// The hint line under the lanes covers none of their rows.
+	eval[bool](t, ctx, `window.scrollTo(0, 0); true`)
+	assert.Equal(t, 0, eval[int](t, ctx, hintOverlaps), "the hint line overlaps no row")
+	assert.Contains(t, eval[string](t, ctx, `getComputedStyle(document.getElementById('visit-detail'), '::before').content`), "Point at a visit")
 	screenshot(t, ctx, "fleet-1366")
 	viewport(t, ctx, 390, 844)
 	eval[bool](t, ctx, `window.dispatchEvent(new Event('resize')); true`)
@@ -242,3 +251,108 @@ func TestPageFleetPlanBackFromLinkAndKeptSession(t *testing.T) {
 	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=status]').textContent`), "kept session")
 	assert.True(t, eval[bool](t, ctx, `document.querySelector('[data-testid=fewest-vehicles]').checked`), "the kept \"fewest vehicles\" comes back ticked")
 }
+
+// Exports for one vehicle: with T2 chosen beside the export buttons the
+// calendar holds T2's visits only (one RFC 5545 VEVENT each, the
+// technician's name first in the summary), in a file named for T2; the
+// printed plan has a section per vehicle, each after a page break, or
+// T2's alone.
+func TestPageFleetOneVehicleCalendarAndPrint(t *testing.T) {
+	ctx, _ := tab(t)
+	viewport(t, ctx, 1366, 768)
+	openPage(t, ctx, "")
+	setField(t, ctx, "vehicles-input", readText(t, filepath.Join("..", "testdata", "fleet", "boiler-team-vehicles.csv")))
+	paste(t, ctx, readText(t, filepath.Join("..", "testdata", "fleet", "boiler-team-sites.csv")))
+	waitFor(t, ctx, `!!document.querySelector('[data-testid=team-summary]')`, 10*time.Second)
+	run(t, ctx, "1")
+	_, jsonText := exportText(t, ctx, "export-json")
+	var p format.FleetPlanReport
+	require.NoError(t, json.Unmarshal([]byte(jsonText), &p))
+	require.Len(t, p.Routes, 3)
+	opts := eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=export-vehicle] option')].map(o => o.value + '=' + o.textContent)`)
+	assert.Equal(t, []string{"=all vehicles", "T1=T1 · Ines", "T2=T2 · Marek", "T3=T3 · Sol"}, opts)
+
+	var t2 format.FleetRouteJSON
+	for _, r := range p.Routes {
+		if r.Vehicle == "T2" {
+			t2 = r
+		}
+	}
+	require.NotEmpty(t, t2.VisitIDs)
+	setField(t, ctx, "export-vehicle", "T2")
+	name, ics := exportText(t, ctx, "export-ics")
+	assert.True(t, strings.HasSuffix(name, "-plan-T2.ics"), name)
+	assert.True(t, strings.HasPrefix(ics, "BEGIN:VCALENDAR\r\n"), ics)
+	assert.Equal(t, len(t2.VisitIDs), strings.Count(ics, "BEGIN:VEVENT"), "one event per visit of T2")
+	assert.Equal(t, len(t2.VisitIDs), strings.Count(ics, "SUMMARY:Marek: "), "every event is Marek's")
+	assert.NotContains(t, ics, "SUMMARY:Ines")
+	assert.NotContains(t, ics, "SUMMARY:Sol")
+	for _, id := range t2.VisitIDs {
+		assert.Contains(t, ics, id, "T2's visit %s", id)
+	}
+	// All vehicles again: the team's calendar.
+	setField(t, ctx, "export-vehicle", "")
+	name, ics = exportText(t, ctx, "export-ics")
+	assert.True(t, strings.HasSuffix(name, "-plan.ics"), name)
+	assert.Equal(t, p.Served, strings.Count(ics, "BEGIN:VEVENT"))
+
+	// Print: a section per vehicle, a page break before each but the first.
+	eval[bool](t, ctx, `window.print = () => {}; true`)
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("print-plan"))))
+	secs := eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=print-team] .print-vehicle')].map(s => s.dataset.vehicle)`)
+	assert.Equal(t, []string{"T1", "T2", "T3"}, secs)
+	for _, r := range p.Routes {
+		got := eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=print-team] .print-vehicle[data-vehicle=`+jsString(r.Vehicle)+`] .print-visits tbody th')].map(e => e.textContent)`)
+		assert.Equal(t, r.VisitIDs, got, "the printed visits of %s", r.Vehicle)
+		lane := eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=print-team] .print-vehicle[data-vehicle=`+jsString(r.Vehicle)+`] .visit')].map(e => e.dataset.vehicle)`)
+		assert.Len(t, lane, len(r.VisitIDs), "the printed lane of %s", r.Vehicle)
+		for _, v := range lane {
+			assert.Equal(t, r.Vehicle, v)
+		}
+	}
+	require.NoError(t, chromedp.Do(ctx, media("print")))
+	breaks := eval[[]string](t, ctx, `[...document.querySelectorAll('.print-vehicle')].map(s => getComputedStyle(s).breakBefore)`)
+	assert.Equal(t, []string{"auto", "page", "page"}, breaks)
+	assert.Equal(t, "none", eval[string](t, ctx, `getComputedStyle(document.getElementById('timeline')).display`), "the sections replace the screen's lanes")
+	assert.Equal(t, "block", eval[string](t, ctx, `getComputedStyle(document.querySelector('[data-testid=print-team]')).display`))
+	assert.Equal(t, "block", eval[string](t, ctx, `getComputedStyle(document.querySelector('main')).display`))
+	assert.Equal(t, 3, pdfPages(t, ctx), "a page per vehicle")
+	screenshot(t, ctx, "fleet-print-sheets")
+	require.NoError(t, chromedp.Do(ctx, media("")))
+	// On screen the page is as before: the lanes, not the sheets.
+	assert.Equal(t, "none", eval[string](t, ctx, `getComputedStyle(document.querySelector('[data-testid=print-team]')).display`))
+	assert.Equal(t, "block", eval[string](t, ctx, `getComputedStyle(document.body).display`))
+	assert.NotEqual(t, "none", eval[string](t, ctx, `getComputedStyle(document.getElementById('timeline')).display`))
+
+	setField(t, ctx, "export-vehicle", "T2")
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(byTestID("print-plan"))))
+	assert.Equal(t, []string{"T2"}, eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=print-team] .print-vehicle')].map(s => s.dataset.vehicle)`))
+	assert.Equal(t, 1, pdfPages(t, ctx), "T2's page alone")
+}
+
+// media emulates a CSS media type ("" the screen's own).
+func media(m string) chromedp.Action[chromedp.Void] {
+	return chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
+		_, err := cdp.Call(ctx, t, emulation.SetEmulatedMedia, emulation.SetEmulatedMediaParams{Media: m})
+		return err
+	})
+}
+
+// pdfPages prints the page to PDF as the browser would and counts its
+// pages.
+func pdfPages(t *testing.T, ctx context.Context) int {
+	t.Helper()
+	buf, err := chromedp.Run(ctx, chromedp.PrintToPDF(chromedp.PDFPaper(chromedp.PaperA4), chromedp.PDFMargin(0.4),
+		func(p *page.PrintToPDFParams) { p.PrintBackground = ptr(true) }))
+	require.NoError(t, err)
+	require.NoError(t, os.MkdirAll("testout", 0o755))
+	require.NoError(t, os.WriteFile(filepath.Join("testout", "fleet-print-"+t.Name()+".pdf"), buf, 0o644))
+	return len(regexp.MustCompile(`/Type\s*/Page[^s]`).FindAll(buf, -1))
+}
+
+// hintOverlaps counts the timeline's rows the empty hint line under the
+// plan ("Point at a visit…") lies over.
+const hintOverlaps = `(() => {
+  const h = document.getElementById('visit-detail').getBoundingClientRect();
+  return [...document.querySelectorAll('#timeline .visit, #timeline .lane-head')].filter(e => {
+    const r = e.getBoundingClientRect(); return r.bottom > h.top + 0.5 && r.top < h.bottom - 0.5; }).length; })()`

@@ -15,6 +15,7 @@ import { baseName, download } from "./exports.mjs";
 import { pack, unpack, linkPayload, isShareHash, LinkError, MAX_LINK } from "./share.mjs";
 import { KEEP_SENTENCE, keepWanted, setKeep, save, forget, startup, readKept } from "./session.mjs";
 import { connectEngine, defaultCores, MAX_CORES } from "./engine.mjs";
+import { updateVehicleChoice, chosenVehicle, fileTag, buildTeamPrint } from "./team-exports.mjs";
 import { wireVehicleEditor, vehiclesText, vehicleProblems, focusFirstProblem, editorSeesSites } from "./vehicle-editor.mjs";
 
 const state = {
@@ -100,7 +101,7 @@ function onEngine(m) {
       break;
     case "export":
       if (m.error) setStatus("No calendar file: " + m.error, "error");
-      else saved(baseName(state.data && state.data.name) + "-plan.ics", "text/calendar", m.text);
+      else saved(baseName(state.data && state.data.name) + "-plan" + (state.exportTag || "") + ".ics", "text/calendar", m.text);
       break;
     case "failed":
       setStatus(m.message, "error");
@@ -492,10 +493,11 @@ function showPlan(m) {
   $("export-csv").disabled = !state.planCSV;
   const ics = $("export-ics");
   ics.disabled = !(state.summary && state.summary.unit);
-  ics.title = ics.disabled ? "A calendar needs a sites file with clock times; this data has no times of day." : fleet ? "One calendar for the team: each event names its vehicle first." : "";
+  ics.title = ics.disabled ? "A calendar needs a sites file with clock times; this data has no times of day." : fleet ? "A calendar for the vehicle chosen beside, or for the team: each event names its vehicle first." : "";
   if (fleet) $("why").hidden = true;
   else showWhy(p);
   drawUnserved(p);
+  updateVehicleChoice(p);
   $("quality").textContent = boundWords(p);
   $("quality").dataset.proven = p.proven_optimal ? "yes" : "no";
   $("bound-details").textContent = boundDetails(p, model);
@@ -684,6 +686,7 @@ function clearPlan() {
   $("print-title").textContent = "";
   $("why").hidden = true;
   drawUnserved(null);
+  updateVehicleChoice(null);
   clearTimeline();
   clearTable();
   vehicleColumn(false);
@@ -711,12 +714,26 @@ const exporters = {
     setStatus("Writing the calendar file…");
     const p = state.plan;
     const m = { type: "export", format: "ics", date: $("ics-date").value, objective: p.objective || $("objective").value };
-    if (isFleetPlan(p)) m.routes = p.routes.map((r) => ({ vehicle: r.vehicle, visits: r.visits }));
-    else m.route = p.route;
+    state.exportTag = "";
+    if (isFleetPlan(p)) {
+      m.routes = p.routes.map((r) => ({ vehicle: r.vehicle, visits: r.visits }));
+      const v = chosenVehicle(p);
+      if (v) m.vehicle = v;
+      state.exportTag = fileTag(v);
+    } else m.route = p.route;
     send(m);
   },
-  "print-plan": () => window.print(),
+  "print-plan": () => {
+    printPages();
+    window.print();
+  },
 };
+
+// printPages readies the printed pages: a team's day prints a page per
+// vehicle (or the one chosen).
+function printPages() {
+  if (state.plan) buildTeamPrint(state.plan, state.model, chosenVehicle(state.plan), (state.data ? state.data.name + " · " : "") + "printed " + new Date().toLocaleString());
+}
 
 // ---------- session and share link ----------
 function settings() {
@@ -952,6 +969,7 @@ function wire() {
     });
   }
   for (const id in exporters) $(id).addEventListener("click", exporters[id]);
+  window.addEventListener("beforeprint", printPages);
   $("keep-help").textContent = KEEP_SENTENCE;
   $("keep-session").checked = keepWanted(storage);
   $("keep-session").addEventListener("change", (ev) => {

@@ -5,12 +5,14 @@
 // rewrites it at once (so it is kept, shared and read with the sites as
 // typed), and typing in the box redraws the cards. A table that is not
 // loaded is made for the count, as `--fleet N` makes its vehicles: ids 1
-// to N from the start site, ending as the route settings say. Problems are
+// to N from the start site, ending as the route settings say (a file in
+// Solomon's format has vehicles of its own: there the count is sent as
+// such and keeps the file's first N). Problems are
 // listed under the cards, each naming the vehicle and the field; the
 // engine's reader checks the rest (site ids) when the day is read.
 
 import { $, el } from "./dom.mjs";
-import { parseTable, rows, writeTable, setValue, newTable, resize, removeAt, check, checkCount, MAX_VEHICLES, LABELS } from "./vehicles.mjs";
+import { parseTable, rows, writeTable, setValue, newTable, resize, removeAt, check, checkCount, isSolomon, MAX_VEHICLES, LABELS } from "./vehicles.mjs";
 
 const ed = {
   table: null, // parseTable of the box's text
@@ -170,6 +172,14 @@ export function focusFirstProblem() {
   if (inp) inp.focus();
 }
 
+// solomonDay: the sites text is in Solomon's format, which gives its own
+// vehicles (a vehicles table is refused with it).
+function solomonDay() {
+  return isSolomon($("paste-input").value);
+}
+
+const SOLOMON_NOTE = "This file is in Solomon's format and has vehicles of its own: the count keeps its first ones (or adds like ones), with no table.";
+
 function count() {
   const c = $("fleet-size").value.trim();
   if (checkCount(c)) return 0;
@@ -183,6 +193,11 @@ function onCount() {
     return;
   }
   ed.note = "";
+  if (!rows(ed.table).length && solomonDay()) {
+    $("veh-note").textContent = SOLOMON_NOTE;
+    ed.changed();
+    return;
+  }
   if (!rows(ed.table).length) {
     if (ed.table && ed.table.problem) {
       showProblems();
@@ -202,6 +217,10 @@ function onCount() {
 // making the table for the count first when there is none.
 function setAll() {
   const given = { "shift start": $("all-shift-start").value.trim(), "shift end": $("all-shift-end").value.trim(), capacity: $("all-capacity").value.trim() };
+  if (!rows(ed.table).length && solomonDay()) {
+    $("veh-note").textContent = SOLOMON_NOTE + " Shifts and capacity are the file's.";
+    return;
+  }
   if (!rows(ed.table).length) {
     const n = count();
     if (!n) {

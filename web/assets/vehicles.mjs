@@ -288,6 +288,14 @@ export function removeAt(t, k, stash) {
   t.items.splice(r.item, 1);
 }
 
+// isSolomon tells a text in Solomon's format as format.IsSolomon does:
+// its second line that is not blank is VEHICLE. Such a file carries its
+// own vehicles; a count keeps its first N.
+export function isSolomon(text) {
+  const lines = String(text || "").replace(/^\ufeff/, "").split("\n").map((l) => l.trim()).filter((l) => l);
+  return lines.length >= 2 && lines[1].toUpperCase() === "VEHICLE";
+}
+
 // ---------- checking ----------
 
 // parseTime reads a time as the sites file writes them (mode "minutes",

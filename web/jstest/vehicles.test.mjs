@@ -105,3 +105,10 @@ test("problems name the vehicle and the field", () => {
   assert.ok(checkCount("2.5"));
   assert.ok(checkCount("201"));
 });
+
+test("Solomon's format is told by its second line, as the Go reader does", async () => {
+  const { isSolomon } = await import("../assets/vehicles.mjs");
+  assert.equal(isSolomon("c1_2_1\n\nVEHICLE\nNUMBER     CAPACITY\n  50 200\n"), true);
+  assert.equal(isSolomon("id,name\nVEHICLE,x\n"), false);
+  assert.equal(isSolomon(""), false);
+});
