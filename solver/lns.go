@@ -24,6 +24,9 @@ type search struct {
 	taken   []bool
 	perm    []int
 	inRem   []bool
+	at      []int32  // granular insertion: each node's position in the route
+	seen    []uint32 // granular insertion: places tried, by epoch
+	epoch   uint32
 
 	// statistics per destroy operator
 	weights []float64
@@ -201,8 +204,6 @@ func (s *search) bestInsert(x *route, v int32) (pos int, best, second float64) {
 	pos = -1
 	r := x.r
 	feasible := x.total().tw == 0
-	n := m.n
-	ok := m.arcOK
 	skipped := false
 	for p := 0; p < len(r)-1; p++ {
 		a, b := r[p], r[p+1]
@@ -211,7 +212,7 @@ func (s *search) bestInsert(x *route, v int32) (pos int, best, second float64) {
 			// would always start after its latest.
 			break
 		}
-		if !m.infeas && (!ok[int(a)*n+int(v)] || !ok[int(v)*n+int(b)]) {
+		if !m.infeas && (!m.arcOK(int(a), int(v)) || !m.arcOK(int(v), int(b))) {
 			// An arc no feasible plan can hold: try it only if nothing
 			// else is left.
 			skipped = true
@@ -247,11 +248,23 @@ func (s *search) bestInsert(x *route, v int32) (pos int, best, second float64) {
 func (s *search) repairInsert(x *route, regret int, noise float64) {
 	rem := append(s.rem[:0], s.removed...)
 	defer func() { s.rem = rem[:0] }()
+	gran := s.m.granular()
+	if gran {
+		s.trackPositions(x, 0)
+	}
 	for len(rem) > 0 {
 		bestIdx, bestPos := -1, -1
 		bestKey := math.Inf(1)
 		for i, v := range rem {
-			pos, c1, c2 := s.bestInsert(x, v)
+			var pos int
+			var c1, c2 float64
+			ok := false
+			if gran {
+				pos, c1, c2, ok = s.bestInsertGranular(x, v)
+			}
+			if !ok {
+				pos, c1, c2 = s.bestInsert(x, v)
+			}
 			if pos < 0 {
 				continue
 			}
@@ -280,5 +293,8 @@ func (s *search) repairInsert(x *route, regret int, noise float64) {
 		b = append(b, x.r[bestPos+1:]...)
 		s.ins = b
 		x.setShifted(b, bestPos+1, len(x.r)-bestPos-1)
+		if gran {
+			s.trackPositions(x, bestPos+1)
+		}
 	}
 }

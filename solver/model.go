@@ -40,10 +40,12 @@ type model struct {
 	before  [][]uint64 // before[u] has bit k when u must come before k
 	infeas  bool       // tightening proved that no plan meets every window
 	fewest  bool       // rank late plans by late visits first
-	arcOK   []bool     // arc i→j can be in a feasible plan
 	// free: no window can bind (windowsFree), and the day is searched as an
-	// open day (open.go); arcOK and before are then left out.
+	// open day (open.go); before is then left out.
 	free bool
+	// succ and pred are the candidate lists of granular insertion
+	// (granular.go), nil below granularFrom movable visits.
+	succ, pred [][]int32
 }
 
 func (m *model) T(i, j int) int64 { return m.tk(i*m.n + j) }
@@ -235,7 +237,9 @@ func buildModel(in *Instance, obj Objective, halt func() bool) (*model, error) {
 	if debugMode != "notight" {
 		m.tighten(halt)
 	}
-	m.buildArcs()
+	if len(m.movable) >= granularFrom && !m.infeas {
+		m.buildGranular()
+	}
 	if debugMode == "" || debugMode == "normal" {
 		m.buildPrecedence(halt)
 	} else {
@@ -324,15 +328,13 @@ func (m *model) tighten(halt func() bool) {
 	}
 }
 
-func (m *model) buildArcs() {
-	n := m.n
-	m.arcOK = make([]bool, n*n)
-	for i := 0; i < n; i++ {
-		turn.Due()
-		for j := 0; j < n; j++ {
-			m.arcOK[i*n+j] = i != j && m.e[i]+m.s[i]+m.tk(i*n+j) <= m.l[j]
-		}
-	}
+// arcOK says whether arc i→j can be in a feasible plan: service at j can
+// still start in its window when i is left as early as it can be. It is
+// worked out at each call from the tightened windows, which no longer
+// change once the model is built (an n² table of it would cost a byte per
+// pair).
+func (m *model) arcOK(i, j int) bool {
+	return i != j && m.e[i]+m.s[i]+m.tk(i*m.n+j) <= m.l[j]
 }
 
 // buildPrecedence records u-before-k when k, served as early as it can be,

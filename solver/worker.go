@@ -45,7 +45,7 @@ func (e *engine) work(ctx context.Context, id int, seed int64) {
 	var arcSum float64
 	arcN := 0
 	for i := 0; i < m.n*m.n && arcN < 200000; i++ {
-		if m.arcOK[i] {
+		if m.arcOK(i/m.n, i%m.n) {
 			arcSum += float64(m.tk(i))
 			arcN++
 		}

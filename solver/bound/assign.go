@@ -13,6 +13,10 @@ import (
 // completion objective an arc i→j weighs s_i + t_ij and the bound adds the
 // departure time of the start. pot are the dual potentials per node. ok is false when no assignment exists (then no
 // route exists either) or ctx ended.
+// assignFull is the largest number of nodes for which the assignment
+// bound keeps its whole cost matrix (32 MB at 2,048 nodes).
+var assignFull = 2048
+
 func assignmentBound(ctx context.Context, p *prob, obj solver.Objective, y *yielder) (value int64, pot []int64, ok, infeasible bool) {
 	n := p.n
 	if n == 1 {
@@ -50,16 +54,33 @@ func assignmentBound(ctx context.Context, p *prob, obj solver.Objective, y *yiel
 		return serv(i) + p.t(i, j), true
 	}
 	// The cost matrix with inf for a forbidden arc, so the inner loop is a
-	// plain scan.
-	cm := make([]int64, m*m)
-	for i := 0; i < m; i++ {
-		for j := 0; j < m; j++ {
+	// plain scan. On a large day (more than assignFull nodes) a row is
+	// worked out when the method needs it instead: the matrix would be a
+	// second copy of the travel, 200 MB at 5,000 sites.
+	fill := func(i int, row []int64) {
+		for j := range row {
 			if c, ok := cost(i, j); ok {
-				cm[i*m+j] = c
+				row[j] = c
 			} else {
-				cm[i*m+j] = inf
+				row[j] = inf
 			}
 		}
+	}
+	var cm, rowBuf []int64
+	if m <= assignFull {
+		cm = make([]int64, m*m)
+		for i := 0; i < m; i++ {
+			fill(i, cm[i*m:(i+1)*m])
+		}
+	} else {
+		rowBuf = make([]int64, m)
+	}
+	rowOf := func(i int) []int64 {
+		if cm != nil {
+			return cm[i*m : (i+1)*m]
+		}
+		fill(i, rowBuf)
+		return rowBuf
 	}
 	// Hungarian method, rows are tails and columns heads (1-based inside).
 	u := make([]int64, m+1)
@@ -85,7 +106,7 @@ func assignmentBound(ctx context.Context, p *prob, obj solver.Objective, y *yiel
 			used[j0] = true
 			i0 := match[j0]
 			delta, j1 := inf, -1
-			row := cm[(i0-1)*m : i0*m]
+			row := rowOf(i0 - 1)
 			ui := u[i0]
 			for j := 1; j <= m; j++ {
 				if used[j] {

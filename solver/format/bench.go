@@ -63,6 +63,7 @@ func readBenchmark(r io.Reader, name string) (*solver.Instance, error) {
 	)
 	scale = 1
 	var pendV int64
+	var fields []string
 	for sc.Scan() {
 		line++
 		text := sc.Text()
@@ -72,7 +73,7 @@ func readBenchmark(r io.Reader, name string) (*solver.Instance, error) {
 		if strings.HasPrefix(strings.TrimSpace(text), "#") {
 			continue
 		}
-		fields := strings.Fields(text)
+		fields = appendFields(fields, text)
 		if len(fields) == 0 {
 			continue
 		}

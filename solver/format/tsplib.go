@@ -73,7 +73,7 @@ func (t *tokenReader) nextLine() (string, bool) {
 	if t.line == 1 {
 		text = strings.TrimPrefix(text, "\ufeff")
 	}
-	t.fields, t.next = nil, 0
+	t.fields, t.next = t.fields[:0], 0
 	return text, true
 }
 
@@ -84,7 +84,7 @@ func (t *tokenReader) token() (tok token, ok bool) {
 		if !ok {
 			return token{}, false
 		}
-		t.fields = strings.Fields(text)
+		t.fields = appendFields(t.fields, text)
 	}
 	tok = token{t.fields[t.next], t.line, t.next + 1}
 	t.next++
