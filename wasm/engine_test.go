@@ -3,8 +3,8 @@ package main
 import (
 	"encoding/json"
 	"fmt"
-	"strings"
 	"os"
+	"strings"
 	"sync"
 	"testing"
 	"time"
