@@ -325,8 +325,9 @@ type plans struct {
 }
 
 // exportsUpTo is the largest day whose every plan message carries the CSV
-// and JSON exports; above it only the last plan of a run does, since
-// writing them takes the worker a tenth of a second or more per plan.
+// and JSON exports; above it only the last plan of a run does, with the
+// CSV export alone, since writing them takes the worker a tenth of a
+// second or more per plan.
 const exportsUpTo = 300
 
 func (p *plans) post(pl solver.Plan, res solver.Result, j *format.PlanReport) {
@@ -401,6 +402,15 @@ func appendJSONString(b, s []byte) []byte {
 	return append(b, '"')
 }
 
+// postCSV posts a plan with its CSV export only.
+func (p *plans) postCSV(j *format.PlanReport) {
+	var csv bytes.Buffer
+	if err := format.WriteCSV(&csv, p.d.Instance, *j); err != nil {
+		p.e.fail("cannot write the plan as CSV: %v", err)
+	}
+	p.e.send(planMsg{Type: "plan", Run: p.r.id, Plan: *j, CSV: csv.String()})
+}
+
 // flush posts the pending plan. Call with p.mu held.
 func (p *plans) flush() {
 	if p.pending == nil {
@@ -460,7 +470,15 @@ func (e *Engine) search(ctx context.Context, r *run, d *format.Dataset, o app.Ru
 		Elapsed: time.Since(r.start).Seconds(), Improvements: max(res.Improvements, pl.improved), Feasible: res.Best.Feasible}
 	if res.Best.Route != nil {
 		// The last word on the best plan, as `solve --format json` has it.
-		pl.postWith(res.Best, res, &out.Plan, true)
+		// Over exportsUpTo nodes with the CSV export only: the page writes
+		// the JSON one from the plan object (as for the plans before it),
+		// since writing it too took the worker most of the time between a
+		// stop and "finished" at 2,000 sites.
+		if in.N <= exportsUpTo {
+			pl.postWith(res.Best, res, &out.Plan, true)
+		} else {
+			pl.postCSV(&out.Plan)
+		}
 		c := in.InputUnits(res.Best.Cost)
 		fin.BestCost = &c
 	}

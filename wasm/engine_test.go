@@ -2,7 +2,9 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
 	"os"
+	"strings"
 	"sync"
 	"testing"
 	"time"
@@ -397,4 +399,36 @@ func TestPlanMessageIsTheEncodedMessage(t *testing.T) {
 	assert.Equal(t, want, got)
 	assert.Equal(t, string(csv), got["csv"])
 	assert.Equal(t, string(js), got["json"])
+}
+
+// A day over exportsUpTo nodes: the run's last plan carries the CSV export
+// (one row per visit and the return) and no JSON text, which the page
+// writes from the plan itself.
+func TestEngineLargeDayLastPlanHasCSVOnly(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("id,x,y,open,close,service\nD,50,50,0,100000,0\n")
+	for i := 1; i <= exportsUpTo+20; i++ {
+		fmt.Fprintf(&b, "S%d,%d,%d,0,100000,1\n", i, (i*37)%100, (i*61)%100)
+	}
+	r := newRecorder()
+	e := NewEngine(r.post)
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "big.csv", "text": b.String()}))
+	r.wait(t, "loaded")
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0, "iterations": 3, "seed": 1, "role": "search"}))
+	fin := r.wait(t, "finished")
+	assert.Equal(t, "iterations", fin["why"])
+	r.mu.Lock()
+	var last map[string]any
+	for _, m := range r.msgs {
+		if m["type"] == "plan" {
+			last = m
+		}
+	}
+	r.mu.Unlock()
+	require.NotNil(t, last)
+	assert.NotContains(t, last, "json")
+	rows := strings.Split(strings.TrimSpace(last["csv"].(string)), "\n")
+	assert.True(t, strings.HasPrefix(rows[0], "order,site,name,arrival"), rows[0])
+	assert.Len(t, rows, 1+exportsUpTo+22, "header, the start, every visit and the return")
+	assert.Len(t, last["plan"].(map[string]any)["route"], exportsUpTo+21)
 }
