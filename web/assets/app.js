@@ -75,6 +75,7 @@ function onEngine(m) {
     case "loaded":
       if (!readingNow(m)) break;
       endReading();
+      if (typeof m.memory_mb === "number") document.body.dataset.loadedMb = String(m.memory_mb); // the worker's memory, for measurements
       onLoaded(m.summary);
       break;
     case "errors":
