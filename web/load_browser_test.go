@@ -110,4 +110,5 @@ func TestPageBigPasteReadsWithProgress(t *testing.T) {
 	assert.False(t, eval[bool](t, ctx, `document.querySelector('[data-testid=cancel-load]').checkVisibility()`))
 	assert.True(t, eval[bool](t, ctx, `document.querySelector('[data-testid=paste-input]').value === window.__big`))
 	assert.Contains(t, eval[string](t, ctx, `document.getElementById('summary').textContent`), "Visits2999")
+	t.Logf("%d bytes read; the first search worker's WebAssembly memory after reading: %s MB", len(bigPaste(t)), eval[string](t, ctx, `document.body.dataset.loadedMb || "?"`))
 }

@@ -77,6 +77,7 @@ function onEngine(m) {
     case "loaded":
       if (!readingNow(m)) break;
       endReading();
+      if (typeof m.memory_mb === "number") document.body.dataset.loadedMb = String(m.memory_mb); // the worker's memory, for measurements
       onLoaded(m.summary);
       break;
     case "errors":
@@ -666,7 +667,8 @@ function onFinished(m) {
     complete: "Finished early: nothing was left to search" + took + (state.plan && state.plan.proven_optimal ? "; the plan is proven best." : "."),
     error: "The search failed: " + (m.message || "unknown error"),
   };
-  setStatus(why[m.why] || "Finished" + took + ".", m.why === "error" ? "error" : "done");
+  // The budget was too short for a searched plan: say so beside the reason.
+  setStatus((why[m.why] || "Finished" + took + ".") + (m.note && m.why !== "error" ? " " + m.note : ""), m.why === "error" ? "error" : "done");
   drawNow();
   if (!state.plan) chart();
   setTimeout(saveSession, 0);

@@ -32,7 +32,7 @@ if (typeof Go === "undefined") {
         while (queue.length) queue.shift()();
       }, 0);
     }
-    if (msg.type === "progress" || msg.type === "finished" || msg.type === "bound") msg.memory_mb = memoryMB();
+    if (msg.type === "progress" || msg.type === "finished" || msg.type === "bound" || msg.type === "loaded") msg.memory_mb = memoryMB();
     // When the worker sent it (ms since the epoch, as the page's clock):
     // the page may take it in much later when it is busy drawing.
     msg.sent_at = performance.timeOrigin + performance.now();
