@@ -361,7 +361,8 @@ func TestEngineBoundRole(t *testing.T) {
 	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0, "iterations": 2000, "seed": 1, "role": "search"}))
 	fin := r.wait(t, "finished")
 	assert.Equal(t, "iterations", fin["why"])
-	route := r.wait(t, "plan")["plan"].(map[string]any)["route"]
+	first := r.wait(t, "plan")["plan"].(map[string]any)
+	route, cost := first["route"], first["cost"]
 	r.mu.Lock()
 	r.msgs = nil
 	r.mu.Unlock()
@@ -373,7 +374,13 @@ func TestEngineBoundRole(t *testing.T) {
 	assert.Equal(t, true, v["proven_optimal"])
 	assert.Equal(t, "complete", r.wait(t, "finished")["why"])
 	assert.Zero(t, r.count("progress"), "the bound worker does not search")
-	assert.Zero(t, r.count("plan"), "the adopted plan is optimal: the bound has none better to send")
+	// The adopt may come after the bound has finished its exact search on
+	// its own (start and adopt race): then it sends the optimum it found,
+	// which is no worse than the adopted plan.
+	if n := r.count("plan"); n > 0 {
+		assert.Equal(t, 1, n)
+		assert.LessOrEqual(t, r.lastPlan()["cost"].(float64), cost.(float64), "the bound's plan is the optimum")
+	}
 }
 
 func TestEngineRejectsUnknownRole(t *testing.T) {

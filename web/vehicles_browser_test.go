@@ -126,3 +126,21 @@ func TestPageVehicleEditorKeptUnread(t *testing.T) {
 	assert.Equal(t, "Petra", eval[string](t, ctx, `document.querySelector('[data-testid=vehicle-cards] li[data-row="1"] input[data-field="name"]').value`))
 	assert.Equal(t, "2", eval[string](t, ctx, `document.querySelector('[data-testid=fleet-size]').value`))
 }
+
+// Emptying the vehicles text plans one vehicle again: the count goes too,
+// and Start reads the sites alone.
+func TestPageVehicleEditorEmptiedIsOneVehicle(t *testing.T) {
+	ctx, _ := tab(t)
+	openPage(t, ctx, "")
+	require.NoError(t, chromedp.Do(ctx, chromedp.Click(chromedp.CSS(`#team-box > summary`))))
+	setField(t, ctx, "fleet-size", "2")
+	paste(t, ctx, readText(t, filepath.Join("..", "testdata", "fleet", "boiler-team-sites.csv")))
+	waitFor(t, ctx, `!!document.querySelector('[data-testid=team-summary]')`, 10*time.Second)
+	setField(t, ctx, "vehicles-input", "")
+	assert.Equal(t, "", eval[string](t, ctx, `document.querySelector('[data-testid=fleet-size]').value`))
+	assert.Equal(t, 0, eval[int](t, ctx, `document.querySelectorAll('[data-testid=vehicle-cards] li').length`))
+	run(t, ctx, "0.3")
+	assert.False(t, eval[bool](t, ctx, `!!document.querySelector('[data-testid=team-summary]')`), "one vehicle again")
+	assert.Zero(t, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .lane-head').length`))
+	assert.Positive(t, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .visit').length`))
+}

@@ -253,6 +253,8 @@ export function wireVehicleEditor(o) {
   $("vehicles-input").addEventListener("input", () => {
     ed.stash = [];
     ed.note = "";
+    // Emptied: one vehicle again (a Solomon file keeps its count).
+    if (!$("vehicles-input").value.trim() && !solomonDay()) $("fleet-size").value = "";
     fromBox();
   });
   fromBox();
