@@ -63,7 +63,9 @@ func loadBench(t testing.TB, k known) *solver.Instance {
 }
 
 // reportOptions reads VISITLINE_BOUND_RELAX (the share of the time for the
-// penalty ascent) and VISITLINE_BOUND_NGMAX (the largest ng-neighbourhood
+// penalty ascent), VISITLINE_BOUND_STATE (labels per state),
+// VISITLINE_BOUND_NG (the ng-neighbourhoods' size) and
+// VISITLINE_BOUND_NGMAX (the largest ng-neighbourhood
 // the ascent may grow to) for experiments; the default options otherwise.
 func reportOptions(t *testing.T) Options {
 	var o Options
@@ -71,6 +73,16 @@ func reportOptions(t *testing.T) Options {
 		f, err := strconv.ParseFloat(v, 64)
 		require.NoError(t, err)
 		o.RelaxShare = f
+	}
+	if v := os.Getenv("VISITLINE_BOUND_STATE"); v != "" {
+		k, err := strconv.Atoi(v)
+		require.NoError(t, err)
+		o.StateLabels = k
+	}
+	if v := os.Getenv("VISITLINE_BOUND_NG"); v != "" {
+		k, err := strconv.Atoi(v)
+		require.NoError(t, err)
+		o.Neighbours = k
 	}
 	if v := os.Getenv("VISITLINE_BOUND_NGMAX"); v != "" {
 		k, err := strconv.Atoi(v)

@@ -24,7 +24,8 @@ type Options struct {
 	// 120 nodes, 32 above: larger tables converge too slowly to pay).
 	StateLabels int
 	// Neighbours is the size of the ng-route neighbourhoods of the
-	// relaxation, each node counted in its own (default 4, at most 12);
+	// relaxation, each node counted in its own (default 6 up to 120 nodes,
+	// 4 above; at most 12);
 	// NeighboursMax, when larger, lets them grow where the relaxed path
 	// cycles (decremental state-space relaxation). Larger neighbourhoods
 	// forbid more cycles but make each penalty step slower.
@@ -172,6 +173,12 @@ func Exact(ctx context.Context, in *solver.Instance, o Options) Bound {
 func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact bool) Bound {
 	if o.StateLabels <= 0 && in.N > largeN {
 		o.StateLabels = 32
+	}
+	if o.Neighbours <= 0 && in.N <= largeN {
+		// Up to largeN nodes the tables hold enough labels per state for
+		// memories of 6; above, with 32 labels per state, 4 gives the better
+		// bound (docs/results.md).
+		o.Neighbours = smallNG
 	}
 	o = o.withDefaults()
 	var b Bound
@@ -454,6 +461,9 @@ func WithCPUBudget(parent context.Context, budget time.Duration, clock func() ti
 	}()
 	return c, cancel
 }
+
+// smallNG is the ng-neighbourhood size up to largeN nodes.
+const smallNG = 6
 
 // largeN is the size above which the relaxation's tables are coarser.
 const largeN = 120

@@ -1,9 +1,11 @@
 package bound
 
 import (
+	"cmp"
 	"context"
 	"fmt"
 	"math/rand"
+	"slices"
 	"testing"
 
 	"github.com/stretchr/testify/require"
@@ -113,4 +115,45 @@ func TestNGSetsGrowOnCycles(t *testing.T) {
 		require.LessOrEqual(t, len(ng.list[i]), 3)
 	}
 	require.Len(t, ng.list[5], 3)
+}
+
+// TestMergeByMemoryRelaxes: merging a state's labels to fit the cap keeps
+// a relaxation (every label is dominated by a merged one: as late a start,
+// no dearer, remembering no more), in L-descending order, within the cap;
+// and with fewer memories than slots, it never mixes memories.
+func TestMergeByMemoryRelaxes(t *testing.T) {
+	rng := rand.New(rand.NewSource(3))
+	for c := 0; c < 200; c++ {
+		n := 1 + rng.Intn(300)
+		k := 1 + rng.Intn(40)
+		mems := 1 + rng.Intn(12)
+		in := make([]cand, n)
+		for i := range in {
+			in[i] = cand{L: int64(rng.Intn(500)), C: int64(rng.Intn(1000) - 300), M: uint64(rng.Intn(mems))<<1 | 1, sl: int32(i)}
+		}
+		slices.SortFunc(in, func(a, b cand) int { return cmp.Compare(b.L, a.L) })
+		out := mergeByMemory(append([]cand(nil), in...), k)
+		require.LessOrEqual(t, len(out), k, "case %d", c)
+		for i := 1; i < len(out); i++ {
+			require.GreaterOrEqual(t, out[i-1].L, out[i].L, "case %d: L descending", c)
+		}
+		distinct := map[uint64]bool{}
+		for _, x := range in {
+			distinct[x.M] = true
+		}
+		for _, x := range in {
+			require.True(t, slices.ContainsFunc(out, func(o cand) bool { return o.L >= x.L && o.C <= x.C && o.M&^x.M == 0 }),
+				"case %d: label %+v has no merged label that relaxes it", c, x)
+		}
+		if len(distinct) <= k {
+			for _, o := range out {
+				require.True(t, distinct[o.M], "case %d: a merged memory %b that no label had", c, o.M)
+			}
+			kept := map[uint64]bool{}
+			for _, o := range out {
+				kept[o.M] = true
+			}
+			require.Len(t, kept, len(distinct), "case %d: every memory keeps a label", c)
+		}
+	}
 }

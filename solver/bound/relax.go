@@ -240,7 +240,7 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 			bestUsed = bestUsed[:0]
 			out := keep
 			if perState > 0 && len(keep) > perState {
-				out = mergeLabels(keep, perState)
+				out = mergeByMemory(keep, perState)
 				rx.merged = true
 			}
 			for _, c := range out {
@@ -387,6 +387,58 @@ func sortCands(c, buf []cand, width, top int64, counts *[]int32, skipRuns bool) 
 		a = b
 	}
 	return out, c
+}
+
+// mergeByMemory cuts a Pareto list (L descending) to at most k labels like
+// mergeLabels, but merges only labels with the same memory, each memory's
+// labels getting a share of the k slots by their number: the merged labels
+// then lose time only, never the cycles their memory forbids, which on wide
+// windows are what the bound lives on. With more memories than slots it
+// falls back to mergeLabels. The result is in L-descending order.
+func mergeByMemory(c []cand, k int) []cand {
+	ord := make([]int, len(c))
+	for i := range ord {
+		ord[i] = i
+	}
+	slices.SortStableFunc(ord, func(a, b int) int { return cmp.Compare(c[a].M, c[b].M) })
+	var starts []int
+	for i := range ord {
+		if i == 0 || c[ord[i]].M != c[ord[i-1]].M {
+			starts = append(starts, i)
+		}
+	}
+	if len(starts) > k {
+		return mergeLabels(c, k)
+	}
+	starts = append(starts, len(ord))
+	out := make([]cand, 0, k)
+	groups := len(starts) - 1
+	spare := k - groups // slots beyond one per memory
+	for g := 0; g < groups; g++ {
+		a, b := starts[g], starts[g+1]
+		size := b - a
+		slots := 1 + spare*size/len(c)
+		slots = min(slots, size)
+		per := (size + slots - 1) / slots
+		for x := a; x < b; x += per {
+			y := min(x+per, b)
+			m := c[ord[x]]
+			for _, q := range ord[x+1 : y] {
+				if c[q].C < m.C {
+					m.C, m.sl = c[q].C, c[q].sl
+				}
+				m.L = max(m.L, c[q].L)
+			}
+			out = append(out, m)
+		}
+	}
+	slices.SortFunc(out, func(a, b cand) int {
+		if a.L != b.L {
+			return cmp.Compare(b.L, a.L)
+		}
+		return cmp.Compare(a.C, b.C)
+	})
+	return out
 }
 
 // mergeLabels cuts a Pareto list (L descending) to k labels by replacing runs
