@@ -106,6 +106,22 @@ func (m *model) buildGranular() {
 	}
 }
 
+// candArc says whether a→b is a candidate arc: b among a's nearest
+// successors or a among b's nearest predecessors.
+func (m *model) candArc(a, b int32) bool {
+	for _, c := range m.succ[a] {
+		if c == b {
+			return true
+		}
+	}
+	for _, c := range m.pred[b] {
+		if c == a {
+			return true
+		}
+	}
+	return false
+}
+
 // granular says whether the repair uses the candidate lists.
 func (m *model) granular() bool { return m.succ != nil }
 

@@ -108,6 +108,7 @@ func (p *polisher) mustPrecedeAny(v int32, a, b int) bool {
 
 func (p *polisher) orOpt() bool {
 	x, m := p.x, p.m
+	gran := m.granular()
 	improvedAny := false
 	for i := 1; i <= len(x.r)-2; i++ {
 		if p.stopNow() {
@@ -146,6 +147,9 @@ func (p *polisher) orOpt() bool {
 					if p.anyMustBeforeNode(nd, i, j) {
 						break
 					}
+					if gran && !m.candArc(x.r[q], sf) && !m.candArc(sz, nd) {
+						continue
+					}
 					s := join(x.fwd[q], S, m.arc(x.r[q], sf))
 					s = join(s, mid, m.arc(sz, nd))
 					s = join(s, x.bwd[j+1], m.arc(x.r[i-1], x.r[j+1]))
@@ -165,6 +169,9 @@ func (p *polisher) orOpt() bool {
 					}
 					if p.mustPrecedeAnyNode(i, j, nd) {
 						break
+					}
+					if gran && !m.candArc(nd, sf) && !m.candArc(sz, x.r[q+1]) {
+						continue
 					}
 					s := join(x.fwd[i-1], mid, m.arc(x.r[i-1], x.r[j+1]))
 					s = join(s, S, m.arc(nd, sf))
@@ -232,6 +239,7 @@ func (p *polisher) applyOr(i, j, q int, rev bool) {
 
 func (p *polisher) twoOpt() bool {
 	x, m := p.x, p.m
+	gran := m.granular()
 	improvedAny := false
 	feasible := x.total().tw == 0
 	for i := 1; i < len(x.r)-2; i++ {
@@ -247,6 +255,9 @@ func (p *polisher) twoOpt() bool {
 			rev = join(m.unit(int(x.r[j])), rev, m.arc(x.r[j], x.r[j-1]))
 			if feasible && rev.tw > 0 {
 				break // longer reversals from i only add warp
+			}
+			if gran && !m.candArc(x.r[i-1], x.r[j]) && !m.candArc(x.r[i], x.r[j+1]) {
+				continue
 			}
 			s := join(x.fwd[i-1], rev, m.arc(x.r[i-1], x.r[j]))
 			s = join(s, x.bwd[j+1], m.arc(x.r[i], x.r[j+1]))

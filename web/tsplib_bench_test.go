@@ -8,6 +8,7 @@ package web_test
 // with VISITLINE_BENCH_TSPLIB=1.
 
 import (
+	"fmt"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -41,6 +42,9 @@ func TestBenchBrowserTSPLIB(t *testing.T) {
 	if v := os.Getenv("VISITLINE_BENCH_TSPLIB_FILES"); v != "" {
 		files = strings.Split(v, ",")
 	}
+	// VISITLINE_BENCH_TSPLIB_BOUND=1 runs the bound worker beside the
+	// search (for its memory; the plans then depend on timing).
+	withBound := os.Getenv("VISITLINE_BENCH_TSPLIB_BOUND") == "1"
 	ctx := longTab(t, time.Hour)
 	site(t)
 	for _, f := range files {
@@ -53,7 +57,7 @@ func TestBenchBrowserTSPLIB(t *testing.T) {
 		c0 := browserCPU(t)
 		w0 := time.Now()
 		plan, _, fin := engineRun(t, ctx, map[string]any{"type": "load", "text": text},
-			map[string]any{"type": "start", "budget": budget, "seed": 1, "no_bound": true}, 1)
+			map[string]any{"type": "start", "budget": budget, "seed": 1, "no_bound": !withBound}, 1)
 		wall := time.Since(w0)
 		cpu := browserCPU(t) - c0
 		require.NotNil(t, fin, "%s: finished", f)
@@ -65,7 +69,16 @@ func TestBenchBrowserTSPLIB(t *testing.T) {
 		opt := optimal[strings.TrimSuffix(f, filepath.Ext(f))]
 		require.Greater(t, opt, 0.0, "%s in optimal.csv", f)
 		require.GreaterOrEqual(t, length, opt-1e-9, "%s: a tour below the published optimum would be news", f)
-		t.Logf("%s: page, 1 search worker, %g s: tour %g, optimal %g (TSPLIB), %.2f %% above; %.1f s wall, browser CPU %.1f s (all its processes, loading included), %v",
-			f, budget, length, opt, 100*(length-opt)/opt, wall.Seconds(), cpu.Seconds(), fin["why"])
+		mem := ""
+		for _, w := range fin["workers"].([]any) {
+			mem += fmt.Sprintf(" search worker %.0f MB", w.(map[string]any)["memory_mb"].(float64))
+		}
+		if b, ok := fin["bound"].(map[string]any); ok {
+			if mb, ok := b["memory_mb"].(float64); ok {
+				mem += fmt.Sprintf(", bound worker %.0f MB", mb)
+			}
+		}
+		t.Logf("%s: page, 1 search worker, bound %v, %g s: tour %g, optimal %g (TSPLIB), %.2f %% above; %.1f s wall, browser CPU %.1f s (all its processes, loading included), %v; WebAssembly memory:%s",
+			f, withBound, budget, length, opt, 100*(length-opt)/opt, wall.Seconds(), cpu.Seconds(), fin["why"], mem)
 	}
 }
