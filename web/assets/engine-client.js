@@ -130,6 +130,7 @@
     }
 
     function post(w, msg) {
+      if (msg.type === "load") w.lastPosted = msg.load_id || 0;
       if (w.worker) w.worker.postMessage(msg);
     }
 
@@ -191,11 +192,14 @@
       lastLoad = doneLoad;
       for (const w of allWorkers()) {
         post(w, msg);
-        if (w.holds === msg.load_id) restoreLoad(w);
+        if (w.holds === msg.load_id) restoreLoad(w, msg.load_id);
       }
     }
 
-    function restoreLoad(w) {
+    // restoreLoad has w read the data before a cancelled load again, unless
+    // a later load was posted to it (that one replaces the data anyway).
+    function restoreLoad(w, cancelled) {
+      if (w.lastPosted !== cancelled) return;
       w.holds = doneLoad ? doneLoad.load_id : 0;
       if (doneLoad) post(w, doneLoad);
     }
@@ -268,7 +272,7 @@
         case "errors":
           if (m.load_id && cancelledLoads.has(m.load_id)) {
             // It ended before the cancel got there: back to the data before.
-            restoreLoad(w);
+            restoreLoad(w, m.load_id);
             return;
           }
           w.holds = m.load_id || 0;
