@@ -20,8 +20,8 @@ type Options struct {
 	// Iterations of the subgradient ascent on the node penalties (default 80).
 	Iterations int
 	// StateLabels caps the labels of one state of the relaxation; beyond it,
-	// neighbouring labels are merged into optimistic ones (default 128 up to
-	// 120 nodes, 32 above: larger tables converge too slowly to pay).
+	// labels are merged into optimistic ones (default 128 up to 120 nodes,
+	// 64 up to 250, 32 above: larger tables converge too slowly to pay).
 	StateLabels int
 	// Neighbours is the size of the ng-route neighbourhoods of the
 	// relaxation, each node counted in its own (default 6 up to 120 nodes,
@@ -172,7 +172,13 @@ func Exact(ctx context.Context, in *solver.Instance, o Options) Bound {
 // exact search under sctx (which ends no later than ctx).
 func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact bool) Bound {
 	if o.StateLabels <= 0 && in.N > largeN {
+		// Measured on the published days of 151-201 nodes: 64 gave better
+		// bounds than 32 at 10 CPU s (docs/results.md); larger days keep 32,
+		// untested beyond, and their tables are cut down anyway.
 		o.StateLabels = 32
+		if in.N <= mediumN {
+			o.StateLabels = 64
+		}
 	}
 	if o.Neighbours <= 0 && in.N <= largeN {
 		// Up to largeN nodes the tables hold enough labels per state for
@@ -464,6 +470,10 @@ func WithCPUBudget(parent context.Context, budget time.Duration, clock func() ti
 
 // smallNG is the ng-neighbourhood size up to largeN nodes.
 const smallNG = 6
+
+// mediumN is the size up to which the coarser tables keep 64 labels per
+// state.
+const mediumN = 250
 
 // largeN is the size above which the relaxation's tables are coarser.
 const largeN = 120
