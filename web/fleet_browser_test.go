@@ -290,6 +290,17 @@ func TestPageFleetOneVehicleCalendarAndPrint(t *testing.T) {
 	for _, id := range t2.VisitIDs {
 		assert.Contains(t, ics, id, "T2's visit %s", id)
 	}
+	// The CSV for T2 alone: the header and T2's rows, in its visiting order.
+	name, csvText := exportText(t, ctx, "export-csv")
+	assert.True(t, strings.HasSuffix(name, "-plan-T2.csv"), name)
+	rows, err := csv.NewReader(strings.NewReader(csvText)).ReadAll()
+	require.NoError(t, err)
+	require.Len(t, rows, 1+len(t2.VisitIDs), csvText)
+	assert.Equal(t, "vehicle", rows[0][0])
+	for k, id := range t2.VisitIDs {
+		assert.Equal(t, "T2", rows[k+1][0])
+		assert.Equal(t, id, rows[k+1][3], "T2's visit %d", k+1)
+	}
 	// All vehicles again: the team's calendar.
 	setField(t, ctx, "export-vehicle", "")
 	name, ics = exportText(t, ctx, "export-ics")

@@ -342,7 +342,7 @@ func planPanel() g.Node {
 			h.H2(h.ID("plan-title"), g.Text("Day plan")),
 			h.Div(h.Class("exports"), h.Role("group"), h.Aria("label", "Take the plan with you"),
 				h.Label(h.ID("export-vehicle-box"), h.Class("export-vehicle"), h.Hidden(""),
-					h.Span(g.Text("For")), h.Select(h.ID("export-vehicle"), testid("export-vehicle"), h.Aria("label", "Calendar and print for"))),
+					h.Span(g.Text("For")), h.Select(h.ID("export-vehicle"), testid("export-vehicle"), h.Aria("label", "CSV, calendar and print for"))),
 				h.Button(h.Type("button"), h.ID("export-csv"), testid("export-csv"), h.Class("secondary"), h.Disabled(), g.Text("CSV")),
 				h.Button(h.Type("button"), h.ID("export-json"), testid("export-json"), h.Class("secondary"), h.Disabled(), g.Text("JSON")),
 				h.Button(h.Type("button"), h.ID("export-ics"), testid("export-ics"), h.Class("secondary"), h.Disabled(), g.Text("Calendar")),

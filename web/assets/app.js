@@ -15,7 +15,7 @@ import { baseName, download } from "./exports.mjs";
 import { pack, unpack, linkPayload, isShareHash, LinkError, MAX_LINK } from "./share.mjs";
 import { KEEP_SENTENCE, keepWanted, setKeep, save, forget, startup, readKept } from "./session.mjs";
 import { connectEngine, defaultCores, MAX_CORES } from "./engine.mjs";
-import { updateVehicleChoice, chosenVehicle, fileTag, buildTeamPrint } from "./team-exports.mjs";
+import { updateVehicleChoice, chosenVehicle, fileTag, buildTeamPrint, csvForVehicle } from "./team-exports.mjs";
 import { wireVehicleEditor, vehiclesText, vehicleProblems, focusFirstProblem, editorSeesSites } from "./vehicle-editor.mjs";
 
 const state = {
@@ -709,7 +709,11 @@ function saved(name, type, text) {
 }
 
 const exporters = {
-  "export-csv": () => saved(baseName(state.data && state.data.name) + "-plan.csv", "text/csv", state.planCSV),
+  "export-csv": () => {
+    // A team's day: the vehicle chosen beside the buttons alone, or all.
+    const v = state.plan ? chosenVehicle(state.plan) : "";
+    saved(baseName(state.data && state.data.name) + "-plan" + fileTag(v) + ".csv", "text/csv", v ? csvForVehicle(state.planCSV, v) : state.planCSV);
+  },
   "export-json": () => saved(baseName(state.data && state.data.name) + "-plan.json", "application/json", planJSON()),
   "export-ics": () => {
     if (!state.plan) return;

@@ -118,3 +118,47 @@ function visitTable(r, k, model) {
   t.insertBefore(cap, t.firstChild);
   return t;
 }
+
+// csvForVehicle keeps, of a team's plan CSV (the vehicle's id in the first
+// column), the header and the rows of vehicle v. Fields are read as
+// RFC 4180 says (quotes around fields that hold the delimiter, a line end
+// or a quote, quotes doubled inside), so a quoted name that holds a line
+// end stays one row.
+export function csvForVehicle(csv, v) {
+  const out = [];
+  let i = 0;
+  let first = true;
+  while (i < csv.length) {
+    // One record: from i to the line end that is outside quotes.
+    let j = i;
+    let quoted = false;
+    for (; j < csv.length; j++) {
+      const ch = csv[j];
+      if (ch === '"') quoted = !quoted;
+      else if (ch === "\n" && !quoted) break;
+    }
+    const rec = csv.slice(i, Math.min(j + 1, csv.length));
+    if (first || firstField(rec) === v) out.push(rec);
+    first = false;
+    i = j + 1;
+  }
+  return out.join("");
+}
+
+// firstField is a CSV record's first field, unquoted.
+function firstField(rec) {
+  if (rec[0] !== '"') {
+    const k = rec.search(/[,\r\n]/);
+    return k < 0 ? rec : rec.slice(0, k);
+  }
+  let s = "";
+  for (let k = 1; k < rec.length; k++) {
+    if (rec[k] === '"') {
+      if (rec[k + 1] === '"') {
+        s += '"';
+        k++;
+      } else return s;
+    } else s += rec[k];
+  }
+  return s;
+}
