@@ -40,7 +40,9 @@ function randomValue(r, depth) {
     default: {
       const keys = ["v", "name", "text", "matrix", "matrix_name", "options", "settings", "plan", "csv", "vehicles", "vehicles_name", "fleet",
         "route", "schedule", "routes", "visits", "speed", "done", "end", "__proto__", "constructor"];
-      const o = {};
+      // No prototype: "__proto__" is then a key like any other, as
+      // JSON.parse makes it from a link.
+      const o = Object.create(null);
       for (let i = Math.floor(r() * 6); i > 0; i--) o[keys[Math.floor(r() * keys.length)]] = randomValue(r, depth + 1);
       return o;
     }
@@ -49,7 +51,8 @@ function randomValue(r, depth) {
 
 // linkLike is an object shaped like a link's data, its fields of any type.
 function linkLike(r) {
-  const o = { text: r() < 0.8 ? String(randomValue(r, 3)) : randomValue(r, 1) };
+  const t = randomValue(r, 3);
+  const o = { text: r() < 0.8 ? (typeof t === "string" ? t : JSON.stringify(t) || "") : randomValue(r, 1) };
   const opts = {};
   for (const k of ["end", "start", "shift_start", "matrix_unit", "now", "speed", "road_factor", "done", "other"]) if (r() < 0.4) opts[k] = randomValue(r, 2);
   for (const [k, v] of [["options", opts], ["name", randomValue(r, 2)], ["fleet", randomValue(r, 2)], ["settings", randomValue(r, 1)],
