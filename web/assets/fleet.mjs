@@ -5,7 +5,7 @@
 // table with a vehicle column. The plan is the fleet plan of `solve
 // --format json` (format.FleetPlanJSON).
 
-import { $, el } from "./dom.mjs";
+import { $, el, markup } from "./dom.mjs";
 import { isOpen, clock, duration, longDuration, plural, dayHeading } from "./fmt.mjs";
 import { describeVisit, axisRow } from "./timeline.mjs";
 
@@ -151,15 +151,7 @@ export function drawFleetTimeline(p, model) {
       prevDep = v.departure;
     });
   });
-  const body = document.createElement("template");
-  body.innerHTML = html.join("");
-  const marks = body.content.querySelectorAll("[data-p]");
-  for (let i = 0; i < marks.length; i++) {
-    const st = marks[i].style;
-    st.left = spots[2 * i];
-    st.width = spots[2 * i + 1];
-  }
-  frag.appendChild(body.content);
+  frag.appendChild(markup(html, spots));
   tl.textContent = "";
   tl.className = "timeline fleet" + (compact ? " lanes-compact" : "");
   tl.appendChild(frag);

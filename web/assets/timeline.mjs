@@ -3,7 +3,7 @@
 // axis stays in view while the rows scroll (CSS sticky); past 60 visits
 // the rows get thinner and the names show on hover or focus.
 
-import { $, el } from "./dom.mjs";
+import { $, el, markup } from "./dom.mjs";
 import { isOpen, clock, duration } from "./fmt.mjs";
 import { planRows, axisSpan, ticks, density } from "./axis.mjs";
 
@@ -119,15 +119,7 @@ export function timelineDrawing(p, model) {
       prevDep = v.departure;
       if ((next & 31) === 0 && performance.now() > deadline) break;
     }
-    const body = document.createElement("template");
-    body.innerHTML = html.join("");
-    const marks = body.content.querySelectorAll("[data-p]");
-    for (let i = 0; i < marks.length; i++) {
-      const st = marks[i].style;
-      st.left = spots[2 * i];
-      st.width = spots[2 * i + 1];
-    }
-    frag.appendChild(body.content);
+    frag.appendChild(markup(html, spots));
   }
 
   return {
