@@ -141,8 +141,13 @@ func TestBenchBrowser(t *testing.T) {
 			name string
 			text func() string
 		}
+		// Whole sizes of the comma-separated list: "2000" is not "200".
+		want := map[string]bool{}
+		for _, f := range strings.Split(s, ",") {
+			want[strings.TrimSpace(f)] = true
+		}
 		for _, c := range sizes {
-			if strings.Contains(s, strings.Fields(c.name)[0]) {
+			if want[strings.Fields(c.name)[0]] {
 				keep = append(keep, c)
 			}
 		}
