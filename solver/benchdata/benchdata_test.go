@@ -29,7 +29,7 @@ func TestReadErrorsNameLineAndField(t *testing.T) {
 		{"family,instance,best_known\nDumas,a,x\n", "bk.csv:2:3: best_known \"x\" is not a number"},
 		{"Dumas,a,1,y,src\n", "bk.csv:1:4: lower_bound \"y\" is not a number"},
 		{"Dumas,a\n", "bk.csv:1: want family,instance,best_known"},
-		{"instance,customers,vehicles,distance,found\nc1_2_1,200,20,2704.5678,2001-01-01\n", "bk.csv:1: this is the table of the team benchmark"},
+		{"instance,customers,vehicles,distance,found\nday1,12,3,100.5,2026-01-01\n", "bk.csv:1: this is the table of the team benchmark"},
 	} {
 		_, err := Read(strings.NewReader(c.in), "bk.csv")
 		assert.ErrorContains(t, err, c.want, c.in)

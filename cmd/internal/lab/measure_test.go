@@ -255,7 +255,7 @@ func TestReplaceBetweenOnlyUsesMarkerLines(t *testing.T) {
 func TestBenchNamesMissingInstanceBeforeReadingBounds(t *testing.T) {
 	dir := t.TempDir()
 	bounds := filepath.Join(dir, "best-known.csv")
-	require.NoError(t, os.WriteFile(bounds, []byte("instance,customers,vehicles,distance,found\nc1_2_1,200,20,2704.5678,2001-01-01\n"), 0o644))
+	require.NoError(t, os.WriteFile(bounds, []byte("instance,customers,vehicles,distance,found\nday1,12,3,100.5,2026-01-01\n"), 0o644))
 	missing := filepath.Join(dir, "nothing-here.txt")
 	var out, errOut bytes.Buffer
 	code := Main([]string{"bench", "--budget", "1s", "--bounds", bounds, missing}, &out, &errOut)
