@@ -277,6 +277,8 @@ func (e *Engine) start(m inbound) {
 		o.NoBound = true
 		o.Seed += int64(m.Worker) * 7919
 	}
+	asked := o.Budget
+	o.Budget -= waited(m.ClickedAt, o.Budget)
 	s, err := o.Settings()
 	if err != nil {
 		e.fail("%v", err)
@@ -288,12 +290,27 @@ func (e *Engine) start(m inbound) {
 	r := &run{id: e.ids, cancel: cancel, mix: make(chan solver.Mix, 1), adopt: make(chan []int, 4), done: make(chan struct{}), start: time.Now()}
 	e.cur = r
 	e.mu.Unlock()
-	e.send(startedMsg{Type: "started", Run: r.id, Role: m.Role, Budget: o.Budget, Seed: o.Seed, Mix: mixOut(s.Mix), Fixed: o.Fixed, Objective: s.Objective.String()})
+	e.send(startedMsg{Type: "started", Run: r.id, Role: m.Role, Budget: asked, Seed: o.Seed, Mix: mixOut(s.Mix), Fixed: o.Fixed, Objective: s.Objective.String()})
 	if m.Role == "bound" {
 		go e.boundSide(ctx, r, d, s)
 		return
 	}
 	go e.search(ctx, r, d, o)
+}
+
+// waited is how many seconds a start message of a budget of budget
+// seconds waited between the click (clickedAt, ms since the epoch) and
+// now: what comes off the budget. At most half the budget, and 0 for no
+// stamp or a clock that seems wrong.
+func waited(clickedAt, budget float64) float64 {
+	if clickedAt <= 0 || budget <= 0 {
+		return 0
+	}
+	w := time.Since(time.UnixMilli(int64(clickedAt))).Seconds()
+	if w <= 0 || w > budget/2 {
+		return 0
+	}
+	return w
 }
 
 // mixOut gives the weights the search starts from, for display.
@@ -511,7 +528,11 @@ func (e *Engine) boundSide(ctx context.Context, r *run, d *format.Dataset, s sol
 			mu.Unlock()
 		}
 	}
-	// Adopted plans arrive on r.adopt while the bound runs.
+	// Adopted plans arrive on r.adopt while the bound runs, and while the
+	// explanation runs: a feasible one ends the explanation (the day can
+	// be met after all; a search worker's first plan of a large day may
+	// come after the bound's time).
+	var explaining context.CancelFunc
 	stopTaking := make(chan struct{})
 	taken := make(chan struct{})
 	go func() {
@@ -520,6 +541,11 @@ func (e *Engine) boundSide(ctx context.Context, r *run, d *format.Dataset, s sol
 			select {
 			case route := <-r.adopt:
 				take(route)
+				mu.Lock()
+				if incOK && explaining != nil {
+					explaining()
+				}
+				mu.Unlock()
 			case <-stopTaking:
 				return
 			}
@@ -530,8 +556,6 @@ func (e *Engine) boundSide(ctx context.Context, r *run, d *format.Dataset, s sol
 		defer mu.Unlock()
 		return incCost, incOK
 	}})
-	close(stopTaking)
-	<-taken
 	for len(r.adopt) > 0 {
 		take(<-r.adopt)
 	}
@@ -539,12 +563,17 @@ func (e *Engine) boundSide(ctx context.Context, r *run, d *format.Dataset, s sol
 	if ctx.Err() != nil {
 		why = solver.StopStopped
 	}
+	mu.Lock()
 	if b.Route != nil && (!incOK || b.Cost < incCost) {
 		sch := solver.Evaluate(in, b.Route)
 		p := solver.Plan{Route: append([]int(nil), b.Route...), Schedule: sch, Cost: sch.Cost(s.Objective), Feasible: sch.Feasible,
 			Elapsed: time.Since(r.start), Operator: "exact"}
+		mu.Unlock()
 		(&plans{e: e, r: r, d: d, obj: s.Objective}).postWith(p, solver.Result{Best: p, Elapsed: p.Elapsed, Improvements: 1}, nil, true)
-		incCost, incOK = p.Cost, p.Feasible
+		mu.Lock()
+		if !incOK || p.Cost < incCost {
+			incCost, incOK = p.Cost, p.Feasible
+		}
 	}
 	msg := boundMsg{Type: "bound", Run: r.id, Infeasible: b.Infeasible}
 	if b.Valid {
@@ -555,14 +584,34 @@ func (e *Engine) boundSide(ctx context.Context, r *run, d *format.Dataset, s sol
 			why = solver.StopComplete
 		}
 	}
-	if !incOK && ctx.Err() == nil && (b.Infeasible || s.Budget > 0) {
+	explain := !incOK && ctx.Err() == nil && (b.Infeasible || s.Budget > 0)
+	limit := app.ExplainLimit(s.Budget)
+	if s.Budget > 0 {
+		limit = app.ExplainTime(s.Budget, time.Since(r.start))
+	}
+	var ectx context.Context
+	ecancel := context.CancelFunc(func() {})
+	if explain && limit > 0 {
+		ectx, ecancel = context.WithCancel(ctx)
+		explaining = ecancel
+	}
+	mu.Unlock()
+	defer ecancel()
+	if ectx != nil {
 		// No plan meets every window (proven, or none found in the
-		// budget): say why, within the explanation's share.
+		// budget): say why, within what is left of the budget's leeway.
 		e.send(progressMsg{Type: "progress", Run: r.id, Elapsed: time.Since(r.start).Seconds(), Explaining: true})
 		var j format.PlanReport
-		app.Explain(ctx, &j, d, app.ExplainLimit(s.Budget))
-		msg.Conflict, msg.Reason = j.Conflict, j.Reason
+		app.Explain(ectx, &j, d, limit)
+		mu.Lock()
+		if !incOK {
+			msg.Conflict, msg.Reason = j.Conflict, j.Reason
+		}
+		explaining = nil
+		mu.Unlock()
 	}
+	close(stopTaking)
+	<-taken
 	e.send(msg)
 	e.send(finishedMsg{Type: "finished", Run: r.id, Why: why, Elapsed: time.Since(r.start).Seconds()})
 }

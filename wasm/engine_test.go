@@ -439,3 +439,54 @@ func TestEngineLargeDayLastPlanHasCSVOnly(t *testing.T) {
 	assert.Len(t, rows, 1+exportsUpTo+22, "header, the start, every visit and the return")
 	assert.Len(t, last["plan"].(map[string]any)["route"], exportsUpTo+21)
 }
+
+// TestEngineBoundStopsExplainingForAFeasiblePlan: the bound worker's time
+// ends before any search worker has handed it a plan (on a large day the
+// first plan may come after the bound's budget), so it starts explaining
+// why no plan meets every window; a feasible plan adopted then ends the
+// explanation, and the verdict gives no reason against a day that can be
+// met.
+func TestEngineBoundStopsExplainingForAFeasiblePlan(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("id,x,y,open,close,service\nD,50,50,0,100000,0\n")
+	for i := 1; i <= 320; i++ {
+		fmt.Fprintf(&b, "S%d,%d,%d,0,100000,1\n", i, (i*37)%100, (i*61)%100)
+	}
+	r := newRecorder()
+	e := NewEngine(r.post)
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "big.csv", "text": b.String()}))
+	r.wait(t, "loaded")
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0, "iterations": 3, "seed": 1, "role": "search"}))
+	r.wait(t, "finished")
+	first := r.lastPlan()
+	require.Equal(t, true, first["feasible"])
+	r.mu.Lock()
+	r.msgs = nil
+	r.mu.Unlock()
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 0.2, "seed": 1, "role": "bound"}))
+	ex := r.wait(t, "progress")
+	require.Equal(t, true, ex["explaining"], "no plan was adopted within the bound's time: it explains")
+	e.Handle(msg(t, map[string]any{"type": "adopt", "route": first["route"]}))
+	v := r.wait(t, "bound")
+	assert.Empty(t, v["reason"], "a feasible plan came: nothing to explain")
+	assert.Empty(t, v["conflict"])
+	assert.Equal(t, "budget", r.wait(t, "finished")["why"])
+}
+
+// The budget counts from the click: the time a start message waited comes
+// off it, within reason.
+func TestWaitedComesOffTheBudget(t *testing.T) {
+	now := float64(time.Now().UnixMilli())
+	assert.InDelta(t, 0.5, waited(now-500, 3), 0.2, "half a second in the queue")
+	assert.Zero(t, waited(0, 3), "no stamp")
+	assert.Zero(t, waited(now+5000, 3), "a stamp from the future: the clock is off")
+	assert.Zero(t, waited(now-2000, 3), "more than half the budget: the clock is off, or the tab slept")
+	assert.Zero(t, waited(now-500, 0), "an iteration budget alone")
+	r := newRecorder()
+	e := NewEngine(r.post)
+	e.Handle(msg(t, map[string]any{"type": "load", "name": "picks.txt", "text": example(t)}))
+	r.wait(t, "loaded")
+	e.Handle(msg(t, map[string]any{"type": "start", "budget": 1, "seed": 1, "role": "search", "clicked_at": float64(time.Now().UnixMilli() - 400)}))
+	assert.EqualValues(t, 1, r.wait(t, "started")["budget"], "the budget asked for is echoed")
+	assert.Equal(t, "budget", r.wait(t, "finished")["why"])
+}

@@ -149,13 +149,15 @@ func (e *Engine) startFleet(m inbound, fd *format.FleetDataset) {
 	if m.Role == "search" {
 		o.Seed += int64(m.Worker) * 7919
 	}
+	asked := o.Budget
+	o.Budget -= waited(m.ClickedAt, o.Budget)
 	ctx, cancel := context.WithCancel(context.Background())
 	e.mu.Lock()
 	e.ids++
 	r := &run{id: e.ids, cancel: cancel, mix: make(chan solver.Mix, 1), adopt: make(chan []int, 4), done: make(chan struct{}), start: time.Now()}
 	e.cur = r
 	e.mu.Unlock()
-	e.send(startedMsg{Type: "started", Run: r.id, Role: m.Role, Budget: o.Budget, Seed: o.Seed, Mix: mixOut(nil), Objective: obj.String()})
+	e.send(startedMsg{Type: "started", Run: r.id, Role: m.Role, Budget: asked, Seed: o.Seed, Mix: mixOut(nil), Objective: obj.String()})
 	go e.searchFleet(ctx, r, fd, o, m.Minimize == "vehicles")
 }
 

@@ -180,6 +180,11 @@ type inbound struct {
 	// of one run (their seeds are seed + 7919·worker, as --workers).
 	Role   string `json:"role"`
 	Worker int    `json:"worker"`
+	// start: when the user asked for the run, in milliseconds since the
+	// Unix epoch by the page's clock (Date.now(), the clock the workers
+	// share); the time the message waited comes off the budget, so that
+	// the budget counts from the click. 0: from the message's arrival.
+	ClickedAt float64 `json:"clicked_at"`
 	// adopt, export: a plan's route, 0-based nodes as in a plan's "route".
 	Route []int `json:"route"`
 	// export, a fleet day: the plan's routes (vehicle id and visits, as in

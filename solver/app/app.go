@@ -193,7 +193,7 @@ func Run(ctx context.Context, d *format.Dataset, o RunOptions, h Hooks) (Outcome
 			if h.OnExplaining != nil {
 				h.OnExplaining()
 			}
-			if limit := explainTime(s.Budget, time.Since(began)); limit > 0 {
+			if limit := ExplainTime(s.Budget, time.Since(began)); limit > 0 {
 				Explain(ctx, &out.Plan, d, limit)
 			}
 		}
@@ -220,11 +220,11 @@ func ExplainLimit(budget time.Duration) time.Duration {
 	return min(max(budget/10, 400*time.Millisecond), 5*time.Second)
 }
 
-// explainTime is how long the explanation may take when the search has
+// ExplainTime is how long the explanation may take when the search has
 // taken used of budget: ExplainLimit, cut to what is left of the leeway a
 // budget has (a tenth of it or half a second, whichever is more), less
 // 100 ms for writing the plan. 0 or less: no time for it.
-func explainTime(budget, used time.Duration) time.Duration {
+func ExplainTime(budget, used time.Duration) time.Duration {
 	if budget <= 0 {
 		return ExplainLimit(budget)
 	}

@@ -94,6 +94,6 @@ func TestExplainTimeKeepsToTheLeeway(t *testing.T) {
 		{0, time.Minute, 5 * time.Second},                            // iterations only
 	}
 	for _, c := range cases {
-		assert.Equal(t, c.want, explainTime(c.budget, c.used), "budget %v used %v", c.budget, c.used)
+		assert.Equal(t, c.want, ExplainTime(c.budget, c.used), "budget %v used %v", c.budget, c.used)
 	}
 }

@@ -61,3 +61,25 @@ func TestNGSetsStopWhenCancelled(t *testing.T) {
 		assert.Equal(t, []int32{int32(i)}, cut.list[i], "node %d", i)
 	}
 }
+
+// countingCtx counts the looks at its Err, and is never done.
+type countingCtx struct {
+	context.Context
+	looks int
+}
+
+func (c *countingCtx) Err() error { c.looks++; return nil }
+
+// TestPrepLooksAtTheClockEveryRowOfALargeDay: on a large day a row of the
+// quadratic passes is thousands of arcs, and the preprocessing must notice
+// the end of its time (and, in the browser, give the host its turn) after
+// each row, not after a thousand rows: at 5,000 sites a thousand rows were
+// a quarter of a second of WebAssembly with the page's stop waiting.
+func TestPrepLooksAtTheClockEveryRowOfALargeDay(t *testing.T) {
+	rng := rand.New(rand.NewSource(5))
+	in := randomInstance(rng, 1100, 400, solver.Closed)
+	ctx := &countingCtx{Context: context.Background()}
+	newProbCtx(ctx, in)
+	// Each tightening pass scans every row three times.
+	assert.GreaterOrEqual(t, ctx.looks, 3*in.N, "one look per row at least")
+}

@@ -130,7 +130,7 @@ func ExplainWith(ctx context.Context, in *solver.Instance, eo ExplainOptions) (E
 	if err := in.Validate(); err != nil {
 		return ex, err
 	}
-	ok, proven := FeasibleExists(ctx, in)
+	ok, proven, _ := decide(ctx, in, 1<<19) // FeasibleExists, in validated
 	if ok {
 		return ex, ErrFeasible
 	}

@@ -47,7 +47,7 @@ type prob struct {
 }
 
 // halted steps the pacer and says whether preprocessing must stop now.
-func (p *prob) halted() bool { return p.y.tick() && p.ctx.Err() != nil }
+func (p *prob) halted() bool { return p.y.ticks(p.n) && p.ctx.Err() != nil }
 
 func (p *prob) t(i, j int) int64 { return p.in.Travel[i*p.n+j] }
 
@@ -121,7 +121,7 @@ func newProbCtx(ctx context.Context, in *solver.Instance) *prob {
 	p.et[p.start], p.lt[p.start] = p.e[p.start], p.e[p.start]
 	p.arc = make([]bool, n*n)
 	for i := 0; i < n; i++ {
-		p.y.tick()
+		p.y.ticks(n)
 		if n > largeN && i%64 == 0 && ctx.Err() != nil {
 			// Out of time before the arcs were even listed (a large day
 			// late in its budget): a quadratic pass or two more would
@@ -358,7 +358,7 @@ func (p *prob) precedences() bool {
 		before[j] = make([]bool, n)
 	}
 	for i := 0; i < n; i++ {
-		p.y.tick()
+		p.y.ticks(n)
 		for j := 0; j < n; j++ {
 			if i == j || i == p.start || j == p.start {
 				continue
@@ -451,7 +451,7 @@ func (p *prob) finishSets() {
 		flat := make([]int32, 0, total)
 		p.succ = make([][]int32, n)
 		for i := 0; i < n; i++ {
-			p.y.tick()
+			p.y.ticks(n)
 			from := len(flat)
 			row := p.arc[i*n : (i+1)*n]
 			for _, j := range p.byRank {

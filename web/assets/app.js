@@ -579,6 +579,7 @@ function drawNow() {
       }
       drawing = null;
       delete document.body.dataset.drawing;
+      state.drawnPlan = plan;
       chart();
       const total = performance.now() - t0;
       lastDrawMs = Math.min(2000, busy);
@@ -589,6 +590,7 @@ function drawNow() {
       if (state.engine && state.engine.planDrawn) state.engine.planDrawn(total);
     },
   };
+  job.plan = plan;
   drawing = job;
   document.body.dataset.drawing = "yes";
   later();
@@ -669,7 +671,15 @@ function onFinished(m) {
   };
   // The budget was too short for a searched plan: say so beside the reason.
   setStatus((why[m.why] || "Finished" + took + ".") + (m.note && m.why !== "error" ? " " + m.note : ""), m.why === "error" ? "error" : "done");
-  drawNow();
+  // The last plan, unless it is the one on the page or being drawn: at
+  // thousands of visits a drawing keeps the page busy for a while.
+  if (state.plan && state.plan === state.drawnPlan && !drawing) {
+    clearTimeout(drawTimer);
+    drawTimer = 0;
+    chart();
+  } else if (!(drawing && drawing.plan === state.plan)) {
+    drawNow();
+  }
   if (!state.plan) chart();
   setTimeout(saveSession, 0);
 }
@@ -679,6 +689,7 @@ function clearPlan() {
   clearTimeout(drawTimer);
   drawTimer = 0;
   state.plan = null;
+  state.drawnPlan = null;
   state.planCSV = state.planJSON = "";
   $("best-cost").textContent = "–";
   delete $("best-cost").dataset.cost;

@@ -206,6 +206,9 @@
 
     function start(msg) {
       if (msg.cores) client.setCores(msg.cores);
+      // The budget counts from now: each worker takes off the time its
+      // start message waited (the workers share the page's Date.now()).
+      msg = Object.assign({}, msg, { clicked_at: msg.clicked_at || Date.now() });
       // A day for several vehicles runs in one search worker, with no
       // bound worker (the fleet engine has neither adoption nor a bound).
       const n = client.fleetDay ? 1 : client.cores;
@@ -215,7 +218,7 @@
         id: (run ? run.id : 0) + 1, msg: msg, n: n, withBound: withBound, search: [], bound: null,
         best: null, bestFrom: -1, pending: null, lastPost: 0, timer: null,
         finished: false, userStop: false, complete: false, mixes: [], startedSent: false,
-        every: 50, fewestLate: !!msg.fewest_late,
+        every: 50, fewestLate: !!msg.fewest_late, t0: performance.now(),
       };
       for (let i = 0; i < workers.length; i++) {
         const w = workers[i];
@@ -368,7 +371,10 @@
       // Share it: every other worker adopts it (the searches at their next
       // restart; the bound prunes with its cost).
       if (!p.routes) for (const s of run.search) if (s.w !== w && !s.finished) post(s.w, { type: "adopt", route: p.route });
-      if (!p.routes && run.bound && w !== run.bound.w && !run.bound.finished) post(run.bound.w, { type: "adopt", route: p.route });
+      if (!p.routes && run.bound && w !== run.bound.w && !run.bound.finished) {
+        post(run.bound.w, { type: "adopt", route: p.route });
+        if (client.trace) client.trace.push([now(), "page", "adopt"]);
+      }
       queuePlan(false);
     }
 
@@ -402,6 +408,7 @@
     function queuePlan(now) {
       run.pending = run.best;
       if (run.drawing && !now) return; // planDrawn sends it
+      if (!now && nearEnd()) return; // the run's end sends it
       const every = paced ? Math.max(50, 2 * (run.drawMs || 0)) : Math.max(50, 4 * (run.drawMs || 0));
       const wait = every - (performance.now() - run.lastPost);
       if (now || wait <= 0) {
@@ -413,6 +420,15 @@
           if (run === r && !r.finished) flushPlan();
         }, wait);
       }
+    }
+
+    // nearEnd: the run's budget ends sooner than the page would draw a
+    // plan (one and a half times its last drawing): a plan drawn now would
+    // keep the page busy when the run ends, and the last plan comes then.
+    function nearEnd() {
+      const b = run.msg.budget;
+      if (!(b > 0) || !run.drawMs) return false;
+      return b * 1000 - (performance.now() - run.t0) < 1.5 * run.drawMs;
     }
 
     // flushPlan hands the pending plan to the page. A page that is not
@@ -507,6 +523,7 @@
         if (!run.boundStopped && !(run.best && !run.best.plan.feasible)) {
           run.boundStopped = true;
           post(run.bound.w, { type: "stop" });
+          if (client.trace) client.trace.push([now(), "page", "stop bound"]);
         }
         return;
       }
