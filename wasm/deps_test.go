@@ -20,6 +20,7 @@ var keptOut = []string{
 	"os/exec",
 	"flag",
 	"log",
+	"encoding/json",
 }
 
 // The js/wasm build of this package (the web worker) links none of
