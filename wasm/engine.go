@@ -3,14 +3,13 @@ package main
 import (
 	"bytes"
 	"context"
-	"encoding/json"
-	"errors"
 	"fmt"
 	"strconv"
 	"strings"
 	"sync"
 	"time"
 
+	"visitline/internal/jsonlite"
 	"visitline/solver"
 	"visitline/solver/app"
 	"visitline/solver/bound"
@@ -66,16 +65,21 @@ func NewEngine(post func([]byte)) *Engine {
 	return &Engine{post: post}
 }
 
-func (e *Engine) send(msg any) {
-	var b bytes.Buffer
-	enc := json.NewEncoder(&b)
-	enc.SetEscapeHTML(false)
-	if err := enc.Encode(msg); err != nil {
-		// Only NaN or Inf could get here; say so rather than go quiet.
-		b.Reset()
-		fmt.Fprintf(&b, `{"type":"failed","message":%q}`, "cannot encode a message: "+err.Error())
+// sendCheck, when set (by the tests), sees each message with what it was
+// written as.
+var sendCheck func(m outMessage, b []byte, err error)
+
+func (e *Engine) send(msg outMessage) {
+	b, err := encodeMessage(msg)
+	if sendCheck != nil {
+		sendCheck(msg, b, err)
 	}
-	e.post(bytes.TrimSpace(b.Bytes()))
+	if err != nil {
+		// Only NaN or Inf could get here; say so rather than go quiet.
+		b = append([]byte(`{"type":"failed","message":`), jsonlite.AppendString(nil, "cannot encode a message: "+err.Error(), false)...)
+		b = append(b, '}')
+	}
+	e.post(b)
 }
 
 func (e *Engine) fail(format string, a ...any) {
@@ -119,13 +123,8 @@ func (e *Engine) CancelLoad(id int) {
 }
 
 func (e *Engine) handle(raw string, big *[2]string) {
-	var m inbound
-	if err := json.Unmarshal([]byte(raw), &m); err != nil {
-		var te *json.UnmarshalTypeError
-		if errors.As(err, &te) {
-			// The start options are embedded: name the field as the page does.
-			te.Field = strings.TrimPrefix(te.Field, "RunOptions.")
-		}
+	m, err := decodeInbound([]byte(raw))
+	if err != nil {
 		e.fail("message is not valid JSON: %s", format.JSONError(err))
 		return
 	}
@@ -384,39 +383,10 @@ func planMessage(run int, js, csv []byte) []byte {
 	b = append(b, `,"plan":`...)
 	b = append(b, bytes.TrimSpace(js)...)
 	b = append(b, `,"csv":`...)
-	b = appendJSONString(b, csv)
+	b = jsonlite.AppendString(b, csv, false)
 	b = append(b, `,"json":`...)
-	b = appendJSONString(b, js)
+	b = jsonlite.AppendString(b, js, false)
 	return append(b, '}')
-}
-
-// appendJSONString appends s as a JSON string: quotes, backslashes and
-// control characters escaped, the rest (UTF-8) as it is.
-func appendJSONString(b, s []byte) []byte {
-	const hex = "0123456789abcdef"
-	b = append(b, '"')
-	start := 0
-	for i, c := range s {
-		if c >= 0x20 && c != '"' && c != '\\' {
-			continue
-		}
-		b = append(b, s[start:i]...)
-		switch c {
-		case '"', '\\':
-			b = append(b, '\\', c)
-		case '\n':
-			b = append(b, '\\', 'n')
-		case '\r':
-			b = append(b, '\\', 'r')
-		case '\t':
-			b = append(b, '\\', 't')
-		default:
-			b = append(b, '\\', 'u', '0', '0', hex[c>>4], hex[c&15])
-		}
-		start = i + 1
-	}
-	b = append(b, s[start:]...)
-	return append(b, '"')
 }
 
 // postCSV posts a plan with its CSV export only.

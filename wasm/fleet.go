@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	"context"
-	"encoding/json"
 	"fmt"
 	"strconv"
 	"sync"
@@ -207,7 +206,7 @@ func (e *Engine) searchFleet(ctx context.Context, r *run, fd *format.FleetDatase
 	if err := format.WriteFleetJSON(&js, out.Plan); err != nil {
 		e.fail("cannot write the plan as JSON: %v", err)
 	}
-	e.send(planMsg{Type: "plan", Run: r.id, Plan: json.RawMessage(bytes.TrimSpace(js.Bytes())), CSV: csv.String(), JSON: js.String()})
+	e.send(planMsg{Type: "plan", Run: r.id, Plan: rawJSON(bytes.TrimSpace(js.Bytes())), CSV: csv.String(), JSON: js.String()})
 	c := out.Plan.Cost
 	e.send(finishedMsg{Type: "finished", Run: r.id, Why: why, Iterations: res.Iterations, Elapsed: time.Since(r.start).Seconds(),
 		Improvements: len(res.Trace), BestCost: &c, Feasible: out.Plan.Feasible})
@@ -229,7 +228,7 @@ func (e *Engine) sendFleetPlan(run int, fd *format.FleetDataset, obj solver.Obje
 	if err := format.WriteFleetJSON(&js, plan); err != nil {
 		return
 	}
-	m := planMsg{Type: "plan", Run: run, Plan: json.RawMessage(bytes.TrimSpace(js.Bytes()))}
+	m := planMsg{Type: "plan", Run: run, Plan: rawJSON(bytes.TrimSpace(js.Bytes()))}
 	if fd.Problem.N <= 300 {
 		var csv bytes.Buffer
 		if format.WriteFleetCSV(&csv, plan) == nil {

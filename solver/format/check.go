@@ -1,9 +1,7 @@
 package format
 
 import (
-	"encoding/json"
 	"fmt"
-	"io"
 	"math"
 	"strconv"
 	"strings"
@@ -41,19 +39,6 @@ type ClaimVisit struct {
 	Wait      *float64 `json:"wait"`
 	Departure *float64 `json:"departure"`
 	Lateness  *float64 `json:"lateness"`
-}
-
-// ReadClaims reads a plan written by WriteJSON. name is used in errors.
-func ReadClaims(r io.Reader, name string) (*Claims, error) {
-	var c Claims
-	dec := json.NewDecoder(io.LimitReader(r, MaxInputBytes))
-	if err := dec.Decode(&c); err != nil {
-		return nil, &ParseError{File: name, Field: "plan JSON", Msg: JSONError(err), Err: err}
-	}
-	if c.Route == nil {
-		return nil, &ParseError{File: name, Field: "route", Msg: `missing; want "route": [0, ...] with 0-based node numbers`}
-	}
-	return &c, nil
 }
 
 // RouteIDsProblem checks that the plan's route_ids name d's sites at the

@@ -6,13 +6,13 @@
 package format
 
 import (
-	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
-	"reflect"
 	"strconv"
 	"strings"
+
+	"visitline/internal/jsonlite"
 )
 
 // ParseError is an input problem at a place in a file.
@@ -111,24 +111,22 @@ func (l ErrorList) Unwrap() []error {
 }
 
 // JSONError is a JSON decoding error in plain words, without the names of
-// the program's types: where it went wrong and what was wanted.
+// the program's types: where it went wrong and what was wanted. It reads
+// the errors of package jsonlite (the web worker's messages) and, in the
+// command line's build, those of encoding/json (see errors_std.go).
 func JSONError(err error) string {
-	var se *json.SyntaxError
-	var te *json.UnmarshalTypeError
+	var se *jsonlite.SyntaxError
+	var te *jsonlite.TypeError
 	switch {
 	case errors.As(err, &te):
-		field := jsonPath(te.Field)
-		if field == "" {
-			field = "the message"
-		} else {
-			field = strconv.Quote(field)
-		}
-		return fmt.Sprintf("%s: want %s, not %s", field, jsonKind(te.Type), jsonValue(te.Value))
+		return typeMessage(te.Field, te.Want, te.Value)
 	case errors.As(err, &se):
-		if strings.Contains(se.Error(), "unexpected end") {
-			return fmt.Sprintf("the JSON ends early, after %d bytes; it was cut short", se.Offset)
-		}
-		return fmt.Sprintf("not JSON: %s at byte %d", strings.TrimPrefix(se.Error(), "json: "), se.Offset)
+		return syntaxMessage(se.Msg, se.Offset)
+	}
+	if msg, ok := stdJSONError(err); ok {
+		return msg
+	}
+	switch {
 	case errors.Is(err, io.ErrUnexpectedEOF), errors.Is(err, io.EOF):
 		return "the JSON ends early; it was cut short"
 	}
@@ -137,6 +135,26 @@ func JSONError(err error) string {
 		return "not a JSON object of the expected form"
 	}
 	return clip(msg)
+}
+
+// typeMessage says that the field at path (JSON names, dotted) wants a
+// value of another kind: want in words, value as encoding/json names it.
+func typeMessage(path, want, value string) string {
+	field := jsonPath(path)
+	if field == "" {
+		field = "the message"
+	} else {
+		field = strconv.Quote(field)
+	}
+	return field + ": want " + want + ", not " + jsonValue(value)
+}
+
+// syntaxMessage says where text stops being JSON.
+func syntaxMessage(msg string, offset int64) string {
+	if strings.Contains(msg, "unexpected end") {
+		return "the JSON ends early, after " + strconv.FormatInt(offset, 10) + " bytes; it was cut short"
+	}
+	return "not JSON: " + strings.TrimPrefix(msg, "json: ") + " at byte " + strconv.FormatInt(offset, 10)
 }
 
 // jsonPath drops from a field path the names of embedded Go structs
@@ -152,29 +170,6 @@ func jsonPath(p string) string {
 		keep = append(keep, s)
 	}
 	return strings.Join(keep, ".")
-}
-
-func jsonKind(t reflect.Type) string {
-	if t == nil {
-		return "a value"
-	}
-	switch t.Kind() {
-	case reflect.String:
-		return "text"
-	case reflect.Bool:
-		return "true or false"
-	case reflect.Int, reflect.Int8, reflect.Int16, reflect.Int32, reflect.Int64, reflect.Uint, reflect.Uint8, reflect.Uint16, reflect.Uint32, reflect.Uint64:
-		return "a whole number"
-	case reflect.Float32, reflect.Float64:
-		return "a number"
-	case reflect.Slice, reflect.Array:
-		return "a list"
-	case reflect.Map, reflect.Struct:
-		return "an object"
-	case reflect.Pointer:
-		return jsonKind(t.Elem())
-	}
-	return "another kind of value"
 }
 
 func jsonValue(v string) string {

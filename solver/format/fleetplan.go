@@ -1,12 +1,12 @@
 package format
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"strings"
 	"text/tabwriter"
 
+	"visitline/internal/jsonlite"
 	"visitline/solver"
 	"visitline/solver/fleet"
 )
@@ -172,11 +172,12 @@ func (d *FleetDataset) PlanReport(obj solver.Objective, minVeh bool, res *fleet.
 	return j
 }
 
-// WriteFleetJSON writes a fleet plan as one indented JSON object.
+// WriteFleetJSON writes a fleet plan as one indented JSON object (the
+// bytes encoding/json's Encoder writes with SetIndent("", "  ")).
 func WriteFleetJSON(w io.Writer, j FleetPlanReport) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(j)
+	jw := jsonlite.NewWriter(true, true)
+	j.EncodeJSON(jw)
+	return jw.Encode(w)
 }
 
 // WriteFleetTable writes a fleet plan for reading: a summary, then one

@@ -2,7 +2,6 @@ package format
 
 import (
 	"encoding/csv"
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -10,6 +9,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
+	"visitline/internal/jsonlite"
 	"visitline/solver"
 )
 
@@ -185,11 +185,12 @@ func (d *Dataset) PlanReport(obj solver.Objective, p solver.Plan, res *solver.Re
 	return j
 }
 
-// WriteJSON writes the plan as one indented JSON object.
+// WriteJSON writes the plan as one indented JSON object (the bytes
+// encoding/json's Encoder writes with SetIndent("", "  ")).
 func WriteJSON(w io.Writer, j PlanReport) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(j)
+	jw := jsonlite.NewWriter(true, true)
+	j.EncodeJSON(jw)
+	return jw.Encode(w)
 }
 
 // CSVHeader is the header row of WriteCSV.
