@@ -13,7 +13,7 @@ import (
 
 var inboundNames = []string{"type", "name", "text", "matrix", "matrix_name", "options", "vehicles", "vehicles_name", "fleet", "load_id",
 	"minimize", "budget", "iterations", "seed", "mix", "fixed", "objective", "fewest_late", "no_bound", "workers", "role", "worker",
-	"route", "routes", "vehicle", "format", "date"}
+	"clicked_at", "route", "routes", "vehicle", "format", "date"}
 
 var optionNames = []string{"start", "end", "shift_start", "matrix_unit", "speed", "road_factor", "done", "now"}
 
@@ -90,6 +90,8 @@ func decodeInbound(raw []byte) (inbound, error) {
 			d.String(&m.Role)
 		case "worker":
 			d.IntInt(&m.Worker)
+		case "clicked_at":
+			d.Float(&m.ClickedAt)
 		case "route":
 			d.Ints(&m.Route)
 		case "routes":

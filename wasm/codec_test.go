@@ -118,7 +118,7 @@ var inboundSamples = []string{
 	`{"type":"load","vehicles":"id;start\nT1;HUB","vehicles_name":"v.csv","fleet":3}`,
 	`{"type":"cancel_load","load_id":3}`,
 	`{"type":"start","budget":10,"seed":1,"mix":{"random":1,"slice":0.5},"fixed":false,"objective":"travel","fewest_late":true,"no_bound":true,
-	  "iterations":500,"role":"search","worker":2,"workers":4,"minimize":"vehicles"}`,
+	  "iterations":500,"role":"search","worker":2,"clicked_at":1764756000123.5,"workers":4,"minimize":"vehicles"}`,
 	`{"type":"mix","mix":{"random":2,"slice":0}}`, `{"type":"adopt","route":[0,3,1,2]}`, `{"type":"stop"}`,
 	`{"type":"export","format":"ics","route":[0,3,1],"date":"2026-12-01","objective":"completion"}`,
 	`{"type":"export","format":"ics","routes":[{"vehicle":"T1","visits":[3,5]},{"vehicle":"T2","visits":[]}],"vehicle":"T1"}`,
