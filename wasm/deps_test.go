@@ -21,6 +21,9 @@ var keptOut = []string{
 	"flag",
 	"log",
 	"encoding/json",
+	"encoding/csv",
+	"runtime/debug",
+	"text/tabwriter",
 }
 
 // The js/wasm build of this package (the web worker) links none of
