@@ -22,8 +22,12 @@ var keptOut = []string{
 	"log",
 	"encoding/json",
 	"encoding/csv",
+	"fmt",
+	"reflect",
+	"os",
 	"runtime/debug",
 	"text/tabwriter",
+	"internal/fmtsort",
 }
 
 // The js/wasm build of this package (the web worker) links none of
