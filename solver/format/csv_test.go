@@ -7,6 +7,7 @@ import (
 	"io"
 	"math/rand"
 	"reflect"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -137,6 +138,52 @@ func TestCSVWriterAsEncodingCSV(t *testing.T) {
 		ow.Flush()
 		if ow.Error() != nil || got.String() != want.String() {
 			t.Fatalf("%q:\ngot  %q\nwant %q (%v)", rows, got.String(), want.String(), ow.Error())
+		}
+	}
+}
+
+// matrixText is a 1,000 × 1,000 travel matrix as CSV (about 4 MB), for the
+// readers' benchmarks.
+func matrixText() string {
+	var b strings.Builder
+	rng := rand.New(rand.NewSource(13))
+	for i := 0; i < 1000; i++ {
+		for j := 0; j < 1000; j++ {
+			if j > 0 {
+				b.WriteByte(',')
+			}
+			b.WriteString(strings.TrimRight(strings.TrimRight(strconv.FormatFloat(rng.Float64()*90, 'f', 2, 64), "0"), "."))
+		}
+		b.WriteByte('\n')
+	}
+	return b.String()
+}
+
+// The reader against encoding/csv on a large matrix: `go test -run '^$'
+// -bench CSVRead -benchtime 5x ./solver/format`.
+func BenchmarkCSVReadOwn(b *testing.B) {
+	text := matrixText()
+	b.SetBytes(int64(len(text)))
+	for b.Loop() {
+		cr := &csvReader{text: text, comma: ',', comment: '#', trim: true}
+		for {
+			if _, err := cr.Read(); err != nil {
+				break
+			}
+		}
+	}
+}
+
+func BenchmarkCSVReadEncodingCSV(b *testing.B) {
+	text := matrixText()
+	b.SetBytes(int64(len(text)))
+	for b.Loop() {
+		cr := csv.NewReader(strings.NewReader(text))
+		cr.Comment, cr.FieldsPerRecord, cr.TrimLeadingSpace, cr.ReuseRecord = '#', -1, true, true
+		for {
+			if _, err := cr.Read(); err != nil {
+				break
+			}
 		}
 	}
 }
