@@ -1,6 +1,6 @@
 package solver
 
-import "fmt"
+import "visitline/internal/fmtlite"
 
 // Visit is one stop of a schedule. All times are in internal units.
 type Visit struct {
@@ -47,33 +47,33 @@ func (s *Schedule) Cost(o Objective) int64 {
 // node of a fixed-end path. Windows are not checked here.
 func CheckRoute(in *Instance, route []int) error {
 	if len(route) != in.N {
-		return fmt.Errorf("route has %d nodes, want %d", len(route), in.N)
+		return fmtlite.Errorf("route has %d nodes, want %d", len(route), in.N)
 	}
 	if route[0] != in.Start {
-		return fmt.Errorf("route starts at %s, want the start %s", in.ID(route[0]), in.ID(in.Start))
+		return fmtlite.Errorf("route starts at %s, want the start %s", in.ID(route[0]), in.ID(in.Start))
 	}
 	seen := make([]bool, in.N)
 	for k, v := range route {
 		if v < 0 || v >= in.N {
-			return fmt.Errorf("route position %d holds node %d, outside 0..%d", k, v, in.N-1)
+			return fmtlite.Errorf("route position %d holds node %d, outside 0..%d", k, v, in.N-1)
 		}
 		if seen[v] {
-			return fmt.Errorf("route visits %s twice", in.ID(v))
+			return fmtlite.Errorf("route visits %s twice", in.ID(v))
 		}
 		seen[v] = true
 	}
 	if in.Shape == OpenFixed && route[len(route)-1] != in.End {
-		return fmt.Errorf("route ends at %s, want the end %s", in.ID(route[len(route)-1]), in.ID(in.End))
+		return fmtlite.Errorf("route ends at %s, want the end %s", in.ID(route[len(route)-1]), in.ID(in.End))
 	}
 	for k, v := range in.Fixed {
 		if route[k] != v {
-			return fmt.Errorf("route position %d is %s, but the done visits fix %s there", k, in.ID(route[k]), in.ID(v))
+			return fmtlite.Errorf("route position %d is %s, but the done visits fix %s there", k, in.ID(route[k]), in.ID(v))
 		}
 	}
 	if in.Position != nil {
 		for k, v := range route {
 			if p := in.Position[v]; p > 0 && p != k {
-				return fmt.Errorf("%s is pinned to position %d but is at %d", in.ID(v), p, k)
+				return fmtlite.Errorf("%s is pinned to position %d but is at %d", in.ID(v), p, k)
 			}
 		}
 	}

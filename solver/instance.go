@@ -15,9 +15,9 @@ package solver
 
 import (
 	"errors"
-	"fmt"
 	"math"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver/turn"
 )
 
@@ -43,7 +43,7 @@ func (s Shape) String() string {
 	case OpenFixed:
 		return "open-fixed-end"
 	}
-	return fmt.Sprintf("Shape(%d)", int(s))
+	return fmtlite.Sprintf("Shape(%d)", int(s))
 }
 
 // Objective says what a plan minimises once every window is met.
@@ -73,7 +73,7 @@ func ParseObjective(s string) (Objective, error) {
 	case "completion":
 		return CompletionTime, nil
 	}
-	return 0, fmt.Errorf("objective %q: want travel or completion", s)
+	return 0, fmtlite.Errorf("objective %q: want travel or completion", s)
 }
 
 // Horizon is the latest time used for an open window: far enough to never
@@ -125,7 +125,7 @@ func (in *Instance) ID(i int) string {
 	if i >= 0 && i < len(in.IDs) && in.IDs[i] != "" {
 		return in.IDs[i]
 	}
-	return fmt.Sprint(i)
+	return fmtlite.Sprint(i)
 }
 
 // InputUnits converts an internal value to input units (minutes for a
@@ -154,16 +154,16 @@ func (in *Instance) Validate() error {
 		return errors.New("instance has no nodes")
 	}
 	if len(in.Travel) != n*n {
-		return fmt.Errorf("travel matrix has %d entries, want %d×%d", len(in.Travel), n, n)
+		return fmtlite.Errorf("travel matrix has %d entries, want %d×%d", len(in.Travel), n, n)
 	}
 	if len(in.Service) != n || len(in.Early) != n || len(in.Late) != n {
-		return fmt.Errorf("service and windows need %d entries each", n)
+		return fmtlite.Errorf("service and windows need %d entries each", n)
 	}
 	if in.Start < 0 || in.Start >= n {
-		return fmt.Errorf("start node %d out of range 0..%d", in.Start, n-1)
+		return fmtlite.Errorf("start node %d out of range 0..%d", in.Start, n-1)
 	}
 	if in.Shape == OpenFixed && (in.End < 0 || in.End >= n) {
-		return fmt.Errorf("end node %d out of range 0..%d", in.End, n-1)
+		return fmtlite.Errorf("end node %d out of range 0..%d", in.End, n-1)
 	}
 	if in.Shape == OpenFixed && in.End == in.Start && n > 1 {
 		return errors.New("an open route cannot end where it starts: use a closed tour")
@@ -176,27 +176,27 @@ func (in *Instance) Validate() error {
 		for j, v := range in.Travel[i*n : (i+1)*n] {
 			if uint64(v) > uint64(Horizon) {
 				if v < 0 {
-					return fmt.Errorf("travel time from %s to %s is negative", in.ID(i), in.ID(j))
+					return fmtlite.Errorf("travel time from %s to %s is negative", in.ID(i), in.ID(j))
 				}
-				return fmt.Errorf("travel time from %s to %s is too large", in.ID(i), in.ID(j))
+				return fmtlite.Errorf("travel time from %s to %s is too large", in.ID(i), in.ID(j))
 			}
 		}
 	}
 	for i := 0; i < n; i++ {
 		if in.Service[i] < 0 {
-			return fmt.Errorf("service time at %s is negative", in.ID(i))
+			return fmtlite.Errorf("service time at %s is negative", in.ID(i))
 		}
 		if in.Late[i] < in.Early[i] {
-			return fmt.Errorf("window of %s ends before it starts", in.ID(i))
+			return fmtlite.Errorf("window of %s ends before it starts", in.ID(i))
 		}
 	}
 	if in.Position != nil && len(in.Position) != n {
-		return fmt.Errorf("positions need %d entries", n)
+		return fmtlite.Errorf("positions need %d entries", n)
 	}
 	seen := make([]bool, n)
 	for k, v := range in.Fixed {
 		if v < 0 || v >= n || seen[v] {
-			return fmt.Errorf("fixed prefix entry %d (%d) is out of range or repeated", k, v)
+			return fmtlite.Errorf("fixed prefix entry %d (%d) is out of range or repeated", k, v)
 		}
 		seen[v] = true
 	}

@@ -2,10 +2,10 @@ package solver
 
 import (
 	"errors"
-	"fmt"
 	"math"
 	"sort"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver/turn"
 )
 
@@ -116,7 +116,7 @@ func buildModel(in *Instance, obj Objective, halt func() bool) (*model, error) {
 	for i, p := range in.Position {
 		if p > 0 {
 			if _, dup := pos[p]; dup {
-				return nil, fmt.Errorf("two visits are pinned to position %d", p)
+				return nil, fmtlite.Errorf("two visits are pinned to position %d", p)
 			}
 			pos[p] = i
 		}
@@ -136,7 +136,7 @@ func buildModel(in *Instance, obj Objective, halt func() bool) (*model, error) {
 			break
 		}
 		if used[v] {
-			return nil, fmt.Errorf("%s is pinned to position %d but is already placed", in.ID(v), len(m.prefix))
+			return nil, fmtlite.Errorf("%s is pinned to position %d but is already placed", in.ID(v), len(m.prefix))
 		}
 		m.prefix = append(m.prefix, v)
 		used[v] = true
@@ -147,7 +147,7 @@ func buildModel(in *Instance, obj Objective, halt func() bool) (*model, error) {
 	if in.Shape == OpenFixed {
 		tailEnd = in.End
 		if used[in.End] && N > 1 {
-			return nil, fmt.Errorf("the end %s cannot also be a done or pinned visit", in.ID(in.End))
+			return nil, fmtlite.Errorf("the end %s cannot also be a done or pinned visit", in.ID(in.End))
 		}
 		used[in.End] = true
 		last = N - 2
@@ -160,7 +160,7 @@ func buildModel(in *Instance, obj Objective, halt func() bool) (*model, error) {
 			break
 		}
 		if used[v] {
-			return nil, fmt.Errorf("%s is pinned to position %d but is already placed", in.ID(v), last-len(rev))
+			return nil, fmtlite.Errorf("%s is pinned to position %d but is already placed", in.ID(v), last-len(rev))
 		}
 		rev = append(rev, v)
 		used[v] = true
@@ -175,7 +175,7 @@ func buildModel(in *Instance, obj Objective, halt func() bool) (*model, error) {
 			ps = append(ps, p)
 		}
 		sort.Ints(ps)
-		return nil, fmt.Errorf("%s is pinned to position %d: pins must form a run from the start or from the end of the route", in.ID(pos[ps[0]]), ps[0])
+		return nil, fmtlite.Errorf("%s is pinned to position %d: pins must form a run from the start or from the end of the route", in.ID(pos[ps[0]]), ps[0])
 	}
 	// Fold the prefix into the start: its schedule is fixed.
 	sch := Evaluate(in, m.prefix)

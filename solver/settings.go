@@ -1,11 +1,12 @@
 package solver
 
 import (
-	"fmt"
 	"sort"
 	"strconv"
 	"strings"
 	"time"
+
+	"visitline/internal/fmtlite"
 )
 
 // Operators names the destroy operators of the large neighbourhood search,
@@ -31,15 +32,15 @@ func ParseMix(s string) (Mix, error) {
 	for _, part := range strings.Split(s, ",") {
 		k, v, ok := strings.Cut(strings.TrimSpace(part), "=")
 		if !ok {
-			return nil, fmt.Errorf("mix entry %q: want name=weight", part)
+			return nil, fmtlite.Errorf("mix entry %q: want name=weight", part)
 		}
 		k = strings.TrimSpace(k)
 		if !isOperator(k) {
-			return nil, fmt.Errorf("mix entry %q: unknown operator %q, want one of %s", part, k, strings.Join(Operators, ", "))
+			return nil, fmtlite.Errorf("mix entry %q: unknown operator %q, want one of %s", part, k, strings.Join(Operators, ", "))
 		}
 		w, err := strconv.ParseFloat(strings.TrimSpace(v), 64)
 		if err != nil || w < 0 || w != w || w > 1e9 {
-			return nil, fmt.Errorf("mix entry %q: weight must be a number from 0 up", part)
+			return nil, fmtlite.Errorf("mix entry %q: weight must be a number from 0 up", part)
 		}
 		m[k] = w
 	}
@@ -48,7 +49,7 @@ func ParseMix(s string) (Mix, error) {
 		sum += w
 	}
 	if sum <= 0 {
-		return nil, fmt.Errorf("mix %q: at least one weight must be above 0", s)
+		return nil, fmtlite.Errorf("mix %q: at least one weight must be above 0", s)
 	}
 	return m, nil
 }
@@ -64,7 +65,7 @@ func (m Mix) String() string {
 		if i > 0 {
 			b.WriteByte(',')
 		}
-		fmt.Fprintf(&b, "%s=%g", k, m[k])
+		fmtlite.Fprintf(&b, "%s=%g", k, m[k])
 	}
 	return b.String()
 }

@@ -3,7 +3,8 @@ package solver
 import (
 	"context"
 	"errors"
-	"fmt"
+
+	"visitline/internal/fmtlite"
 )
 
 // Stop says why a run ended. It is decided in one place, the engine's
@@ -32,7 +33,7 @@ func (s Stop) String() string {
 	if s >= 0 && int(s) < len(stopNames) {
 		return stopNames[s]
 	}
-	return fmt.Sprintf("Stop(%d)", int(s))
+	return fmtlite.Sprintf("Stop(%d)", int(s))
 }
 
 // MarshalText writes the name, so that JSON carries "budget", not 0.
@@ -46,7 +47,7 @@ func (s *Stop) UnmarshalText(b []byte) error {
 			return nil
 		}
 	}
-	return fmt.Errorf("stop reason %q: want budget, iterations, complete, stopped or error", b)
+	return fmtlite.Errorf("stop reason %q: want budget, iterations, complete, stopped or error", b)
 }
 
 // StopOf says why a context that has ended ended: a deadline (the budget

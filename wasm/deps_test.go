@@ -21,6 +21,13 @@ var keptOut = []string{
 	"flag",
 	"log",
 	"encoding/json",
+	"encoding/csv",
+	"fmt",
+	"reflect",
+	"os",
+	"runtime/debug",
+	"text/tabwriter",
+	"internal/fmtsort",
 }
 
 // The js/wasm build of this package (the web worker) links none of

@@ -3,12 +3,12 @@ package main
 import (
 	"bytes"
 	"context"
-	"fmt"
 	"strconv"
 	"strings"
 	"sync"
 	"time"
 
+	"visitline/internal/fmtlite"
 	"visitline/internal/jsonlite"
 	"visitline/solver"
 	"visitline/solver/app"
@@ -83,7 +83,7 @@ func (e *Engine) send(msg outMessage) {
 }
 
 func (e *Engine) fail(format string, a ...any) {
-	e.send(failedMsg{Type: "failed", Message: fmt.Sprintf(format, a...)})
+	e.send(failedMsg{Type: "failed", Message: fmtlite.Sprintf(format, a...)})
 }
 
 // Ready announces the engine to the page.
@@ -590,7 +590,7 @@ func (e *Engine) changeMix(m inbound) {
 	mix, err := checkMix(m.Mix)
 	if err != nil || mix == nil {
 		if err == nil {
-			err = fmt.Errorf("empty mix: give a weight to at least one operator")
+			err = fmtlite.Errorf("empty mix: give a weight to at least one operator")
 		}
 		e.fail("mix: %v", err)
 		return
@@ -676,7 +676,7 @@ func (e *Engine) export(m inbound) {
 		return
 	}
 	if m.Format != "ics" {
-		reply("", fmt.Sprintf("format %q: want ics", m.Format))
+		reply("", fmtlite.Sprintf("format %q: want ics", m.Format))
 		return
 	}
 	if fd := e.fleetDay(); fd != nil {
@@ -697,7 +697,7 @@ func (e *Engine) export(m inbound) {
 	if m.Date != "" {
 		var err error
 		if day, err = time.Parse("2006-01-02", m.Date); err != nil {
-			reply("", fmt.Sprintf("day %q: want YYYY-MM-DD", m.Date))
+			reply("", fmtlite.Sprintf("day %q: want YYYY-MM-DD", m.Date))
 			return
 		}
 	}

@@ -3,11 +3,11 @@ package main
 import (
 	"bytes"
 	"context"
-	"fmt"
 	"strconv"
 	"sync"
 	"time"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 	"visitline/solver/app"
 	"visitline/solver/fleet"
@@ -253,11 +253,11 @@ func fleetICS(fd *format.FleetDataset, m inbound) (string, error) {
 	for _, r := range m.Routes {
 		k, ok := byID[r.Vehicle]
 		if !ok {
-			return "", fmt.Errorf("the plan does not fit the loaded data: vehicle %q is not in the vehicles table", r.Vehicle)
+			return "", fmtlite.Errorf("the plan does not fit the loaded data: vehicle %q is not in the vehicles table", r.Vehicle)
 		}
 		for _, v := range r.Visits {
 			if v < 0 || v >= p.N {
-				return "", fmt.Errorf("the plan does not fit the loaded data: node %d is not a site", v)
+				return "", fmtlite.Errorf("the plan does not fit the loaded data: node %d is not a site", v)
 			}
 			in[v] = true
 		}
@@ -271,12 +271,12 @@ func fleetICS(fd *format.FleetDataset, m inbound) (string, error) {
 	obj, _ := solver.ParseObjective(m.Objective)
 	res, err := evaluated(p, pl, obj)
 	if err != nil {
-		return "", fmt.Errorf("the plan does not fit the loaded data: %v", err)
+		return "", fmtlite.Errorf("the plan does not fit the loaded data: %v", err)
 	}
 	var day time.Time
 	if m.Date != "" {
 		if day, err = time.Parse("2006-01-02", m.Date); err != nil {
-			return "", fmt.Errorf("day %q: want YYYY-MM-DD", m.Date)
+			return "", fmtlite.Errorf("day %q: want YYYY-MM-DD", m.Date)
 		}
 	}
 	var b bytes.Buffer
@@ -295,7 +295,7 @@ func evaluated(p *fleet.Problem, pl fleet.Plan, obj solver.Objective) (fleet.Res
 		return fleet.Result{}, err
 	}
 	if !rep.Feasible {
-		return fleet.Result{}, fmt.Errorf("%v", rep.Problems)
+		return fleet.Result{}, fmtlite.Errorf("%v", rep.Problems)
 	}
 	return fleet.Result{Best: pl, Report: rep, Value: rep.Value(obj), Reasons: fleet.Reasons(p, rep.Unserved)}, nil
 }

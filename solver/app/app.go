@@ -8,12 +8,12 @@ package app
 import (
 	"context"
 	"errors"
-	"fmt"
 	"io"
 	"math"
 	"strings"
 	"time"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 	"visitline/solver/bound"
 	"visitline/solver/format"
@@ -108,16 +108,16 @@ type RunOptions struct {
 // Settings checks the options and turns them into the engine's settings.
 func (o RunOptions) Settings() (solver.Settings, error) {
 	if math.IsNaN(o.Budget) || o.Budget < 0 || o.Budget > 1e6 {
-		return solver.Settings{}, fmt.Errorf("budget %g s: want seconds from 0 up", o.Budget)
+		return solver.Settings{}, fmtlite.Errorf("budget %g s: want seconds from 0 up", o.Budget)
 	}
 	if o.Iterations < 0 {
-		return solver.Settings{}, fmt.Errorf("iterations %d: want 0 (none) or more", o.Iterations)
+		return solver.Settings{}, fmtlite.Errorf("iterations %d: want 0 (none) or more", o.Iterations)
 	}
 	if o.Budget == 0 && o.Iterations == 0 {
 		return solver.Settings{}, errors.New("set a budget above 0 or an iteration count, or the search never stops")
 	}
 	if o.Workers < 0 {
-		return solver.Settings{}, fmt.Errorf("workers %d: want 1 or more", o.Workers)
+		return solver.Settings{}, fmtlite.Errorf("workers %d: want 1 or more", o.Workers)
 	}
 	obj, err := solver.ParseObjective(o.Objective)
 	if err != nil {
@@ -127,7 +127,7 @@ func (o RunOptions) Settings() (solver.Settings, error) {
 	if len(o.Mix) > 0 {
 		// The same text goes through the same parser as --mix.
 		if mix, err = solver.ParseMix(solver.Mix(o.Mix).String()); err != nil {
-			return solver.Settings{}, fmt.Errorf("mix: %w", err)
+			return solver.Settings{}, fmtlite.Errorf("mix: %w", err)
 		}
 	}
 	return solver.Settings{Budget: time.Duration(o.Budget * float64(time.Second)), Iterations: o.Iterations, Seed: o.Seed,
@@ -199,14 +199,14 @@ func Run(ctx context.Context, d *format.Dataset, o RunOptions, h Hooks) (Outcome
 		}
 	}
 	if s.Budget > 0 && res.FirstPlan > s.Budget {
-		out.Note = fmt.Sprintf("The budget of %s ended before the first plan was ready (after %s): the plan is the first one built, not searched; give it more time.",
+		out.Note = fmtlite.Sprintf("The budget of %s ended before the first plan was ready (after %s): the plan is the first one built, not searched; give it more time.",
 			seconds(s.Budget), seconds(res.FirstPlan))
 	}
 	return out, nil
 }
 
 func seconds(d time.Duration) string {
-	return fmt.Sprintf("%.1f s", d.Seconds())
+	return fmtlite.Sprintf("%.1f s", d.Seconds())
 }
 
 // ExplainLimit is the time the explanation of a day that cannot be met may

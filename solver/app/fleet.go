@@ -3,11 +3,11 @@ package app
 import (
 	"context"
 	"errors"
-	"fmt"
 	"io"
 	"strings"
 	"time"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 	"visitline/solver/fleet"
 	"visitline/solver/format"
@@ -48,7 +48,7 @@ func FleetWanted(sites, vehicles string, count int) bool {
 // the one-vehicle dataset too (nil for a Solomon file).
 func LoadFleet(in FleetInput) (*format.FleetDataset, *format.Dataset, error) {
 	if in.Count < 0 {
-		return nil, nil, &UsageError{fmt.Sprintf("fleet %d: want 1 or more vehicles", in.Count)}
+		return nil, nil, &UsageError{fmtlite.Sprintf("fleet %d: want 1 or more vehicles", in.Count)}
 	}
 	hasVeh := strings.TrimSpace(in.Vehicles) != ""
 	if format.IsSolomon(in.Sites) {
@@ -65,7 +65,7 @@ func LoadFleet(in FleetInput) (*format.FleetDataset, *format.Dataset, error) {
 			}
 			for len(p.Vehicles) < in.Count {
 				v := p.Vehicles[0]
-				v.ID = fmt.Sprint(len(p.Vehicles) + 1)
+				v.ID = fmtlite.Sprint(len(p.Vehicles) + 1)
 				p.Vehicles = append(p.Vehicles, v)
 			}
 		}
@@ -113,10 +113,10 @@ type FleetRun struct {
 // (through the clock it reads each iteration), so that a stop is taken.
 func RunFleet(ctx context.Context, fd *format.FleetDataset, o RunOptions, minVeh bool, onImprove func(fleet.Progress)) (FleetRun, error) {
 	if o.Budget < 0 || o.Budget > 1e6 || o.Budget != o.Budget {
-		return FleetRun{}, fmt.Errorf("budget %g s: want seconds from 0 up", o.Budget)
+		return FleetRun{}, fmtlite.Errorf("budget %g s: want seconds from 0 up", o.Budget)
 	}
 	if o.Iterations < 0 {
-		return FleetRun{}, fmt.Errorf("iterations %d: want 0 (none) or more", o.Iterations)
+		return FleetRun{}, fmtlite.Errorf("iterations %d: want 0 (none) or more", o.Iterations)
 	}
 	if o.Budget == 0 && o.Iterations == 0 {
 		return FleetRun{}, errors.New("set a budget above 0 or an iteration count, or the search never stops")

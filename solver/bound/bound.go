@@ -2,9 +2,9 @@ package bound
 
 import (
 	"context"
-	"fmt"
 	"time"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 )
 
@@ -142,7 +142,7 @@ func (b *Bound) ub(o Options) (int64, bool) {
 func (b *Bound) checkProven(o Options) {
 	if u, ok := b.ub(o); ok && b.Valid && b.Value >= u {
 		if b.Value > u {
-			b.Notes = append(b.Notes, fmt.Sprintf("internal error: the %s bound %d is above a feasible cost %d", b.Method, b.Value, u))
+			b.Notes = append(b.Notes, fmtlite.Sprintf("internal error: the %s bound %d is above a feasible cost %d", b.Method, b.Value, u))
 		}
 		b.Value = u
 		b.ProvenOptimal = true
@@ -234,7 +234,7 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 			return b
 		}
 	} else {
-		b.Notes = append(b.Notes, fmt.Sprintf("assignment bound skipped: %d nodes", in.N))
+		b.Notes = append(b.Notes, fmtlite.Sprintf("assignment bound skipped: %d nodes", in.N))
 	}
 	if ctx.Err() != nil {
 		return b

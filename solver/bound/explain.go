@@ -3,11 +3,11 @@ package bound
 import (
 	"context"
 	"errors"
-	"fmt"
 	"sort"
 	"strconv"
 	"strings"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 )
 
@@ -153,7 +153,7 @@ func ExplainWith(ctx context.Context, in *solver.Instance, eo ExplainOptions) (E
 					ex.ConflictIDs = append(ex.ConflictIDs, in.ID(v))
 				}
 			}
-			ex.Reason = fmt.Sprintf("The windows can all be met, but not with the pinned positions of %s: free one of the pins.", joinIDs(ex.ConflictIDs))
+			ex.Reason = fmtlite.Sprintf("The windows can all be met, but not with the pinned positions of %s: free one of the pins.", joinIDs(ex.ConflictIDs))
 			return ex, nil
 		}
 	}
@@ -438,7 +438,7 @@ func reason(in *solver.Instance, ex Explanation, eo ExplainOptions) string {
 		return ft(v)
 	}
 	win := func(v int) string {
-		return fmt.Sprintf("%s [%s, %s]", name(v), num(in.Early[v]), num(in.Late[v]))
+		return fmtlite.Sprintf("%s [%s, %s]", name(v), num(in.Early[v]), num(in.Late[v]))
 	}
 	var parts []string
 	for _, v := range ex.Conflict {
@@ -451,18 +451,18 @@ func reason(in *solver.Instance, ex Explanation, eo ExplainOptions) string {
 	}
 	switch len(ex.Conflict) {
 	case 0:
-		fmt.Fprintf(&b, "No visit can be added to the route as it stands (%s).", from)
+		fmtlite.Fprintf(&b, "No visit can be added to the route as it stands (%s).", from)
 	case 1:
-		fmt.Fprintf(&b, "The window of %s cannot be met even with no other visit, %s", win(ex.Conflict[0]), from)
+		fmtlite.Fprintf(&b, "The window of %s cannot be met even with no other visit, %s", win(ex.Conflict[0]), from)
 	default:
-		fmt.Fprintf(&b, "The windows of %s cannot all be met together, in any order, %s", joinIDs(parts), from)
+		fmtlite.Fprintf(&b, "The windows of %s cannot all be met together, in any order, %s", joinIDs(parts), from)
 	}
 	if len(ex.Conflict) > 0 {
 		switch {
 		case in.Shape == solver.Closed && !solver.OpenEnd(in.Late[in.Start]):
-			fmt.Fprintf(&b, " and returning by %s.", num(in.Late[in.Start]))
+			fmtlite.Fprintf(&b, " and returning by %s.", num(in.Late[in.Start]))
 		case in.Shape == solver.OpenFixed:
-			fmt.Fprintf(&b, " and ending at %s.", win(in.End))
+			fmtlite.Fprintf(&b, " and ending at %s.", win(in.End))
 		default:
 			b.WriteString(".")
 		}
@@ -473,13 +473,13 @@ func reason(in *solver.Instance, ex Explanation, eo ExplainOptions) string {
 		if !ex.WidenExact {
 			q = " (perhaps less)"
 		}
-		fixes = append(fixes, fmt.Sprintf("moving the latest start of %s later by %s%s", name(ex.Widen), fd(ex.WidenBy), q))
+		fixes = append(fixes, fmtlite.Sprintf("moving the latest start of %s later by %s%s", name(ex.Widen), fd(ex.WidenBy), q))
 	}
 	if ex.Drop >= 0 {
 		fixes = append(fixes, "leaving out "+name(ex.Drop))
 	}
 	if len(fixes) > 0 {
-		fmt.Fprintf(&b, " The day becomes feasible by %s.", strings.Join(fixes, ", or by "))
+		fmtlite.Fprintf(&b, " The day becomes feasible by %s.", strings.Join(fixes, ", or by "))
 	} else if len(ex.Conflict) > 1 {
 		b.WriteString(" No single widening or dropped visit among them is enough.")
 	}

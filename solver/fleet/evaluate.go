@@ -1,8 +1,9 @@
 package fleet
 
 import (
-	"fmt"
+	"strconv"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 )
 
@@ -35,6 +36,12 @@ type Value struct {
 	Unserved int64
 	Vehicles int
 	Cost     int64
+}
+
+// text writes v as fmt's %+v does, {Unserved:0 Vehicles:3 Cost:1234},
+// for the engine's internal errors.
+func (v Value) text() string {
+	return "{Unserved:" + strconv.FormatInt(v.Unserved, 10) + " Vehicles:" + strconv.Itoa(v.Vehicles) + " Cost:" + strconv.FormatInt(v.Cost, 10) + "}"
 }
 
 // Better reports whether a is strictly better than b.
@@ -109,20 +116,20 @@ func (r *Report) Value(obj Objective) Value {
 // longest day comes back with Feasible false and the problems named.
 func Evaluate(p *Problem, pl Plan) (Report, error) {
 	if len(pl.Routes) != len(p.Vehicles) {
-		return Report{}, fmt.Errorf("plan has %d routes, want one per vehicle (%d)", len(pl.Routes), len(p.Vehicles))
+		return Report{}, fmtlite.Errorf("plan has %d routes, want one per vehicle (%d)", len(pl.Routes), len(p.Vehicles))
 	}
 	depot := p.Depots()
 	seen := make([]int, p.N) // 0 unseen, 1 served, 2 unserved
 	for k, r := range pl.Routes {
 		for _, v := range r {
 			if v < 0 || v >= p.N {
-				return Report{}, fmt.Errorf("route of vehicle %d holds node %d, outside 0..%d", k, v, p.N-1)
+				return Report{}, fmtlite.Errorf("route of vehicle %d holds node %d, outside 0..%d", k, v, p.N-1)
 			}
 			if depot[v] {
-				return Report{}, fmt.Errorf("route of vehicle %d visits %s, which is a vehicle's start or end", k, p.ID(v))
+				return Report{}, fmtlite.Errorf("route of vehicle %d visits %s, which is a vehicle's start or end", k, p.ID(v))
 			}
 			if seen[v] != 0 {
-				return Report{}, fmt.Errorf("%s is served twice", p.ID(v))
+				return Report{}, fmtlite.Errorf("%s is served twice", p.ID(v))
 			}
 			seen[v] = 1
 		}
@@ -130,10 +137,10 @@ func Evaluate(p *Problem, pl Plan) (Report, error) {
 	rep := Report{Feasible: true}
 	for _, v := range pl.Unserved {
 		if v < 0 || v >= p.N || depot[v] {
-			return Report{}, fmt.Errorf("unserved list holds %d, which is not a visit", v)
+			return Report{}, fmtlite.Errorf("unserved list holds %d, which is not a visit", v)
 		}
 		if seen[v] != 0 {
-			return Report{}, fmt.Errorf("%s is both served and unserved, or unserved twice", p.ID(v))
+			return Report{}, fmtlite.Errorf("%s is both served and unserved, or unserved twice", p.ID(v))
 		}
 		seen[v] = 2
 		rep.Unserved = append(rep.Unserved, v)
@@ -141,7 +148,7 @@ func Evaluate(p *Problem, pl Plan) (Report, error) {
 	}
 	for i := 0; i < p.N; i++ {
 		if !depot[i] && seen[i] == 0 {
-			return Report{}, fmt.Errorf("%s is neither served nor listed unserved", p.ID(i))
+			return Report{}, fmtlite.Errorf("%s is neither served nor listed unserved", p.ID(i))
 		}
 	}
 	for k, r := range pl.Routes {
@@ -154,7 +161,7 @@ func Evaluate(p *Problem, pl Plan) (Report, error) {
 		if len(rr.Problems) > 0 {
 			rep.Feasible = false
 			for _, s := range rr.Problems {
-				rep.Problems = append(rep.Problems, fmt.Sprintf("vehicle %s: %s", vehicleName(p, k), s))
+				rep.Problems = append(rep.Problems, fmtlite.Sprintf("vehicle %s: %s", vehicleName(p, k), s))
 			}
 		}
 		rep.Routes = append(rep.Routes, rr)
@@ -166,7 +173,7 @@ func vehicleName(p *Problem, k int) string {
 	if id := p.Vehicles[k].ID; id != "" {
 		return id
 	}
-	return fmt.Sprint(k + 1)
+	return fmtlite.Sprint(k + 1)
 }
 
 // forward drives route r of vehicle v beginning at begin and returns the
@@ -210,7 +217,7 @@ func evaluateRoute(p *Problem, k int, r []int) RouteReport {
 		rr.Load += p.DemandOf(i)
 	}
 	if rr.Load > v.Capacity {
-		rr.Problems = append(rr.Problems, fmt.Sprintf("load %d is over the capacity %d", rr.Load, v.Capacity))
+		rr.Problems = append(rr.Problems, fmtlite.Sprintf("load %d is over the capacity %d", rr.Load, v.Capacity))
 	}
 	// Earliest schedule: begin at the shift start.
 	stops, end, travel := forward(p, v, r, v.ShiftStart)
@@ -219,12 +226,12 @@ func evaluateRoute(p *Problem, k int, r []int) RouteReport {
 	for _, s := range stops {
 		if s.Lateness > 0 {
 			late = true
-			rr.Problems = append(rr.Problems, fmt.Sprintf("%s starts %d after its latest", p.ID(s.Node), s.Lateness))
+			rr.Problems = append(rr.Problems, fmtlite.Sprintf("%s starts %d after its latest", p.ID(s.Node), s.Lateness))
 		}
 	}
 	if end.Lateness > 0 {
 		late = true
-		rr.Problems = append(rr.Problems, fmt.Sprintf("ends %d after the shift end", end.Lateness))
+		rr.Problems = append(rr.Problems, fmtlite.Sprintf("ends %d after the shift end", end.Lateness))
 	}
 	if late {
 		rr.Stops, rr.End = stops, end
@@ -251,7 +258,7 @@ func evaluateRoute(p *Problem, k int, r []int) RouteReport {
 	rr.Begin, rr.Stops, rr.End = begin, stops, end
 	rr.Duration = end.Arrival - begin
 	if rr.Duration > v.MaxDuration {
-		rr.Problems = append(rr.Problems, fmt.Sprintf("working day %d is over the longest day %d", rr.Duration, v.MaxDuration))
+		rr.Problems = append(rr.Problems, fmtlite.Sprintf("working day %d is over the longest day %d", rr.Duration, v.MaxDuration))
 	}
 	return rr
 }

@@ -14,9 +14,9 @@ package fleet
 
 import (
 	"errors"
-	"fmt"
 	"math"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 )
 
@@ -76,7 +76,7 @@ func (p *Problem) ID(i int) string {
 	if i >= 0 && i < len(p.IDs) && p.IDs[i] != "" {
 		return p.IDs[i]
 	}
-	return fmt.Sprint(i)
+	return fmtlite.Sprint(i)
 }
 
 // InputUnits converts an internal value to input units (minutes for a
@@ -143,34 +143,34 @@ func (p *Problem) Validate() error {
 		return errors.New("problem has no nodes")
 	}
 	if len(p.Travel) != n*n {
-		return fmt.Errorf("travel matrix has %d entries, want %d×%d", len(p.Travel), n, n)
+		return fmtlite.Errorf("travel matrix has %d entries, want %d×%d", len(p.Travel), n, n)
 	}
 	if len(p.Service) != n || len(p.Early) != n || len(p.Late) != n {
-		return fmt.Errorf("service and windows need %d entries each", n)
+		return fmtlite.Errorf("service and windows need %d entries each", n)
 	}
 	if p.Demand != nil && len(p.Demand) != n {
-		return fmt.Errorf("demands need %d entries", n)
+		return fmtlite.Errorf("demands need %d entries", n)
 	}
 	if p.Priority != nil && len(p.Priority) != n {
-		return fmt.Errorf("priorities need %d entries", n)
+		return fmtlite.Errorf("priorities need %d entries", n)
 	}
 	for k, v := range p.Travel {
 		if v < 0 || v > maxValue {
-			return fmt.Errorf("travel time from %s to %s is negative or too large", p.ID(k/n), p.ID(k%n))
+			return fmtlite.Errorf("travel time from %s to %s is negative or too large", p.ID(k/n), p.ID(k%n))
 		}
 	}
 	for i := 0; i < n; i++ {
 		if p.Service[i] < 0 || p.Service[i] > maxValue {
-			return fmt.Errorf("service time at %s is negative or too large", p.ID(i))
+			return fmtlite.Errorf("service time at %s is negative or too large", p.ID(i))
 		}
 		if p.Late[i] < p.Early[i] {
-			return fmt.Errorf("window of %s ends before it starts", p.ID(i))
+			return fmtlite.Errorf("window of %s ends before it starts", p.ID(i))
 		}
 		if d := p.DemandOf(i); d < 0 || d > maxValue {
-			return fmt.Errorf("demand of %s is negative or too large", p.ID(i))
+			return fmtlite.Errorf("demand of %s is negative or too large", p.ID(i))
 		}
 		if w := p.Weight(i); w < 1 || w > 1_000_000 {
-			return fmt.Errorf("priority of %s is %d; want 1 to 1000000", p.ID(i), w)
+			return fmtlite.Errorf("priority of %s is %d; want 1 to 1000000", p.ID(i), w)
 		}
 	}
 	if len(p.Vehicles) == 0 {
@@ -179,19 +179,19 @@ func (p *Problem) Validate() error {
 	for k, v := range p.Vehicles {
 		name := v.ID
 		if name == "" {
-			name = fmt.Sprint(k)
+			name = fmtlite.Sprint(k)
 		}
 		if v.Start < 0 || v.Start >= n {
-			return fmt.Errorf("vehicle %s starts at node %d, outside 0..%d", name, v.Start, n-1)
+			return fmtlite.Errorf("vehicle %s starts at node %d, outside 0..%d", name, v.Start, n-1)
 		}
 		if v.End != FreeEnd && (v.End < 0 || v.End >= n) {
-			return fmt.Errorf("vehicle %s ends at node %d, outside 0..%d", name, v.End, n-1)
+			return fmtlite.Errorf("vehicle %s ends at node %d, outside 0..%d", name, v.End, n-1)
 		}
 		if v.ShiftEnd < v.ShiftStart {
-			return fmt.Errorf("vehicle %s: shift ends before it starts", name)
+			return fmtlite.Errorf("vehicle %s: shift ends before it starts", name)
 		}
 		if v.Capacity < 0 || v.MaxDuration < 0 {
-			return fmt.Errorf("vehicle %s: negative capacity or longest day", name)
+			return fmtlite.Errorf("vehicle %s: negative capacity or longest day", name)
 		}
 	}
 	return nil

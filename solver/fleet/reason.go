@@ -1,6 +1,6 @@
 package fleet
 
-import "fmt"
+import "visitline/internal/fmtlite"
 
 // Reason says why a visit is unserved.
 type Reason int
@@ -29,7 +29,7 @@ func (r Reason) String() string {
 	case Shift:
 		return "shift"
 	}
-	return fmt.Sprintf("Reason(%d)", int(r))
+	return fmtlite.Sprintf("Reason(%d)", int(r))
 }
 
 // Sentence says the reason in words.

@@ -2,11 +2,12 @@ package fleet
 
 import (
 	"context"
-	"fmt"
 	"math"
 	"math/rand"
 	"sort"
 	"time"
+
+	"visitline/internal/fmtlite"
 )
 
 type scratch struct {
@@ -259,15 +260,15 @@ func Solve(ctx context.Context, p *Problem, set Settings) (Result, error) {
 	res.Elapsed = elapsed()
 	rep, err := Evaluate(p, res.Best)
 	if err != nil {
-		return res, fmt.Errorf("internal error: the engine's plan is not a plan of the problem: %w", err)
+		return res, fmtlite.Errorf("internal error: the engine's plan is not a plan of the problem: %w", err)
 	}
 	if !rep.Feasible {
-		return res, fmt.Errorf("internal error: the engine's plan breaks %v", rep.Problems)
+		return res, fmtlite.Errorf("internal error: the engine's plan breaks %v", rep.Problems)
 	}
 	res.Report = rep
 	res.Value = rep.Value(set.Objective)
 	if res.Value != bestV {
-		return res, fmt.Errorf("internal error: the engine counted %+v, the evaluator %+v", bestV, res.Value)
+		return res, fmtlite.Errorf("internal error: the engine counted %s, the evaluator %s", bestV.text(), res.Value.text())
 	}
 	res.Reasons = Reasons(p, rep.Unserved)
 	return res, nil

@@ -3,12 +3,12 @@ package format
 import (
 	"bufio"
 	"errors"
-	"fmt"
 	"io"
 	"math"
 	"strconv"
 	"strings"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 )
 
@@ -83,11 +83,11 @@ func readBenchmark(r io.Reader, name string) (*solver.Instance, error) {
 			n64, err := strconv.ParseInt(t.text, 10, 64)
 			if err != nil || n64 < 1 {
 				return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: "node count",
-					Msg: fmt.Sprintf("%s is not a whole number of nodes of 1 or more", clipQ(t.text))}
+					Msg: fmtlite.Sprintf("%s is not a whole number of nodes of 1 or more", clipQ(t.text))}
 			}
 			if n64 > MaxNodes {
 				return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: "node count",
-					Msg: fmt.Sprintf("%d nodes is more than the %d this reader accepts (see Size limits in the README)", n64, MaxNodes)}
+					Msg: fmtlite.Sprintf("%d nodes is more than the %d this reader accepts (see Size limits in the README)", n64, MaxNodes)}
 			}
 			n = int(n64)
 			in = &solver.Instance{Name: name, N: n, Shape: solver.Closed,
@@ -102,7 +102,7 @@ func readBenchmark(r io.Reader, name string) (*solver.Instance, error) {
 			// A row of the matrix: n numbers on one line.
 			if len(fields) != n {
 				return nil, &ParseError{File: name, Line: line, Field: "travel matrix",
-					Msg: fmt.Sprintf("row %d has %d numbers, want %d (the matrix must be %d×%d)", k/n+1, len(fields), n, n, n)}
+					Msg: fmtlite.Sprintf("row %d has %d numbers, want %d (the matrix must be %d×%d)", k/n+1, len(fields), n, n, n)}
 			}
 		}
 		for _, f := range fields {
@@ -112,21 +112,21 @@ func readBenchmark(r io.Reader, name string) (*solver.Instance, error) {
 			count++
 			if k == n*n && w == 2*n {
 				return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: "end of data",
-					Msg: fmt.Sprintf("unexpected %s after the %d windows; want nothing more", clipQ(t.text), n)}
+					Msg: fmtlite.Sprintf("unexpected %s after the %d windows; want nothing more", clipQ(t.text), n)}
 			}
 			// field names the value in an error; made only then.
 			field := func() string {
 				switch {
 				case k < n*n:
-					return fmt.Sprintf("travel time row %d column %d", k/n+1, k%n+1)
+					return fmtlite.Sprintf("travel time row %d column %d", k/n+1, k%n+1)
 				case w%2 == 0:
-					return fmt.Sprintf("earliest of node %d", w/2)
+					return fmtlite.Sprintf("earliest of node %d", w/2)
 				}
-				return fmt.Sprintf("latest of node %d", w/2)
+				return fmtlite.Sprintf("latest of node %d", w/2)
 			}
 			v, d, err := parseScaled(t.text)
 			if err != nil {
-				return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field(), Msg: fmt.Sprintf("%s %s", clipQ(t.text), err.Error())}
+				return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field(), Msg: fmtlite.Sprintf("%s %s", clipQ(t.text), err.Error())}
 			}
 			if d > dec {
 				if err := rescaleAll(in, k, w, &pendV, &dec, &scale, d, t, field(), name); err != nil {
@@ -135,7 +135,7 @@ func readBenchmark(r io.Reader, name string) (*solver.Instance, error) {
 			}
 			for i := d; i < dec; i++ {
 				if v > math.MaxInt64/10 || v < math.MinInt64/10 {
-					return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field(), Msg: fmt.Sprintf("%s is too large", clipQ(t.text))}
+					return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field(), Msg: fmtlite.Sprintf("%s is too large", clipQ(t.text))}
 				}
 				v *= 10
 			}
@@ -143,7 +143,7 @@ func readBenchmark(r io.Reader, name string) (*solver.Instance, error) {
 			case k < n*n:
 				if v < 0 {
 					return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field(),
-						Msg: fmt.Sprintf("%s is negative; travel times must be 0 or more", clipQ(t.text))}
+						Msg: fmtlite.Sprintf("%s is negative; travel times must be 0 or more", clipQ(t.text))}
 				}
 				in.Travel[k] = v
 				k++
@@ -153,12 +153,12 @@ func readBenchmark(r io.Reader, name string) (*solver.Instance, error) {
 			default:
 				i := w / 2
 				if pend.line != t.line {
-					return nil, &ParseError{File: name, Line: pend.line, Field: fmt.Sprintf("time window of node %d", i),
+					return nil, &ParseError{File: name, Line: pend.line, Field: fmtlite.Sprintf("time window of node %d", i),
 						Msg: "want two numbers, earliest and latest, on one line"}
 				}
 				if v < pendV {
 					return nil, &ParseError{File: name, Line: t.line, Column: t.col, Field: field(),
-						Msg: fmt.Sprintf("%s is before the earliest %s; want latest ≥ earliest", clip(t.text), clip(pend.text))}
+						Msg: fmtlite.Sprintf("%s is before the earliest %s; want latest ≥ earliest", clip(t.text), clip(pend.text))}
 				}
 				in.Early[i], in.Late[i] = pendV, v
 				w++
@@ -168,7 +168,7 @@ func readBenchmark(r io.Reader, name string) (*solver.Instance, error) {
 	if err := sc.Err(); err != nil {
 		msg := "cannot read: " + err.Error()
 		if errors.Is(err, bufio.ErrTooLong) {
-			msg = fmt.Sprintf("a line longer than %d MiB; this is not a benchmark file with one matrix row per line", maxLine>>20)
+			msg = fmtlite.Sprintf("a line longer than %d MiB; this is not a benchmark file with one matrix row per line", maxLine>>20)
 		}
 		return nil, &ParseError{File: name, Line: line + 1, Msg: msg, Err: err}
 	}
@@ -177,7 +177,7 @@ func readBenchmark(r io.Reader, name string) (*solver.Instance, error) {
 	}
 	if w < 2*n {
 		if w%2 == 1 {
-			return nil, &ParseError{File: name, Line: pend.line, Field: fmt.Sprintf("time window of node %d", w/2),
+			return nil, &ParseError{File: name, Line: pend.line, Field: fmtlite.Sprintf("time window of node %d", w/2),
 				Msg: "want two numbers, earliest and latest, on one line"}
 		}
 		what := "travel matrix"
@@ -185,7 +185,7 @@ func readBenchmark(r io.Reader, name string) (*solver.Instance, error) {
 			what = "time window"
 		}
 		return nil, &ParseError{File: name, Line: last.line + 1, Field: what,
-			Msg: fmt.Sprintf("file ends early: %d numbers after the node count, want %d (n×n travel times then n windows)", count, n*n+2*n)}
+			Msg: fmtlite.Sprintf("file ends early: %d numbers after the node count, want %d (n×n travel times then n windows)", count, n*n+2*n)}
 	}
 	in.Scale = scale
 	if err := in.Validate(); err != nil {
@@ -205,7 +205,7 @@ func rescaleAll(in *solver.Instance, k, w int, pendV *int64, dec *int, scale *in
 	lim := int64(math.MaxInt64) / f
 	tooBig := func() error {
 		return &ParseError{File: name, Line: t.line, Column: t.col, Field: field,
-			Msg: fmt.Sprintf("%s has %d decimals, and with that many the values before it no longer fit; write fewer decimals", clipQ(t.text), d)}
+			Msg: fmtlite.Sprintf("%s has %d decimals, and with that many the values before it no longer fit; write fewer decimals", clipQ(t.text), d)}
 	}
 	for i := 0; i < k; i++ {
 		if in.Travel[i] > lim {
@@ -299,7 +299,7 @@ func parseFixed(s string, dec int) (int64, error) {
 	if !simple || len(intPart) > 15 {
 		f, err := strconv.ParseFloat(s, 64)
 		if err != nil || f != f || f > 1e15 || f < -1e15 {
-			return 0, fmt.Errorf("is not a number")
+			return 0, fmtlite.Errorf("is not a number")
 		}
 		p := 1.0
 		for i := 0; i < dec; i++ {

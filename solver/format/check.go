@@ -1,11 +1,11 @@
 package format
 
 import (
-	"fmt"
 	"math"
 	"strconv"
 	"strings"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 )
 
@@ -50,12 +50,12 @@ func (d *Dataset) RouteIDsProblem(c *Claims, name string) error {
 		return nil
 	}
 	if len(c.RouteIDs) != len(c.Route) {
-		return &ParseError{File: name, Field: "route_ids", Msg: fmt.Sprintf("has %d ids but route has %d nodes", len(c.RouteIDs), len(c.Route))}
+		return &ParseError{File: name, Field: "route_ids", Msg: fmtlite.Sprintf("has %d ids but route has %d nodes", len(c.RouteIDs), len(c.Route))}
 	}
 	for k, v := range c.Route {
 		if v >= 0 && v < in.N && in.ID(v) != c.RouteIDs[k] {
 			return &ParseError{File: name, Field: "route_ids",
-				Msg: fmt.Sprintf("place %d is node %d, which is %s here, but the plan says %s: was the plan made from other data or other options (--done)?",
+				Msg: fmtlite.Sprintf("place %d is node %d, which is %s here, but the plan says %s: was the plan made from other data or other options (--done)?",
 					k, v, Printable(clip(in.ID(v))), Printable(clip(c.RouteIDs[k])))}
 		}
 	}
@@ -71,7 +71,7 @@ func (d *Dataset) RouteProblems(route []int) []string {
 	places := make([][]int, in.N)
 	for k, v := range route {
 		if v < 0 || v >= in.N {
-			out = append(out, fmt.Sprintf("place %d holds node %d, but the nodes are 0 to %d", k, v, in.N-1))
+			out = append(out, fmtlite.Sprintf("place %d holds node %d, but the nodes are 0 to %d", k, v, in.N-1))
 			continue
 		}
 		places[v] = append(places[v], k)
@@ -83,7 +83,7 @@ func (d *Dataset) RouteProblems(route []int) []string {
 		}
 		switch {
 		case len(p) == 0:
-			out = append(out, fmt.Sprintf("%s is missing from the route", Printable(clip(d.label(i)))))
+			out = append(out, fmtlite.Sprintf("%s is missing from the route", Printable(clip(d.label(i)))))
 		case len(p) > 1:
 			ks := make([]string, len(p))
 			for x, k := range p {
@@ -91,9 +91,9 @@ func (d *Dataset) RouteProblems(route []int) []string {
 			}
 			what := "twice"
 			if len(p) > 2 {
-				what = fmt.Sprintf("%d times", len(p))
+				what = fmtlite.Sprintf("%d times", len(p))
 			}
-			out = append(out, fmt.Sprintf("%s is visited %s (places %s)", Printable(clip(d.label(i))), what, strings.Join(ks, ", ")))
+			out = append(out, fmtlite.Sprintf("%s is visited %s (places %s)", Printable(clip(d.label(i))), what, strings.Join(ks, ", ")))
 		}
 	}
 	if len(out) > 0 {
@@ -109,7 +109,7 @@ func (d *Dataset) RouteProblems(route []int) []string {
 func (d *Dataset) label(i int) string {
 	id := d.Instance.ID(i)
 	if i < len(d.Names) && d.Names[i] != "" && d.Names[i] != id {
-		return fmt.Sprintf("%s (%s)", id, d.Names[i])
+		return fmtlite.Sprintf("%s (%s)", id, d.Names[i])
 	}
 	return id
 }
@@ -121,7 +121,7 @@ type Mismatch struct {
 }
 
 func (m Mismatch) String() string {
-	return fmt.Sprintf("%s: the plan says %s, recomputed %s", m.What, m.Claimed, m.Recomputed)
+	return fmtlite.Sprintf("%s: the plan says %s, recomputed %s", m.What, m.Claimed, m.Recomputed)
 }
 
 // CompareClaims recomputes the plan's figures from d and the schedule s
@@ -177,7 +177,7 @@ func (d *Dataset) CompareClaims(c *Claims, s solver.Schedule) []Mismatch {
 			out = append(out, Mismatch{"visits in the schedule", strconv.Itoa(len(c.Schedule)), strconv.Itoa(len(s.Visits))})
 		} else {
 			for k, cv := range c.Schedule {
-				visit(fmt.Sprintf("visit %d (%s)", k, Printable(clip(in.ID(s.Visits[k].Node)))), cv, s.Visits[k])
+				visit(fmtlite.Sprintf("visit %d (%s)", k, Printable(clip(in.ID(s.Visits[k].Node)))), cv, s.Visits[k])
 			}
 		}
 	}

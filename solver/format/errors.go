@@ -7,11 +7,11 @@ package format
 
 import (
 	"errors"
-	"fmt"
 	"io"
 	"strconv"
 	"strings"
 
+	"visitline/internal/fmtlite"
 	"visitline/internal/jsonlite"
 )
 
@@ -39,9 +39,9 @@ func place(file string, line, col int, field string) string {
 		b.WriteString("pasted text")
 	}
 	if line > 0 {
-		fmt.Fprintf(&b, ":%d", line)
+		fmtlite.Fprintf(&b, ":%d", line)
 		if col > 0 {
-			fmt.Fprintf(&b, ":%d", col)
+			fmtlite.Fprintf(&b, ":%d", col)
 		}
 	}
 	b.WriteString(": ")
@@ -75,7 +75,7 @@ type OptionError struct {
 }
 
 func (e *OptionError) Error() string {
-	return fmt.Sprintf("%s %s: %s", e.Option, clipQ(e.Value), clipMsg(e.Msg))
+	return fmtlite.Sprintf("%s %s: %s", e.Option, clipQ(e.Value), clipMsg(e.Msg))
 }
 
 func (e *ParseError) Unwrap() error { return e.Err }

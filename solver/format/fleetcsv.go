@@ -1,7 +1,6 @@
 package format
 
 import (
-	"encoding/csv"
 	"io"
 	"strconv"
 )
@@ -16,7 +15,7 @@ var FleetCSVHeader = []string{"vehicle", "vehicle_name", "order", "site", "name"
 // one row per unserved visit with an empty vehicle and the reason. Times
 // are written as WriteCSV writes them; every cell goes through CSVCell.
 func WriteFleetCSV(w io.Writer, j FleetPlanReport) error {
-	cw := csv.NewWriter(w)
+	cw := newCSVWriter(w)
 	if err := cw.Write(FleetCSVHeader); err != nil {
 		return err
 	}

@@ -1,11 +1,12 @@
 package format
 
 import (
-	"fmt"
 	"io"
 	"math"
 	"strings"
 	"time"
+
+	"visitline/internal/fmtlite"
 )
 
 // WriteFleetICS writes a team's plan as an iCalendar file (RFC 5545), one
@@ -26,7 +27,7 @@ func WriteFleetICS(w io.Writer, d *FleetDataset, j FleetPlanReport, vehicle stri
 			found = found || v.ID == vehicle
 		}
 		if !found {
-			return fmt.Errorf("vehicle %s: not a vehicle of this day", clipQ(vehicle))
+			return fmtlite.Errorf("vehicle %s: not a vehicle of this day", clipQ(vehicle))
 		}
 	}
 	// Report times are minutes from the day's origin.
@@ -48,8 +49,8 @@ func WriteFleetICS(w io.Writer, d *FleetDataset, j FleetPlanReport, vehicle stri
 			if name == "" {
 				name = v.ID
 			}
-			line("SUMMARY", escapeText(fmt.Sprintf("%s: %s", who, name)))
-			desc := []string{fmt.Sprintf("Vehicle %s, visit %d of %d", r.Vehicle, k+1, len(r.Schedule)), "Site " + v.ID}
+			line("SUMMARY", escapeText(fmtlite.Sprintf("%s: %s", who, name)))
+			desc := []string{fmtlite.Sprintf("Vehicle %s, visit %d of %d", r.Vehicle, k+1, len(r.Schedule)), "Site " + v.ID}
 			win := v.EarliestClock + " to " + v.LatestClock
 			if v.Latest == nil {
 				win = "from " + v.EarliestClock + ", no latest"
@@ -60,7 +61,7 @@ func WriteFleetICS(w io.Writer, d *FleetDataset, j FleetPlanReport, vehicle stri
 				arr = "Arrive " + at(v.Arrival).Format("15:04")
 			}
 			if v.Wait > 0 {
-				arr += fmt.Sprintf(", wait %s min", strings.TrimSuffix(strings.TrimRight(fmt.Sprintf("%.2f", v.Wait), "0"), "."))
+				arr += fmtlite.Sprintf(", wait %s min", strings.TrimSuffix(strings.TrimRight(fmtlite.Sprintf("%.2f", v.Wait), "0"), "."))
 			}
 			desc = append(desc, arr, "Travel times are estimates: obey traffic law and working-time rules.")
 			line("DESCRIPTION", escapeText(strings.Join(desc, "\n")))

@@ -2,13 +2,13 @@ package format
 
 import (
 	"errors"
-	"fmt"
 	"hash/fnv"
 	"io"
 	"strings"
 	"time"
 	"unicode/utf8"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 )
 
@@ -67,7 +67,7 @@ func WriteICS(w io.Writer, d *Dataset, p solver.Plan, o ICSOptions) error {
 		desc = append(desc, "Travel times are estimates: obey traffic law and working-time rules.")
 		line("DESCRIPTION", escapeText(strings.Join(desc, "\n")))
 		if d.LatLon != nil {
-			line("GEO", fmt.Sprintf("%.6f;%.6f", d.LatLon[node][0], d.LatLon[node][1]))
+			line("GEO", fmtlite.Sprintf("%.6f;%.6f", d.LatLon[node][0], d.LatLon[node][1]))
 		}
 		line("END", "VEVENT")
 	}
@@ -117,7 +117,7 @@ func icsEventStart(line func(name, value string), key, day, stamp string, start,
 	h := fnv.New64a()
 	h.Write([]byte(key))
 	line("BEGIN", "VEVENT")
-	line("UID", fmt.Sprintf("%s-%016x@visitline.invalid", day, h.Sum64()))
+	line("UID", fmtlite.Sprintf("%s-%016x@visitline.invalid", day, h.Sum64()))
 	line("DTSTAMP", stamp)
 	line("DTSTART", start.Format(localForm))
 	if end.After(start) {

@@ -2,14 +2,13 @@ package format
 
 import (
 	"bufio"
-	"fmt"
 	"io"
 	"math"
-	"runtime/debug"
 	"sort"
 	"strconv"
 	"strings"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 )
 
@@ -120,7 +119,7 @@ func (d *Dataset) ParseTime(s string) (int64, error) {
 	if d.Unit == "" {
 		v, err := parseFixed(strings.TrimSpace(s), decimalsOf(d.Instance.Scale))
 		if err != nil || v < 0 {
-			return 0, fmt.Errorf("%q: want a time of 0 or more in the file's units", s)
+			return 0, fmtlite.Errorf("%q: want a time of 0 or more in the file's units", s)
 		}
 		return v, nil
 	}
@@ -182,7 +181,7 @@ func Load(sites io.Reader, matrix io.Reader, opt Options) (*Dataset, error) {
 		// 5,000-site benchmark file) back to the system now: freed but kept,
 		// it would stay resident beside the engine's copy of the matrix,
 		// which cannot reuse its scattered small pieces.
-		debug.FreeOSMemory()
+		freeMemory()
 	}
 	return d, nil
 }
@@ -205,7 +204,7 @@ func load(sites io.Reader, matrix io.Reader, opt Options) (*Dataset, error) {
 	if tsp {
 		if matrix != nil {
 			return nil, &ParseError{File: opt.MatrixName, Field: "travel matrix",
-				Msg: fmt.Sprintf("%s is a TSPLIB file, which holds its own travel; give no separate matrix", nameOr(opt.SitesName))}
+				Msg: fmtlite.Sprintf("%s is a TSPLIB file, which holds its own travel; give no separate matrix", nameOr(opt.SitesName))}
 		}
 		in, err := ReadTSPLIB(br, opt.SitesName)
 		if err != nil {
@@ -235,7 +234,7 @@ func load(sites io.Reader, matrix io.Reader, opt Options) (*Dataset, error) {
 	if bench {
 		if matrix != nil {
 			return nil, &ParseError{File: opt.MatrixName, Field: "travel matrix",
-				Msg: fmt.Sprintf("%s is in the benchmark matrix format, which holds its own travel times; give no separate matrix", nameOr(opt.SitesName))}
+				Msg: fmtlite.Sprintf("%s is in the benchmark matrix format, which holds its own travel times; give no separate matrix", nameOr(opt.SitesName))}
 		}
 		in, err := readBenchmark(br, opt.SitesName)
 		if err != nil {
@@ -341,7 +340,7 @@ func fromSites(s *Sites, matrix io.Reader, opt Options) (*Dataset, error) {
 		if latlon && !st.HasLatLon || !latlon && !st.HasXY {
 			line, col := s.pos(k, a)
 			missing = append(missing, &ParseError{File: s.Name, Line: line, Column: col, Field: s.colLabel(a),
-				Msg: fmt.Sprintf("missing; travel times come from %s,%s, so every site needs them (or give a travel matrix)", a, b)})
+				Msg: fmtlite.Sprintf("missing; travel times come from %s,%s, so every site needs them (or give a travel matrix)", a, b)})
 			if len(missing) == maxErrors {
 				break
 			}
@@ -359,7 +358,7 @@ func fromSites(s *Sites, matrix io.Reader, opt Options) (*Dataset, error) {
 		speed = DefaultSpeedKmh
 	}
 	if !(speed > 0) || math.IsInf(speed, 0) || speed > 1e6 {
-		return nil, &OptionError{Option: "speed", Value: fmt.Sprint(opt.Speed), Msg: "want a speed above 0 (km/h for lat,lon)"}
+		return nil, &OptionError{Option: "speed", Value: fmtlite.Sprint(opt.Speed), Msg: "want a speed above 0 (km/h for lat,lon)"}
 	}
 	factor := opt.RoadFactor
 	if factor == 0 {
@@ -369,7 +368,7 @@ func fromSites(s *Sites, matrix io.Reader, opt Options) (*Dataset, error) {
 		}
 	}
 	if !(factor >= 1) || math.IsInf(factor, 0) || factor > 100 {
-		return nil, &OptionError{Option: "road-factor", Value: fmt.Sprint(opt.RoadFactor), Msg: "want 1 or more: roads are never shorter than the straight line"}
+		return nil, &OptionError{Option: "road-factor", Value: fmtlite.Sprint(opt.RoadFactor), Msg: "want 1 or more: roads are never shorter than the straight line"}
 	}
 	in.Travel = coordTravel(s, latlon, speed, factor)
 	if latlon {
@@ -377,14 +376,14 @@ func fromSites(s *Sites, matrix io.Reader, opt Options) (*Dataset, error) {
 		for i, st := range s.Sites {
 			d.LatLon[i] = [2]float64{st.Lat, st.Lon}
 		}
-		d.Travel = fmt.Sprintf("lat,lon (haversine) × road factor %g at %g km/h", factor, speed)
+		d.Travel = fmtlite.Sprintf("lat,lon (haversine) × road factor %g at %g km/h", factor, speed)
 	} else {
-		d.Travel = fmt.Sprintf("x,y (Euclidean) × %g at %g units/h", factor, speed)
+		d.Travel = fmtlite.Sprintf("x,y (Euclidean) × %g at %g units/h", factor, speed)
 	}
 	for i := 0; i < n; i++ {
 		for j := 0; j < n; j++ {
 			if in.Travel[i*n+j] >= horizon {
-				return nil, &OptionError{Option: "speed", Value: fmt.Sprint(speed), Msg: "travel times from the coordinates are too large; check the units"}
+				return nil, &OptionError{Option: "speed", Value: fmtlite.Sprint(speed), Msg: "travel times from the coordinates are too large; check the units"}
 			}
 		}
 	}
@@ -435,7 +434,7 @@ func (d *Dataset) unknown(option, id string) error {
 	if len(ids) > len(sample) {
 		more = ", ..."
 	}
-	return &OptionError{Option: option, Value: id, Msg: fmt.Sprintf("no site has this id; the ids are %s%s", strings.Join(sample, ", "), more)}
+	return &OptionError{Option: option, Value: id, Msg: fmtlite.Sprintf("no site has this id; the ids are %s%s", strings.Join(sample, ", "), more)}
 }
 
 // applyRoute sets the start, the shape, the shift start and the pins, and
@@ -475,7 +474,7 @@ func (d *Dataset) applyRoute(opt Options) error {
 				what = "the latest return to"
 			}
 			return &OptionError{Option: "shift-start", Value: opt.ShiftStart,
-				Msg: fmt.Sprintf("is after %s %s (%s)", what, in.ID(in.Start), d.FormatTime(in.Late[in.Start]))}
+				Msg: fmtlite.Sprintf("is after %s %s (%s)", what, in.ID(in.Start), d.FormatTime(in.Late[in.Start]))}
 		}
 		in.Early[in.Start] = v
 	}
@@ -514,10 +513,10 @@ func (d *Dataset) readPins() ([]pin, error) {
 			continue
 		}
 		if i == d.Instance.Start {
-			return nil, d.siteErr(i, "position", fmt.Sprintf("%s is the start of the route and cannot be pinned; leave its position empty", st.ID))
+			return nil, d.siteErr(i, "position", fmtlite.Sprintf("%s is the start of the route and cannot be pinned; leave its position empty", st.ID))
 		}
 		if d.Instance.Shape == solver.OpenFixed && i == d.Instance.End {
-			return nil, d.siteErr(i, "position", fmt.Sprintf("%s is the fixed end of the route and cannot be pinned; leave its position empty", st.ID))
+			return nil, d.siteErr(i, "position", fmtlite.Sprintf("%s is the fixed end of the route and cannot be pinned; leave its position empty", st.ID))
 		}
 		out = append(out, pin{i, st.Pin})
 	}
@@ -551,16 +550,16 @@ func (d *Dataset) setPins(pins []pin, shift int) error {
 		default:
 			k = p.N - shift
 			if p.N > maxPos+shift {
-				return d.siteErr(p.node, "position", fmt.Sprintf("%d is past the end of the route, which has %d visits after the start", p.N, maxPos+shift))
+				return d.siteErr(p.node, "position", fmtlite.Sprintf("%d is past the end of the route, which has %d visits after the start", p.N, maxPos+shift))
 			}
 		}
 		if k < 1 {
 			d.Warnings = append(d.Warnings, Warning{File: d.fileName(), Line: d.Lines[p.node], Field: "position",
-				Msg: fmt.Sprintf("%s was pinned to a place already passed (%d visits are done); the pin is dropped", in.ID(p.node), shift)})
+				Msg: fmtlite.Sprintf("%s was pinned to a place already passed (%d visits are done); the pin is dropped", in.ID(p.node), shift)})
 			continue
 		}
 		if prev, dup := byPos[k]; dup {
-			return d.siteErr(p.node, "position", fmt.Sprintf("%s and %s (line %d) are both pinned to visit %d; pin one site per place", in.ID(p.node), in.ID(prev), d.Lines[prev], k+shift))
+			return d.siteErr(p.node, "position", fmtlite.Sprintf("%s and %s (line %d) are both pinned to visit %d; pin one site per place", in.ID(p.node), in.ID(prev), d.Lines[prev], k+shift))
 		}
 		byPos[k] = p.node
 		in.Position[p.node] = k
@@ -629,7 +628,7 @@ func (d *Dataset) replan(opt Options, pins []pin) error {
 	if len(done) == 0 {
 		// Still at the start: only the time changes.
 		if in.Shape == solver.Closed && now > in.Late[in.Start] {
-			return &OptionError{Option: "now", Value: opt.Now, Msg: fmt.Sprintf("is after the latest return to %s (%s)", in.ID(in.Start), d.FormatTime(in.Late[in.Start]))}
+			return &OptionError{Option: "now", Value: opt.Now, Msg: fmtlite.Sprintf("is after the latest return to %s (%s)", in.ID(in.Start), d.FormatTime(in.Late[in.Start]))}
 		}
 		in.Early[in.Start] = now
 		if in.Late[in.Start] < now {
@@ -749,12 +748,12 @@ func triangleWarnings(in *solver.Instance, m *Matrix) []Warning {
 	for x, b := range worst {
 		if x == 3 {
 			out = append(out, Warning{File: m.Name, Field: "travel matrix",
-				Msg: fmt.Sprintf("%d more pairs are quicker by a detour than direct", len(worst)-3)})
+				Msg: fmtlite.Sprintf("%d more pairs are quicker by a detour than direct", len(worst)-3)})
 			break
 		}
 		line, col := m.Pos(b.i, b.k)
-		out = append(out, Warning{File: m.Name, Line: line, Column: col, Field: fmt.Sprintf("travel time from %s to %s", in.ID(b.i), in.ID(b.k)),
-			Msg: fmt.Sprintf("%s min direct, but %s min by way of %s (%s + %s): check for a typo or mixed units",
+		out = append(out, Warning{File: m.Name, Line: line, Column: col, Field: fmtlite.Sprintf("travel time from %s to %s", in.ID(b.i), in.ID(b.k)),
+			Msg: fmtlite.Sprintf("%s min direct, but %s min by way of %s (%s + %s): check for a typo or mixed units",
 				FormatMinutes(in.T(b.i, b.k)), FormatMinutes(in.T(b.i, b.j)+in.T(b.j, b.k)), in.ID(b.j), FormatMinutes(in.T(b.i, b.j)), FormatMinutes(in.T(b.j, b.k)))})
 	}
 	return out
@@ -774,13 +773,13 @@ func (d *Dataset) checkReach() {
 		w := Warning{File: d.fileName(), Line: d.Lines[i], Field: in.ID(i)}
 		if in.Early[i] == in.Late[i] && !(in.Shape == solver.OpenFixed && i == in.End) {
 			ww := w
-			ww.Msg = fmt.Sprintf("the window opens and closes at %s: service must start at exactly that time", d.FormatTime(in.Early[i]))
+			ww.Msg = fmtlite.Sprintf("the window opens and closes at %s: service must start at exactly that time", d.FormatTime(in.Early[i]))
 			d.Warnings = append(d.Warnings, ww)
 		}
 		arr := leave + in.T(s, i)
 		if arr > in.Late[i] {
 			ww := w
-			ww.Msg = fmt.Sprintf("cannot be reached in time even as the first visit: leaving %s at %s, the earliest arrival is %s, after the latest %s",
+			ww.Msg = fmtlite.Sprintf("cannot be reached in time even as the first visit: leaving %s at %s, the earliest arrival is %s, after the latest %s",
 				in.ID(s), d.FormatTime(in.Early[s]), d.FormatTime(arr), d.FormatTime(in.Late[i]))
 			d.Warnings = append(d.Warnings, ww)
 			continue
@@ -799,7 +798,7 @@ func (d *Dataset) checkReach() {
 			back = st + in.Service[i] + in.T(i, backTo)
 			if back > in.Late[backTo] {
 				ww := w
-				ww.Msg = fmt.Sprintf("even as the first visit, the route cannot reach %s by its latest %s afterwards (earliest %s)",
+				ww.Msg = fmtlite.Sprintf("even as the first visit, the route cannot reach %s by its latest %s afterwards (earliest %s)",
 					in.ID(backTo), d.FormatTime(in.Late[backTo]), d.FormatTime(back))
 				d.Warnings = append(d.Warnings, ww)
 			}

@@ -2,9 +2,10 @@ package format
 
 import (
 	"errors"
-	"fmt"
 	"io"
 	"strings"
+
+	"visitline/internal/fmtlite"
 )
 
 // Unit is the unit of the numbers in a travel matrix.
@@ -152,7 +153,7 @@ func parseMatrix(text, name string, comma rune, unit Unit, ids []string, mt *met
 		return nil, err
 	}
 	if len(shapes) == 0 {
-		return nil, &ParseError{File: name, Line: 1, Field: "travel matrix", Msg: fmt.Sprintf("no data; want %d rows of %d travel times", n, n)}
+		return nil, &ParseError{File: name, Line: 1, Field: "travel matrix", Msg: fmtlite.Sprintf("no data; want %d rows of %d travel times", n, n)}
 	}
 	isNum := func(s string) bool {
 		if s == "" || s == "-" {
@@ -214,16 +215,16 @@ func parseMatrix(text, name string, comma rune, unit Unit, ids []string, mt *met
 	}
 	shapeErr := func(line int, msg string) error {
 		return &ParseError{File: name, Line: line, Field: "travel matrix",
-			Msg: msg + fmt.Sprintf("; the sites file has %d sites, so want %d rows of %d travel times (optionally with a header row and a first column of site ids)", n, n, n)}
+			Msg: msg + fmtlite.Sprintf("; the sites file has %d sites, so want %d rows of %d travel times (optionally with a header row and a first column of site ids)", n, n, n)}
 	}
 	if len(data) != n {
 		line := recs[len(recs)-1].line
 		if len(data) > n {
 			line = data[n].line
 		}
-		msg := fmt.Sprintf("%d rows of times", len(data))
+		msg := fmtlite.Sprintf("%d rows of times", len(data))
 		if headerByText && len(recs) == n {
-			msg += fmt.Sprintf(" (line %d was taken as a header of site ids because it holds %q, which is not a travel time)", recs[0].line, firstNonTime(first, isNum))
+			msg += fmtlite.Sprintf(" (line %d was taken as a header of site ids because it holds %q, which is not a travel time)", recs[0].line, firstNonTime(first, isNum))
 		}
 		return nil, shapeErr(line, msg)
 	}
@@ -253,27 +254,27 @@ func parseMatrix(text, name string, comma rune, unit Unit, ids []string, mt *met
 		}
 		miss := ""
 		if len(lost) > 0 && len(lost) <= 5 {
-			miss = fmt.Sprintf("; no column for %s", clip(strings.Join(lost, ", ")))
+			miss = fmtlite.Sprintf("; no column for %s", clip(strings.Join(lost, ", ")))
 		}
 		return nil, &ParseError{File: name, Line: header.line, Field: "travel matrix",
-			Msg: fmt.Sprintf("the header names %d site columns and each row has %d travel times, but the sites file has %d sites: want %d, one column per site%s", n-1, n-1, n, n, miss)}
+			Msg: fmtlite.Sprintf("the header names %d site columns and each row has %d travel times, but the sites file has %d sites: want %d, one column per site%s", n-1, n-1, n, n, miss)}
 	}
 	if hasLabels && width != n+1 || !hasLabels && width != n {
-		what := fmt.Sprintf("%d travel times", times(width))
+		what := fmtlite.Sprintf("%d travel times", times(width))
 		if hasLabels {
-			what = fmt.Sprintf("a site id and %d travel times", times(width))
+			what = fmtlite.Sprintf("a site id and %d travel times", times(width))
 		}
 		return nil, &ParseError{File: name, Line: data[0].line, Field: "travel matrix",
-			Msg: fmt.Sprintf("the first row of times has %s; the sites file has %d sites, so want %d, one per site", what, n, n)}
+			Msg: fmtlite.Sprintf("the first row of times has %s; the sites file has %d sites, so want %d, one per site", what, n, n)}
 	}
 	for r, rec := range dataShapes {
 		if rec.width != width {
-			row := fmt.Sprintf("row %d of the times", r+1)
+			row := fmtlite.Sprintf("row %d of the times", r+1)
 			if hasLabels {
 				row = "row " + clip(rec.label)
 			}
 			return nil, &ParseError{File: name, Line: rec.line, Field: "travel matrix",
-				Msg: fmt.Sprintf("%s has %d travel times; want %d, one per site (the matrix must be square, %d×%d)", row, times(rec.width), n, n, n)}
+				Msg: fmtlite.Sprintf("%s has %d travel times; want %d, one per site (the matrix must be square, %d×%d)", row, times(rec.width), n, n, n)}
 		}
 	}
 	off := 0
@@ -295,15 +296,15 @@ func parseMatrix(text, name string, comma rune, unit Unit, ids []string, mt *met
 			hint := ""
 			for _, id := range ids {
 				if strings.EqualFold(id, label) {
-					hint = fmt.Sprintf(" (did you mean %q? ids match exactly)", id)
+					hint = fmtlite.Sprintf(" (did you mean %q? ids match exactly)", id)
 				}
 			}
 			return 0, &ParseError{File: name, Line: line, Column: col, Field: what,
-				Msg: fmt.Sprintf("%q is not a site id of the sites file%s; every row and column must name a site", label, hint)}
+				Msg: fmtlite.Sprintf("%q is not a site id of the sites file%s; every row and column must name a site", label, hint)}
 		}
 		if prev, dup := seen[i]; dup {
 			return 0, &ParseError{File: name, Line: line, Column: col, Field: what,
-				Msg: fmt.Sprintf("%q appears twice (first at %s); each site gets one row and one column", label, prev)}
+				Msg: fmtlite.Sprintf("%q appears twice (first at %s); each site gets one row and one column", label, prev)}
 		}
 		seen[i] = here
 		return i, nil
@@ -316,15 +317,15 @@ func parseMatrix(text, name string, comma rune, unit Unit, ids []string, mt *met
 			start = 1
 		case len(labels) == n:
 		default:
-			return nil, shapeErr(header.line, fmt.Sprintf("the header row has %d cells", len(labels)))
+			return nil, shapeErr(header.line, fmtlite.Sprintf("the header row has %d cells", len(labels)))
 		}
 		if start == 1 && !hasLabels {
 			return nil, &ParseError{File: name, Line: header.line, Field: "travel matrix",
-				Msg: fmt.Sprintf("the header row has %d cells but the rows have no site id in front; drop the first header cell or add the ids", len(labels))}
+				Msg: fmtlite.Sprintf("the header row has %d cells but the rows have no site id in front; drop the first header cell or add the ids", len(labels))}
 		}
 		seen := map[int]string{}
 		for c := 0; c < n; c++ {
-			i, err := match(labels[start+c], header.line, start+c+1, "header", seen, fmt.Sprintf("column %d", start+c+1))
+			i, err := match(labels[start+c], header.line, start+c+1, "header", seen, fmtlite.Sprintf("column %d", start+c+1))
 			if err != nil {
 				return nil, err
 			}
@@ -334,7 +335,7 @@ func parseMatrix(text, name string, comma rune, unit Unit, ids []string, mt *met
 	if hasLabels {
 		seen := map[int]string{}
 		for r, rec := range dataShapes {
-			i, err := match(rec.label, rec.line, 1, "row id", seen, fmt.Sprintf("line %d", rec.line))
+			i, err := match(rec.label, rec.line, 1, "row id", seen, fmtlite.Sprintf("line %d", rec.line))
 			if err != nil {
 				return nil, err
 			}
@@ -379,10 +380,10 @@ func parseMatrix(text, name string, comma rune, unit Unit, ids []string, mt *met
 			if i == j && (t == "" || t == "-") {
 				continue
 			}
-			field := func() string { return fmt.Sprintf("travel time from %s to %s", ids[i], ids[j]) }
+			field := func() string { return fmtlite.Sprintf("travel time from %s to %s", ids[i], ids[j]) }
 			if t == "" {
 				if err := fail(&ParseError{File: name, Line: line, Column: c + off + 1, Field: field(),
-					Msg: fmt.Sprintf("missing; want %s (0 or more)", unit)}); err != nil {
+					Msg: fmtlite.Sprintf("missing; want %s (0 or more)", unit)}); err != nil {
 					return err
 				}
 				continue
@@ -401,7 +402,7 @@ func parseMatrix(text, name string, comma rune, unit Unit, ids []string, mt *met
 		return nil
 	})
 	if err == errFull {
-		errs = append(errs, &ParseError{File: name, Field: "travel matrix", Msg: fmt.Sprintf("more errors follow; the first %d are listed: fix these and read again", maxErrors)})
+		errs = append(errs, &ParseError{File: name, Field: "travel matrix", Msg: fmtlite.Sprintf("more errors follow; the first %d are listed: fix these and read again", maxErrors)})
 	} else if err != nil {
 		return nil, err
 	}
@@ -430,9 +431,9 @@ func travelValue(s string, unit Unit, commaDecimal bool) (int64, string) {
 		v, msg := parseDuration(s, commaDecimal)
 		if msg != "" {
 			if strings.HasPrefix(strings.TrimSpace(s), "-") {
-				return 0, fmt.Sprintf("%q is negative; travel times must be 0 or more", s)
+				return 0, fmtlite.Sprintf("%q is negative; travel times must be 0 or more", s)
 			}
-			return 0, fmt.Sprintf("%q is not a travel time; want minutes (12 or 12.5) or H:MM", s)
+			return 0, fmtlite.Sprintf("%q is not a travel time; want minutes (12 or 12.5) or H:MM", s)
 		}
 		return v, ""
 	}
@@ -441,14 +442,14 @@ func travelValue(s string, unit Unit, commaDecimal bool) (int64, string) {
 	}
 	r, ok := parseDecimal(s, commaDecimal)
 	if !ok {
-		return 0, fmt.Sprintf("%q is not a travel time; want seconds (720 or 720.5)", s)
+		return 0, fmtlite.Sprintf("%q is not a travel time; want seconds (720 or 720.5)", s)
 	}
 	if r.Sign() < 0 {
-		return 0, fmt.Sprintf("%q is negative; travel times must be 0 or more", s)
+		return 0, fmtlite.Sprintf("%q is negative; travel times must be 0 or more", s)
 	}
 	v, ok := ratUnits(r, perSecond)
 	if !ok {
-		return 0, fmt.Sprintf("%q seconds is too large", s)
+		return 0, fmtlite.Sprintf("%q seconds is too large", s)
 	}
 	return v, ""
 }

@@ -1,14 +1,13 @@
 package format
 
 import (
-	"encoding/csv"
-	"fmt"
 	"io"
 	"math"
 	"strconv"
 	"strings"
 	"unicode/utf8"
 
+	"visitline/internal/fmtlite"
 	"visitline/internal/jsonlite"
 	"visitline/solver"
 )
@@ -200,7 +199,7 @@ var CSVHeader = []string{"order", "site", "name", "arrival", "start", "wait", "d
 // are clock times where the sites file had them; durations are in the
 // input's unit (minutes for sites files, rounded to two decimals).
 func WriteCSV(w io.Writer, in *solver.Instance, j PlanReport) error {
-	cw := csv.NewWriter(w)
+	cw := newCSVWriter(w)
 	if err := cw.Write(CSVHeader); err != nil {
 		return err
 	}
@@ -282,108 +281,6 @@ func (j PlanReport) dur(v float64) string {
 	return strconv.FormatFloat(math.Round(v*100)/100, 'f', -1, 64)
 }
 
-// WriteTable writes a plain-text table for a terminal.
-func WriteTable(w io.Writer, j PlanReport) error {
-	var b strings.Builder
-	status := "all windows met"
-	if !j.Feasible {
-		status = fmt.Sprintf("%d late, total lateness %s", len(j.Late), j.dur(j.TotalLateness))
-	}
-	unit := ""
-	if j.Unit != "" {
-		unit = " " + j.Unit
-	}
-	fmt.Fprintf(&b, "%s  objective %s  cost %s%s  (%s)\n", Printable(j.Instance), j.Objective, j.dur(j.Cost), unit, status)
-	if j.At != "" {
-		now := j.NowClock
-		if now == "" && j.Now != nil {
-			now = j.dur(*j.Now)
-		}
-		fmt.Fprintf(&b, "re-planned from %s at %s; done: %s\n", Printable(j.At), now, Printable(strings.Join(j.Done, ", ")))
-	}
-	if j.LowerBound != nil {
-		if j.ProvenOptimal {
-			fmt.Fprintf(&b, "lower bound %s: optimal\n", j.dur(*j.LowerBound))
-		} else if j.GapBoundPct != nil {
-			fmt.Fprintf(&b, "lower bound %s: at most %.2f%% above optimal\n", j.dur(*j.LowerBound), *j.GapBoundPct)
-		}
-	}
-	rows := j.Schedule
-	if j.Return != nil {
-		rows = append(append([]PlanVisit(nil), rows...), *j.Return)
-	}
-	// A dated plan on one day prints the date once, above the table.
-	times := make([][5]string, len(rows))
-	day := ""
-	for k, v := range rows {
-		times[k] = v.times(j)
-		for _, t := range times[k] {
-			if d, _, ok := strings.Cut(t, " "); ok && len(d) == 10 && d[4] == '-' && (day == "" || day == d) {
-				day = d
-			} else if t != "open" {
-				day = "-"
-			}
-		}
-	}
-	if day != "" && day != "-" {
-		fmt.Fprintf(&b, "date %s\n", day)
-		for k := range times {
-			for i, t := range times[k] {
-				times[k][i] = strings.TrimPrefix(t, day+" ")
-			}
-		}
-	}
-	names := false
-	tw := 10
-	for k, v := range rows {
-		names = names || v.Name != ""
-		for _, t := range times[k] {
-			if len(t) > tw {
-				tw = len(t)
-			}
-		}
-	}
-	fmt.Fprintf(&b, "%5s  %-12s %*s %*s %8s %*s %*s %8s", "order", "site", tw, "arrival", tw, "start", "wait", tw, "departure", 2*tw+4, "window", "slack")
-	if names {
-		b.WriteString("  name")
-	}
-	b.WriteString("\n")
-	for k, v := range rows {
-		order := strconv.Itoa(k)
-		if j.Return != nil && k == len(rows)-1 {
-			order = "back"
-		}
-		tm := times[k]
-		fmt.Fprintf(&b, "%5s  %-12s %*s %*s %8s %*s %*s %8s", order, Printable(v.ID), tw, tm[0], tw, tm[1], j.dur(v.Wait),
-			tw, tm[2], 2*tw+4, "["+tm[3]+", "+tm[4]+"]", j.durOpen(v.Slack))
-		if names {
-			b.WriteString("  " + Printable(v.Name))
-		}
-		if v.Lateness > 0 {
-			b.WriteString("  LATE by " + j.dur(v.Lateness))
-		}
-		b.WriteString("\n")
-	}
-	fmt.Fprintf(&b, "travel %s  completion %s  iterations %d  %.2fs (best at %.2fs, by %s)\n", j.dur(j.Travel),
-		completion(j), j.Iterations, j.Seconds, j.SecondsToBest, j.FoundBy)
-	if j.Reason != "" {
-		fmt.Fprintf(&b, "why: %s\n", Printable(j.Reason))
-	}
-	_, err := io.WriteString(w, b.String())
-	return err
-}
-
-// completion writes the end time as the schedule's times are written.
-func completion(j PlanReport) string {
-	if n := len(j.Schedule); n > 0 && j.Schedule[0].StartClock != "" {
-		if j.Return != nil {
-			return j.Return.ArrivalClock
-		}
-		return j.Schedule[n-1].DepartureClock
-	}
-	return j.dur(j.Completion)
-}
-
 func fnum(v float64) string {
 	return strconv.FormatFloat(v, 'f', -1, 64)
 }
@@ -414,9 +311,9 @@ func Printable(s string) string {
 		case r == '\t':
 			b.WriteString(`\t`)
 		case r < 0x80 && isControl(r):
-			fmt.Fprintf(&b, `\x%02x`, r)
+			fmtlite.Fprintf(&b, `\x%02x`, r)
 		case isControl(r):
-			fmt.Fprintf(&b, `\u%04x`, r)
+			fmtlite.Fprintf(&b, `\u%04x`, r)
 		default:
 			b.WriteRune(r)
 		}

@@ -1,7 +1,6 @@
 package format
 
 import (
-	"fmt"
 	"io"
 	"math"
 	"sort"
@@ -9,6 +8,8 @@ import (
 	"strings"
 	"time"
 	"unicode"
+
+	"visitline/internal/fmtlite"
 )
 
 // Column names a sites file may use, by field. Matching ignores case,
@@ -124,7 +125,7 @@ func acceptedNames() string {
 		if c.field != "earliest" && c.field != "latest" && c.field != "service" {
 			continue
 		}
-		parts = append(parts, fmt.Sprintf("%s (%s)", c.field, strings.Join(readableNames(c.synonyms), ", ")))
+		parts = append(parts, fmtlite.Sprintf("%s (%s)", c.field, strings.Join(readableNames(c.synonyms), ", ")))
 	}
 	return strings.Join(parts, "; ")
 }
@@ -215,7 +216,7 @@ func (s *Sites) colLabel(field string) string {
 		return field
 	}
 	if h := s.Header[c]; normHeader(h) != normHeader(field) {
-		return fmt.Sprintf("%s (column %q)", field, h)
+		return fmtlite.Sprintf("%s (column %q)", field, h)
 	}
 	return field
 }
@@ -282,13 +283,13 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 	if line, cols := firstLineColumns(text, comma); cols > maxColumns {
 		// Refused before the CSV reader splits a huge line into cells.
 		return nil, &ParseError{File: name, Line: line, Field: "header",
-			Msg: fmt.Sprintf("the first row has %d columns; a sites file has a dozen or so (at most %d). Is this a sites file, and does it have line ends?", cols, maxColumns)}
+			Msg: fmtlite.Sprintf("the first row has %d columns; a sites file has a dozen or so (at most %d). Is this a sites file, and does it have line ends?", cols, maxColumns)}
 	}
 	var recs []record
 	err := eachRecord(text, name, comma, nil, func(line int, f []string) error {
 		if len(recs) == 0 && len(f) > maxColumns {
 			return &ParseError{File: name, Line: line, Field: "header",
-				Msg: fmt.Sprintf("the first row has %d columns; a sites file has a dozen or so (at most %d). Is this a sites file, and does it have line ends?", len(f), maxColumns)}
+				Msg: fmtlite.Sprintf("the first row has %d columns; a sites file has a dozen or so (at most %d). Is this a sites file, and does it have line ends?", len(f), maxColumns)}
 		}
 		recs = append(recs, record{line: line, fields: append([]string(nil), f...)})
 		return nil
@@ -304,7 +305,7 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 	hl := recs[0].line
 	if len(recs[0].fields) > maxColumns {
 		return nil, &ParseError{File: name, Line: hl, Field: "header",
-			Msg: fmt.Sprintf("the first row has %d columns; a sites file has a dozen or so (at most %d). Is this a sites file, and does it have line ends?", len(recs[0].fields), maxColumns)}
+			Msg: fmtlite.Sprintf("the first row has %d columns; a sites file has a dozen or so (at most %d). Is this a sites file, and does it have line ends?", len(recs[0].fields), maxColumns)}
 	}
 	ignored := 0
 	for c, h := range recs[0].fields {
@@ -315,28 +316,28 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 			}
 			if looksLikeWindow(h) {
 				return nil, &ParseError{File: name, Line: hl, Column: c + 1, Field: "header",
-					Msg: fmt.Sprintf("column %s looks like a time window or service time, but it is not a name Visitline reads, and planning without it would be wrong; rename it to one of: %s", clipQ(h), acceptedNames())}
+					Msg: fmtlite.Sprintf("column %s looks like a time window or service time, but it is not a name Visitline reads, and planning without it would be wrong; rename it to one of: %s", clipQ(h), acceptedNames())}
 			}
 			ignored++
 			if ignored <= maxColumnWarnings {
 				s.Warnings = append(s.Warnings, Warning{File: name, Line: hl, Column: c + 1, Field: "header",
-					Msg: fmt.Sprintf("column %s is not one Visitline reads; it is ignored (see the README for the column names)", clipQ(h))})
+					Msg: fmtlite.Sprintf("column %s is not one Visitline reads; it is ignored (see the README for the column names)", clipQ(h))})
 			}
 			continue
 		}
 		if prev, dup := s.Columns[f]; dup {
 			return nil, &ParseError{File: name, Line: hl, Column: c + 1, Field: "header",
-				Msg: fmt.Sprintf("columns %s and %s both give the %s; keep one", clipQ(recs[0].fields[prev]), clipQ(h), f)}
+				Msg: fmtlite.Sprintf("columns %s and %s both give the %s; keep one", clipQ(recs[0].fields[prev]), clipQ(h), f)}
 		}
 		s.Columns[f] = c
 	}
 	if ignored > maxColumnWarnings {
 		s.Warnings = append(s.Warnings, Warning{File: name, Line: hl, Field: "header",
-			Msg: fmt.Sprintf("%d more columns are not ones Visitline reads; they are ignored", ignored-maxColumnWarnings)})
+			Msg: fmtlite.Sprintf("%d more columns are not ones Visitline reads; they are ignored", ignored-maxColumnWarnings)})
 	}
 	if len(s.Columns) == 0 {
 		return nil, &ParseError{File: name, Line: hl, Field: "header",
-			Msg: fmt.Sprintf("the first row %s names no known column; want a header row such as id,name,earliest,latest,service", clipQ(strings.Join(recs[0].fields, string(comma))))}
+			Msg: fmtlite.Sprintf("the first row %s names no known column; want a header row such as id,name,earliest,latest,service", clipQ(strings.Join(recs[0].fields, string(comma))))}
 	}
 	if !s.Has("id") {
 		if !s.Has("name") {
@@ -348,7 +349,7 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 	for _, pair := range [][2]string{{"x", "y"}, {"y", "x"}, {"lat", "lon"}, {"lon", "lat"}} {
 		if s.Has(pair[0]) && !s.Has(pair[1]) {
 			return nil, &ParseError{File: name, Line: hl, Column: s.Columns[pair[0]] + 1, Field: "header",
-				Msg: fmt.Sprintf("a %s column needs a %s column beside it", pair[0], pair[1])}
+				Msg: fmtlite.Sprintf("a %s column needs a %s column beside it", pair[0], pair[1])}
 		}
 	}
 	if s.Has("lat") && s.Has("x") {
@@ -361,7 +362,7 @@ func parseSites(text, name string, comma rune) (*Sites, error) {
 	}
 	if len(rows) > MaxSites {
 		return nil, &ParseError{File: name, Line: rows[MaxSites].line, Field: "sites",
-			Msg: fmt.Sprintf("more than %d sites; this reader accepts at most %d (see Size limits in the README)", MaxSites, MaxSites)}
+			Msg: fmtlite.Sprintf("more than %d sites; this reader accepts at most %d (see Size limits in the README)", MaxSites, MaxSites)}
 	}
 	commaDecimal := comma != ','
 	width := len(s.Header)
@@ -410,7 +411,7 @@ rowLoop:
 		}
 		for c := width; c < len(r.fields); c++ {
 			if r.fields[c] != "" {
-				if rowErr(c+1, "row", fmt.Sprintf("%d fields but the header names %d columns; quote fields that hold the delimiter %q", len(r.fields), width, string(comma))) {
+				if rowErr(c+1, "row", fmtlite.Sprintf("%d fields but the header names %d columns; quote fields that hold the delimiter %q", len(r.fields), width, string(comma))) {
 					break rowLoop
 				}
 				break
@@ -424,11 +425,11 @@ rowLoop:
 			var missing []string
 			for _, rc := range readCols {
 				if rc.col >= len(r.fields) {
-					missing = append(missing, fmt.Sprintf("%s (column %d)", s.colLabel(rc.field), rc.col+1))
+					missing = append(missing, fmtlite.Sprintf("%s (column %d)", s.colLabel(rc.field), rc.col+1))
 				}
 			}
 			if len(missing) > 0 {
-				if rowErr(len(r.fields)+1, "row", fmt.Sprintf("%d fields but the header names %d columns; missing %s. Give every column (an empty cell is fine: empty means no bound, or no service)", len(r.fields), width, strings.Join(missing, ", "))) {
+				if rowErr(len(r.fields)+1, "row", fmtlite.Sprintf("%d fields but the header names %d columns; missing %s. Give every column (an empty cell is fine: empty means no bound, or no service)", len(r.fields), width, strings.Join(missing, ", "))) {
 					break rowLoop
 				}
 			}
@@ -439,7 +440,7 @@ rowLoop:
 				break rowLoop
 			}
 		} else if prev, dup := byID[id]; dup {
-			if rowErr(col, s.colLabel("id"), fmt.Sprintf("%s is used twice (first on line %d); ids must be unique", clipQ(id), s.Sites[prev].Line)) {
+			if rowErr(col, s.colLabel("id"), fmtlite.Sprintf("%s is used twice (first on line %d); ids must be unique", clipQ(id), s.Sites[prev].Line)) {
 				break rowLoop
 			}
 		} else {
@@ -516,7 +517,7 @@ rowLoop:
 		s.Sites = append(s.Sites, site)
 	}
 	if len(errs) >= maxErrors {
-		errs = append(errs, &ParseError{File: name, Field: "sites", Msg: fmt.Sprintf("more errors follow; the first %d are listed: fix these and read again", maxErrors)})
+		errs = append(errs, &ParseError{File: name, Field: "sites", Msg: fmtlite.Sprintf("more errors follow; the first %d are listed: fix these and read again", maxErrors)})
 		return nil, errs
 	}
 	if s.Time.Mode == Dated {
@@ -556,7 +557,7 @@ rowLoop:
 				hint = "; a window past midnight needs dates (2026-12-01 23:30)"
 			}
 			errs = append(errs, &ParseError{File: name, Line: line, Column: col, Field: s.colLabel("latest"),
-				Msg: fmt.Sprintf("%s is before the earliest %s; want latest at or after earliest%s", s.Time.Format(st.Latest), s.Time.Format(st.Earliest), hint)})
+				Msg: fmtlite.Sprintf("%s is before the earliest %s; want latest at or after earliest%s", s.Time.Format(st.Latest), s.Time.Format(st.Earliest), hint)})
 		}
 	}
 	if len(errs) > 0 {
@@ -596,7 +597,7 @@ type timeCell struct {
 
 func mixMessage(t string, mode TimeMode, first timeCell, fileMode TimeMode) string {
 	what := map[TimeMode]string{Minutes: "plain minutes", Clock: "clock times without a date", Dated: "dates with clock times"}
-	return fmt.Sprintf("%q is written as %s, but line %d has %q (%s); write every time in the file the same way",
+	return fmtlite.Sprintf("%q is written as %s, but line %d has %q (%s); write every time in the file the same way",
 		t, what[mode], first.line, first.text, what[fileMode])
 }
 
@@ -619,22 +620,22 @@ func readPair(r record, s *Sites, fa, fb string, commaDecimal bool, limit float6
 		return 0, 0, false, nil
 	}
 	if ta == "" {
-		return 0, 0, false, &cellErr{r.line, ca, s.colLabel(fa), fmt.Sprintf("missing while %s is given; give both or neither", fb)}
+		return 0, 0, false, &cellErr{r.line, ca, s.colLabel(fa), fmtlite.Sprintf("missing while %s is given; give both or neither", fb)}
 	}
 	if tb == "" {
-		return 0, 0, false, &cellErr{r.line, cb, s.colLabel(fb), fmt.Sprintf("missing while %s is given; give both or neither", fa)}
+		return 0, 0, false, &cellErr{r.line, cb, s.colLabel(fb), fmtlite.Sprintf("missing while %s is given; give both or neither", fa)}
 	}
 	num := func(t string, f string, col int, lim float64) (float64, *cellErr) {
 		rat, ok := parseDecimal(t, commaDecimal)
 		if !ok {
-			return 0, &cellErr{r.line, col, s.colLabel(f), fmt.Sprintf("%q is not a number; want a decimal number such as 12.5", t)}
+			return 0, &cellErr{r.line, col, s.colLabel(f), fmtlite.Sprintf("%q is not a number; want a decimal number such as 12.5", t)}
 		}
 		v := rat.Float64()
 		if math.Abs(v) > lim {
-			return 0, &cellErr{r.line, col, s.colLabel(f), fmt.Sprintf("%q is out of range; want -%g to %g in decimal degrees", t, lim, lim)}
+			return 0, &cellErr{r.line, col, s.colLabel(f), fmtlite.Sprintf("%q is out of range; want -%g to %g in decimal degrees", t, lim, lim)}
 		}
 		if math.Abs(v) > 1e9 {
-			return 0, &cellErr{r.line, col, s.colLabel(f), fmt.Sprintf("%q is too large for a coordinate", t)}
+			return 0, &cellErr{r.line, col, s.colLabel(f), fmtlite.Sprintf("%q is too large for a coordinate", t)}
 		}
 		return v, nil
 	}
@@ -662,10 +663,10 @@ func parsePin(t string) (Pin, string) {
 	}
 	n, err := strconv.Atoi(t)
 	if err != nil || n < 1 {
-		return Pin{}, fmt.Sprintf("%q: want first, last, or the visit number (1 for the first visit after the start)", t)
+		return Pin{}, fmtlite.Sprintf("%q: want first, last, or the visit number (1 for the first visit after the start)", t)
 	}
 	if n > MaxSites {
-		return Pin{}, fmt.Sprintf("%q is larger than any route can be", t)
+		return Pin{}, fmtlite.Sprintf("%q is larger than any route can be", t)
 	}
 	return Pin{Kind: "number", N: n}, ""
 }

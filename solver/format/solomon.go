@@ -1,12 +1,12 @@
 package format
 
 import (
-	"fmt"
 	"io"
 	"math"
 	"strconv"
 	"strings"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver/fleet"
 )
 
@@ -86,34 +86,34 @@ func ReadSolomon(r io.Reader, name string) (*fleet.Problem, error) {
 	}
 	p := &fleet.Problem{Name: lines[0].text, Scale: SolomonScale}
 	if !strings.EqualFold(lines[1].text, "VEHICLE") {
-		return nil, perr(lines[1].n, 1, "VEHICLE", fmt.Sprintf("%q: want the line VEHICLE after the name", lines[1].text))
+		return nil, perr(lines[1].n, 1, "VEHICLE", fmtlite.Sprintf("%q: want the line VEHICLE after the name", lines[1].text))
 	}
 	if err := need(2, "NUMBER CAPACITY"); err != nil {
 		return nil, err
 	}
 	if h := strings.Fields(strings.ToUpper(lines[2].text)); len(h) != 2 || h[0] != "NUMBER" || h[1] != "CAPACITY" {
-		return nil, perr(lines[2].n, 1, "NUMBER CAPACITY", fmt.Sprintf("%q: want the header NUMBER CAPACITY", lines[2].text))
+		return nil, perr(lines[2].n, 1, "NUMBER CAPACITY", fmtlite.Sprintf("%q: want the header NUMBER CAPACITY", lines[2].text))
 	}
 	if err := need(3, "number of vehicles"); err != nil {
 		return nil, err
 	}
 	vf := strings.Fields(lines[3].text)
 	if len(vf) != 2 {
-		return nil, perr(lines[3].n, 1, "number of vehicles", fmt.Sprintf("%q: want two whole numbers, the number of vehicles and the capacity of each", lines[3].text))
+		return nil, perr(lines[3].n, 1, "number of vehicles", fmtlite.Sprintf("%q: want two whole numbers, the number of vehicles and the capacity of each", lines[3].text))
 	}
 	count, err := strconv.Atoi(vf[0])
 	if err != nil || count < 1 || count > MaxNodes {
-		return nil, perr(lines[3].n, 1, "number of vehicles", fmt.Sprintf("%q: want a whole number from 1 to %d", vf[0], MaxNodes))
+		return nil, perr(lines[3].n, 1, "number of vehicles", fmtlite.Sprintf("%q: want a whole number from 1 to %d", vf[0], MaxNodes))
 	}
 	capacity, err := strconv.ParseInt(vf[1], 10, 64)
 	if err != nil || capacity < 0 || capacity > solverHorizonUnits {
-		return nil, perr(lines[3].n, 2, "capacity", fmt.Sprintf("%q: want a whole number of 0 or more", vf[1]))
+		return nil, perr(lines[3].n, 2, "capacity", fmtlite.Sprintf("%q: want a whole number of 0 or more", vf[1]))
 	}
 	if err := need(4, "CUSTOMER"); err != nil {
 		return nil, err
 	}
 	if !strings.EqualFold(lines[4].text, "CUSTOMER") {
-		return nil, perr(lines[4].n, 1, "CUSTOMER", fmt.Sprintf("%q: want the line CUSTOMER before the table of nodes", lines[4].text))
+		return nil, perr(lines[4].n, 1, "CUSTOMER", fmtlite.Sprintf("%q: want the line CUSTOMER before the table of nodes", lines[4].text))
 	}
 	if err := need(5, "CUSTOMER header"); err != nil {
 		return nil, err
@@ -127,7 +127,7 @@ func ReadSolomon(r io.Reader, name string) (*fleet.Problem, error) {
 		return nil, perr(lastLine, 0, "customer number", "no nodes after the CUSTOMER header; want one line per node, the depot first")
 	}
 	if len(rows) > MaxNodes {
-		return nil, perr(rows[MaxNodes].n, 0, "customer number", fmt.Sprintf("more than %d nodes", MaxNodes))
+		return nil, perr(rows[MaxNodes].n, 0, "customer number", fmtlite.Sprintf("more than %d nodes", MaxNodes))
 	}
 	n := len(rows)
 	p.N = n
@@ -137,24 +137,24 @@ func ReadSolomon(r io.Reader, name string) (*fleet.Problem, error) {
 	for k, row := range rows {
 		f := strings.Fields(row.text)
 		if len(f) != len(solomonColumns) {
-			return nil, perr(row.n, 0, "customer", fmt.Sprintf("%d fields, want 7: number, x, y, demand, ready time, due date, service time", len(f)))
+			return nil, perr(row.n, 0, "customer", fmtlite.Sprintf("%d fields, want 7: number, x, y, demand, ready time, due date, service time", len(f)))
 		}
 		num, err := strconv.Atoi(f[0])
 		if err != nil || num != k {
-			return nil, perr(row.n, 1, "customer number", fmt.Sprintf("%q: want %d (the depot is 0, the customers 1, 2, ... in order)", f[0], k))
+			return nil, perr(row.n, 1, "customer number", fmtlite.Sprintf("%q: want %d (the depot is 0, the customers 1, 2, ... in order)", f[0], k))
 		}
 		p.IDs[k] = f[0]
 		for c := 1; c <= 2; c++ {
 			v, ok := parseDecimal(f[c], false)
 			if !ok {
-				return nil, perr(row.n, c+1, solomonColumns[c], fmt.Sprintf("%q is not a number", f[c]))
+				return nil, perr(row.n, c+1, solomonColumns[c], fmtlite.Sprintf("%q is not a number", f[c]))
 			}
 			if math.Abs(v.Float64()) > 1e9 {
-				return nil, perr(row.n, c+1, solomonColumns[c], fmt.Sprintf("%q is too large for a coordinate", f[c]))
+				return nil, perr(row.n, c+1, solomonColumns[c], fmtlite.Sprintf("%q is too large for a coordinate", f[c]))
 			}
 			cv, ok := coordOf(v)
 			if !ok {
-				return nil, perr(row.n, c+1, solomonColumns[c], fmt.Sprintf("%q has more than %d decimals; want at most %d (distances are worked exactly at that precision)", f[c], maxCoordDecimals, maxCoordDecimals))
+				return nil, perr(row.n, c+1, solomonColumns[c], fmtlite.Sprintf("%q has more than %d decimals; want at most %d (distances are worked exactly at that precision)", f[c], maxCoordDecimals, maxCoordDecimals))
 			}
 			if c == 1 {
 				xs[k] = cv
@@ -166,17 +166,17 @@ func ReadSolomon(r io.Reader, name string) (*fleet.Problem, error) {
 		for c := 3; c <= 6; c++ {
 			v, err := parseFixed(f[c], 6)
 			if err != nil || v < 0 || v > solverHorizonUnits {
-				return nil, perr(row.n, c+1, solomonColumns[c], fmt.Sprintf("%q: want a number of 0 or more (at most 6 decimals)", f[c]))
+				return nil, perr(row.n, c+1, solomonColumns[c], fmtlite.Sprintf("%q: want a number of 0 or more (at most 6 decimals)", f[c]))
 			}
 			vals[c-3] = v
 		}
 		if vals[0]%SolomonScale != 0 {
-			return nil, perr(row.n, 4, "demand", fmt.Sprintf("%q: want a whole number", f[3]))
+			return nil, perr(row.n, 4, "demand", fmtlite.Sprintf("%q: want a whole number", f[3]))
 		}
 		p.Demand[k] = vals[0] / SolomonScale
 		p.Early[k], p.Late[k], p.Service[k] = vals[1], vals[2], vals[3]
 		if p.Late[k] < p.Early[k] {
-			return nil, perr(row.n, 6, "due date", fmt.Sprintf("%s is before the ready time %s; want a due date at or after it", f[5], f[4]))
+			return nil, perr(row.n, 6, "due date", fmtlite.Sprintf("%s is before the ready time %s; want a due date at or after it", f[5], f[4]))
 		}
 		if k == 0 && p.Demand[0] != 0 {
 			return nil, perr(row.n, 4, "demand", "the depot (node 0) has a demand; want 0")

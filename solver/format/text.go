@@ -1,14 +1,14 @@
 package format
 
 import (
-	"encoding/csv"
 	"errors"
-	"fmt"
 	"io"
 	"io/fs"
 	"strings"
 	"unicode/utf16"
 	"unicode/utf8"
+
+	"visitline/internal/fmtlite"
 )
 
 // MaxInputBytes bounds what a text reader takes in, so that a wrong file
@@ -45,7 +45,7 @@ func readText(r io.Reader, name string) (string, error) {
 		return "", &ParseError{File: name, Msg: "cannot read: " + err.Error(), Err: err}
 	}
 	if b.Len() > maxInput {
-		return "", &ParseError{File: name, Msg: fmt.Sprintf("input is larger than %d MiB, the most a sites file or travel matrix may be (see Size limits in the README)", MaxInputBytes>>20)}
+		return "", &ParseError{File: name, Msg: fmtlite.Sprintf("input is larger than %d MiB, the most a sites file or travel matrix may be (see Size limits in the README)", MaxInputBytes>>20)}
 	}
 	text := b.String()
 	switch {
@@ -89,7 +89,7 @@ var cp1252 = [32]rune{'€', 0, '‚', 'ƒ', '„', '…', '†', '‡', 'ˆ', '
 // around it as Windows-1252 would read it when that makes sense.
 func notUTF8(text string, i int) string {
 	c := text[i]
-	msg := fmt.Sprintf("byte 0x%02X is not UTF-8", c)
+	msg := fmtlite.Sprintf("byte 0x%02X is not UTF-8", c)
 	if c >= 0x80 && (c >= 0xA0 || cp1252[c-0x80] != 0) {
 		from, to := i, i+1
 		for from > 0 && i-from < 20 && text[from-1] != '\n' && text[from-1] != ',' && text[from-1] != ';' && text[from-1] != '\t' {
@@ -111,7 +111,7 @@ func notUTF8(text string, i int) string {
 				w.WriteRune(rune(b))
 			}
 		}
-		msg += fmt.Sprintf(": the file looks like Windows-1252 or Latin-1 text (read that way, it says %s)", clipQ(w.String()))
+		msg += fmtlite.Sprintf(": the file looks like Windows-1252 or Latin-1 text (read that way, it says %s)", clipQ(w.String()))
 	}
 	return msg + "; save the file as UTF-8 (in a spreadsheet: CSV UTF-8) and read it again"
 }
@@ -249,32 +249,26 @@ func eachRecord(text, name string, comma rune, p *pass, fn func(line int, fields
 		}
 		return nil
 	}
-	sr := strings.NewReader(text)
-	cr := csv.NewReader(sr)
-	cr.Comma = comma
-	cr.Comment = '#'
-	cr.FieldsPerRecord = -1
-	// A tab is white space to encoding/csv: trimming leading space there
-	// would swallow an empty cell between two tabs and shift the columns.
-	cr.TrimLeadingSpace = comma != '\t'
-	cr.ReuseRecord = true
+	// A tab is white space: trimming leading space there would swallow an
+	// empty cell between two tabs and shift the columns.
+	cr := &csvReader{text: text, comma: comma, comment: '#', trim: comma != '\t'}
 	for {
 		rec, err := cr.Read()
 		if err == io.EOF {
 			return p.end(text)
 		}
-		if e := p.at(int64(len(text) - sr.Len())); e != nil {
+		if e := p.at(int64(cr.pos)); e != nil {
 			return e
 		}
 		if err != nil {
-			var pe *csv.ParseError
+			var pe *csvError
 			if errors.As(err, &pe) {
 				return &ParseError{File: name, Line: pe.Line, Field: "quoting",
-					Msg: csvMessage(pe) + fmt.Sprintf(" (near character %d)", pe.Column), Err: err}
+					Msg: csvMessage(pe) + fmtlite.Sprintf(" (near character %d)", pe.Column), Err: err}
 			}
 			return &ParseError{File: name, Msg: "cannot read: " + err.Error(), Err: err}
 		}
-		line, _ := cr.FieldPos(0)
+		line := cr.Line()
 		empty := true
 		for i := range rec {
 			rec[i] = strings.TrimSpace(rec[i])
@@ -291,12 +285,12 @@ func eachRecord(text, name string, comma rune, p *pass, fn func(line int, fields
 	}
 }
 
-func csvMessage(pe *csv.ParseError) string {
+func csvMessage(pe *csvError) string {
 	switch {
-	case errors.Is(pe.Err, csv.ErrBareQuote):
+	case errors.Is(pe.Err, errBareQuote):
 		return `a double quote inside a field that does not start with one; put the whole field in double quotes and double the inner quote ("Café ""Le Coin""")`
-	case errors.Is(pe.Err, csv.ErrQuote):
-		return fmt.Sprintf("a quoted field that starts on line %d is not closed, or a quote is followed by text; end the field with a double quote", pe.StartLine)
+	case errors.Is(pe.Err, errQuote):
+		return fmtlite.Sprintf("a quoted field that starts on line %d is not closed, or a quote is followed by text; end the field with a double quote", pe.StartLine)
 	}
 	return pe.Err.Error()
 }

@@ -1,12 +1,12 @@
 package format
 
 import (
-	"fmt"
 	"math"
 	"strconv"
 	"strings"
 	"time"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 )
 
@@ -72,33 +72,33 @@ func parseClock(s string) (stamp, string) {
 	if len(t) >= 10 && t[4] == '-' && t[7] == '-' {
 		d, err := time.Parse("2006-01-02", t[:10])
 		if err != nil {
-			return st, fmt.Sprintf("%q has no valid date; want YYYY-MM-DD HH:MM, e.g. 2026-12-01 08:30", s)
+			return st, fmtlite.Sprintf("%q has no valid date; want YYYY-MM-DD HH:MM, e.g. 2026-12-01 08:30", s)
 		}
 		st.dated, st.day = true, d.Unix()/86400
 		t = t[10:]
 		if t == "" {
-			return st, fmt.Sprintf("%q is a date without a time; want YYYY-MM-DD HH:MM, e.g. %s 08:30", s, s)
+			return st, fmtlite.Sprintf("%q is a date without a time; want YYYY-MM-DD HH:MM, e.g. %s 08:30", s, s)
 		}
 		if t[0] != ' ' && t[0] != 'T' {
-			return st, fmt.Sprintf("%q: want a space or T between the date and the time, e.g. 2026-12-01 08:30", s)
+			return st, fmtlite.Sprintf("%q: want a space or T between the date and the time, e.g. 2026-12-01 08:30", s)
 		}
 		t = strings.TrimSpace(t[1:])
 	} else if strings.Count(t, "/") == 2 || strings.Count(t, ".") == 2 {
-		return st, fmt.Sprintf("%q: write dates as YYYY-MM-DD (ISO 8601), e.g. 2026-12-01 08:30", s)
+		return st, fmtlite.Sprintf("%q: write dates as YYYY-MM-DD (ISO 8601), e.g. 2026-12-01 08:30", s)
 	}
 	low := strings.ToLower(t)
 	if strings.HasSuffix(low, "am") || strings.HasSuffix(low, "pm") {
-		return st, fmt.Sprintf("%q: write times on the 24-hour clock, e.g. 14:30 for 2:30 pm", s)
+		return st, fmtlite.Sprintf("%q: write times on the 24-hour clock, e.g. 14:30 for 2:30 pm", s)
 	}
 	if strings.HasSuffix(t, "Z") || strings.LastIndexAny(t, "+-") > 0 {
-		return st, fmt.Sprintf("%q: write local time without a zone or offset, e.g. 08:30", s)
+		return st, fmtlite.Sprintf("%q: write local time without a zone or offset, e.g. 08:30", s)
 	}
 	h, m, sec, ok := splitHMS(t)
 	if !ok {
-		return st, fmt.Sprintf("%q is not a clock time; want HH:MM on the 24-hour clock, e.g. 08:30", s)
+		return st, fmtlite.Sprintf("%q is not a clock time; want HH:MM on the 24-hour clock, e.g. 08:30", s)
 	}
 	if h > 24 || m > 59 || sec > 59 || h == 24 && (m > 0 || sec > 0) {
-		return st, fmt.Sprintf("%q is not a time of day; want 00:00 to 23:59 (or 24:00 for the end of the day)", s)
+		return st, fmtlite.Sprintf("%q is not a time of day; want 00:00 to 23:59 (or 24:00 for the end of the day)", s)
 	}
 	st.sec = h*3600 + m*60 + sec
 	return st, ""
@@ -139,7 +139,7 @@ func parseDuration(s string, commaDecimal bool) (int64, string) {
 	if strings.Contains(s, ":") {
 		h, m, sec, ok := splitHMS(s)
 		if !ok || m > 59 || sec > 59 {
-			return 0, fmt.Sprintf("%q is not a duration; want minutes (15 or 7.5) or hours and minutes H:MM (1:30)", s)
+			return 0, fmtlite.Sprintf("%q is not a duration; want minutes (15 or 7.5) or hours and minutes H:MM (1:30)", s)
 		}
 		return (h*3600 + m*60 + sec) * perSecond, ""
 	}
@@ -148,14 +148,14 @@ func parseDuration(s string, commaDecimal bool) (int64, string) {
 	}
 	r, ok := parseDecimal(s, commaDecimal)
 	if !ok {
-		return 0, fmt.Sprintf("%q is not a duration; want minutes (15 or 7.5) or hours and minutes H:MM (1:30)", s)
+		return 0, fmtlite.Sprintf("%q is not a duration; want minutes (15 or 7.5) or hours and minutes H:MM (1:30)", s)
 	}
 	if r.Sign() < 0 {
-		return 0, fmt.Sprintf("%q is negative; want a duration of 0 or more minutes", s)
+		return 0, fmtlite.Sprintf("%q is negative; want a duration of 0 or more minutes", s)
 	}
 	v, ok := ratUnits(r, SitesScale)
 	if !ok {
-		return 0, fmt.Sprintf("%q minutes is too large", s)
+		return 0, fmtlite.Sprintf("%q minutes is too large", s)
 	}
 	return v, ""
 }
@@ -171,14 +171,14 @@ func parseMinutesTime(s string, commaDecimal bool) (int64, string) {
 			_, msg := parseClock(s)
 			return 0, msg
 		}
-		return 0, fmt.Sprintf("%s is not a time; want a clock time such as 08:00 (or 2026-12-01 08:00), or minutes from the day's reference (0, 90, 612.5)", clipQ(s))
+		return 0, fmtlite.Sprintf("%s is not a time; want a clock time such as 08:00 (or 2026-12-01 08:00), or minutes from the day's reference (0, 90, 612.5)", clipQ(s))
 	}
 	if r.Sign() < 0 {
-		return 0, fmt.Sprintf("%s is negative; want minutes from the reference, 0 or more", clipQ(s))
+		return 0, fmtlite.Sprintf("%s is negative; want minutes from the reference, 0 or more", clipQ(s))
 	}
 	v, ok := ratUnits(r, SitesScale)
 	if !ok {
-		return 0, fmt.Sprintf("%q minutes is too large", s)
+		return 0, fmtlite.Sprintf("%q minutes is too large", s)
 	}
 	return v, ""
 }
@@ -206,17 +206,17 @@ func (tb TimeBase) Parse(s string) (int64, error) {
 	s = strings.TrimSpace(s)
 	if tb.Mode == Minutes {
 		if strings.Contains(s, ":") {
-			return 0, fmt.Errorf("%q is a clock time, but the sites file gives times as minutes from a reference; give minutes", s)
+			return 0, fmtlite.Errorf("%q is a clock time, but the sites file gives times as minutes from a reference; give minutes", s)
 		}
 		v, msg := parseMinutesTime(s, true)
 		if msg != "" {
-			return 0, fmt.Errorf("%s", msg)
+			return 0, fmtlite.Errorf("%s", msg)
 		}
 		return v, nil
 	}
 	st, msg := parseClock(s)
 	if msg != "" {
-		return 0, fmt.Errorf("%s", msg)
+		return 0, fmtlite.Errorf("%s", msg)
 	}
 	origin := int64(0)
 	if tb.Mode == Dated {
@@ -225,11 +225,11 @@ func (tb TimeBase) Parse(s string) (int64, error) {
 			st.day = origin
 		}
 	} else if st.dated {
-		return 0, fmt.Errorf("%q has a date, but the sites file's times have none; give the clock time alone, e.g. 11:20", s)
+		return 0, fmtlite.Errorf("%q has a date, but the sites file's times have none; give the clock time alone, e.g. 11:20", s)
 	}
 	v := st.units(origin)
 	if v < 0 {
-		return 0, fmt.Errorf("%q is before the first day of the sites file (%s)", s, tb.Origin.Format("2006-01-02"))
+		return 0, fmtlite.Errorf("%q is before the first day of the sites file (%s)", s, tb.Origin.Format("2006-01-02"))
 	}
 	return v, nil
 }
@@ -247,15 +247,15 @@ func (tb TimeBase) Format(v int64) string {
 	}
 	sec := (v + perSecond/2) / perSecond
 	days, rest := sec/86400, sec%86400
-	clock := fmt.Sprintf("%02d:%02d", rest/3600, rest/60%60)
+	clock := fmtlite.Sprintf("%02d:%02d", rest/3600, rest/60%60)
 	if rest%60 != 0 {
-		clock += fmt.Sprintf(":%02d", rest%60)
+		clock += fmtlite.Sprintf(":%02d", rest%60)
 	}
 	if tb.Mode == Dated {
 		return tb.Origin.AddDate(0, 0, int(days)).Format("2006-01-02") + " " + clock
 	}
 	if days > 0 {
-		clock += fmt.Sprintf(" +%dd", days)
+		clock += fmtlite.Sprintf(" +%dd", days)
 	}
 	return clock
 }

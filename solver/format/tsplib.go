@@ -2,12 +2,12 @@ package format
 
 import (
 	"bufio"
-	"fmt"
 	"io"
 	"math"
 	"strconv"
 	"strings"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 )
 
@@ -102,7 +102,7 @@ func ReadTSPLIB(r io.Reader, name string) (*solver.Instance, error) {
 	sc.Buffer(make([]byte, 64*1024), 64*1024*1024)
 	tr := &tokenReader{sc: sc, file: name}
 	perr := func(line, col int, field, format string, a ...any) error {
-		return &ParseError{File: name, Line: line, Column: col, Field: field, Msg: fmt.Sprintf(format, a...)}
+		return &ParseError{File: name, Line: line, Column: col, Field: field, Msg: fmtlite.Sprintf(format, a...)}
 	}
 	var f tsplibFile
 	var coords [][3]float64
@@ -268,7 +268,7 @@ func firstField(s string) string {
 func sectionEnd(tr *tokenReader, name, section string) error {
 	if tr.next < len(tr.fields) {
 		return &ParseError{File: name, Line: tr.line, Column: tr.next + 1, Field: section,
-			Msg: fmt.Sprintf("unexpected %q after the section's last number", tr.fields[tr.next])}
+			Msg: fmtlite.Sprintf("unexpected %q after the section's last number", tr.fields[tr.next])}
 	}
 	return nil
 }
@@ -290,28 +290,28 @@ func readCoords(tr *tokenReader, n, dims int, name string) ([][3]float64, error)
 		idx, ok := tr.token()
 		if !ok {
 			return nil, &ParseError{File: name, Line: tr.line + 1, Field: "NODE_COORD_SECTION",
-				Msg: fmt.Sprintf("file ends after %d of %d nodes", k, n)}
+				Msg: fmtlite.Sprintf("file ends after %d of %d nodes", k, n)}
 		}
 		i, err := strconv.Atoi(idx.text)
 		if err != nil || i < 1 || i > n {
 			return nil, &ParseError{File: name, Line: idx.line, Column: idx.col, Field: "node number",
-				Msg: fmt.Sprintf("%q is not a node number from 1 to %d", idx.text, n)}
+				Msg: fmtlite.Sprintf("%q is not a node number from 1 to %d", idx.text, n)}
 		}
 		if seen[i-1] {
 			return nil, &ParseError{File: name, Line: idx.line, Column: idx.col, Field: "node number",
-				Msg: fmt.Sprintf("node %d is given twice", i)}
+				Msg: fmtlite.Sprintf("node %d is given twice", i)}
 		}
 		seen[i-1] = true
 		for d := 0; d < dims; d++ {
 			c, ok := tr.token()
 			if !ok || c.line != idx.line {
 				return nil, &ParseError{File: name, Line: idx.line, Field: "coordinates",
-					Msg: fmt.Sprintf("node %d has %d coordinates, want %d on its line", i, d, dims)}
+					Msg: fmtlite.Sprintf("node %d has %d coordinates, want %d on its line", i, d, dims)}
 			}
 			v, err := strconv.ParseFloat(c.text, 64)
 			if err != nil || math.IsNaN(v) || math.IsInf(v, 0) || math.Abs(v) > 1e12 {
 				return nil, &ParseError{File: name, Line: c.line, Column: c.col, Field: "coordinates",
-					Msg: fmt.Sprintf("%q is not a number", c.text)}
+					Msg: fmtlite.Sprintf("%q is not a number", c.text)}
 			}
 			coords[i-1][d] = v
 		}
@@ -349,25 +349,25 @@ func readWeights(tr *tokenReader, n int, format, name string) ([]int64, error) {
 		t, ok := tr.token()
 		if !ok {
 			return 0, &ParseError{File: name, Line: tr.line + 1, Field: "EDGE_WEIGHT_SECTION",
-				Msg: fmt.Sprintf("file ends early, at row %d column %d of the %s matrix of %d nodes", i+1, j+1, format, n)}
+				Msg: fmtlite.Sprintf("file ends early, at row %d column %d of the %s matrix of %d nodes", i+1, j+1, format, n)}
 		}
-		field := fmt.Sprintf("travel row %d column %d", i+1, j+1)
+		field := fmtlite.Sprintf("travel row %d column %d", i+1, j+1)
 		v, err := strconv.ParseInt(t.text, 10, 64)
 		if err != nil {
 			f, ferr := strconv.ParseFloat(t.text, 64)
 			if ferr != nil || f != math.Trunc(f) || math.Abs(f) > 1e15 {
 				return 0, &ParseError{File: name, Line: t.line, Column: t.col, Field: field,
-					Msg: fmt.Sprintf("%q is not a whole number; TSPLIB edge weights are integers", t.text)}
+					Msg: fmtlite.Sprintf("%q is not a whole number; TSPLIB edge weights are integers", t.text)}
 			}
 			v = int64(f)
 		}
 		if v < 0 && i != j {
 			return 0, &ParseError{File: name, Line: t.line, Column: t.col, Field: field,
-				Msg: fmt.Sprintf("%q is negative; travel must be 0 or more", t.text)}
+				Msg: fmtlite.Sprintf("%q is negative; travel must be 0 or more", t.text)}
 		}
 		if v > solver.Horizon && i != j {
 			return 0, &ParseError{File: name, Line: t.line, Column: t.col, Field: field,
-				Msg: fmt.Sprintf("%q is too large (at most %d)", t.text, solver.Horizon)}
+				Msg: fmtlite.Sprintf("%q is too large (at most %d)", t.text, solver.Horizon)}
 		}
 		return v, nil
 	}

@@ -1,12 +1,12 @@
 package format
 
 import (
-	"fmt"
 	"io"
 	"sort"
 	"strconv"
 	"strings"
 
+	"visitline/internal/fmtlite"
 	"visitline/solver"
 	"visitline/solver/fleet"
 )
@@ -112,13 +112,13 @@ func ReadVehicles(r io.Reader, name string) (*Vehicles, error) {
 		if f == "" {
 			if h != "" && !isQuiet(h) {
 				return nil, &ParseError{File: name, Line: hl, Column: c + 1, Field: "header",
-					Msg: fmt.Sprintf("column %q is not one of a vehicles file: id, name, start, end, shift start, shift end, capacity, max duration", h)}
+					Msg: fmtlite.Sprintf("column %q is not one of a vehicles file: id, name, start, end, shift start, shift end, capacity, max duration", h)}
 			}
 			continue
 		}
 		if prev, dup := v.Columns[f]; dup {
 			return nil, &ParseError{File: name, Line: hl, Column: c + 1, Field: "header",
-				Msg: fmt.Sprintf("columns %q and %q both give the %s; keep one", recs[0].fields[prev], h, f)}
+				Msg: fmtlite.Sprintf("columns %q and %q both give the %s; keep one", recs[0].fields[prev], h, f)}
 		}
 		v.Columns[f] = c
 	}
@@ -133,7 +133,7 @@ func ReadVehicles(r io.Reader, name string) (*Vehicles, error) {
 		return nil, &ParseError{File: name, Line: hl + 1, Field: "vehicles", Msg: "the header has no vehicles below it; want one row per vehicle"}
 	}
 	if len(rows) > MaxSites {
-		return nil, &ParseError{File: name, Line: rows[MaxSites].line, Field: "vehicles", Msg: fmt.Sprintf("more than %d vehicles", MaxSites)}
+		return nil, &ParseError{File: name, Line: rows[MaxSites].line, Field: "vehicles", Msg: fmtlite.Sprintf("more than %d vehicles", MaxSites)}
 	}
 	commaDecimal := comma != ','
 	width := len(v.Header)
@@ -142,7 +142,7 @@ func ReadVehicles(r io.Reader, name string) (*Vehicles, error) {
 		for c := width; c < len(r.fields); c++ {
 			if r.fields[c] != "" {
 				return nil, &ParseError{File: name, Line: r.line, Column: c + 1, Field: "row",
-					Msg: fmt.Sprintf("%d fields but the header names %d columns; quote fields that hold the delimiter %q", len(r.fields), width, string(comma))}
+					Msg: fmtlite.Sprintf("%d fields but the header names %d columns; quote fields that hold the delimiter %q", len(r.fields), width, string(comma))}
 			}
 		}
 		cell := func(f string) string {
@@ -158,20 +158,20 @@ func ReadVehicles(r io.Reader, name string) (*Vehicles, error) {
 			return nil, v.err(row, "id", "missing; every vehicle needs a unique id")
 		}
 		if prev, dup := seen[row.ID]; dup {
-			return nil, v.err(row, "id", fmt.Sprintf("%q is used twice (first on line %d); vehicle ids must be unique", row.ID, prev))
+			return nil, v.err(row, "id", fmtlite.Sprintf("%q is used twice (first on line %d); vehicle ids must be unique", row.ID, prev))
 		}
 		seen[row.ID] = r.line
 		if t := cell("capacity"); t != "" {
 			q, ok := parseDecimal(t, commaDecimal)
 			if !ok {
-				return nil, v.err(row, "capacity", fmt.Sprintf("%q is not a number; want the most the vehicle carries, in the unit of the sites' demand (12, 1.5), or empty for no limit", t))
+				return nil, v.err(row, "capacity", fmtlite.Sprintf("%q is not a number; want the most the vehicle carries, in the unit of the sites' demand (12, 1.5), or empty for no limit", t))
 			}
 			if q.Sign() < 0 {
-				return nil, v.err(row, "capacity", fmt.Sprintf("%q is negative; want 0 or more, or empty for no limit", t))
+				return nil, v.err(row, "capacity", fmtlite.Sprintf("%q is negative; want 0 or more, or empty for no limit", t))
 			}
 			u, ok := ratUnits(q, LoadScale)
 			if !ok || u > solver.Horizon {
-				return nil, v.err(row, "capacity", fmt.Sprintf("%q is too large", t))
+				return nil, v.err(row, "capacity", fmtlite.Sprintf("%q is too large", t))
 			}
 			row.Capacity = u
 		}
@@ -341,7 +341,7 @@ func FleetFromDataset(d *Dataset, opt FleetOptions) (*FleetDataset, error) {
 		site := func(row VehicleRow, field, id string) (int, error) {
 			i, ok := byID[id]
 			if !ok {
-				return 0, vs.err(row, field, fmt.Sprintf("%q is not a site of %s; want a site id (%s)", id, nameOr(d.fileName()), sample))
+				return 0, vs.err(row, field, fmtlite.Sprintf("%q is not a site of %s; want a site id (%s)", id, nameOr(d.fileName()), sample))
 			}
 			return i, nil
 		}
@@ -381,7 +381,7 @@ func FleetFromDataset(d *Dataset, opt FleetOptions) (*FleetDataset, error) {
 				*f.to = v
 			}
 			if veh.ShiftEnd < veh.ShiftStart {
-				return nil, vs.err(row, "shift end", fmt.Sprintf("%s is before the shift start %s; want a shift end at or after its start", d.FormatTime(veh.ShiftEnd), d.FormatTime(veh.ShiftStart)))
+				return nil, vs.err(row, "shift end", fmtlite.Sprintf("%s is before the shift start %s; want a shift end at or after its start", d.FormatTime(veh.ShiftEnd), d.FormatTime(veh.ShiftStart)))
 			}
 			p.Vehicles = append(p.Vehicles, veh)
 			fd.VehicleNames = append(fd.VehicleNames, row.Name)
@@ -408,7 +408,7 @@ func readSiteLoads(text string, s *Sites, p *fleet.Problem) ([]int, error) {
 	for c, h := range recs[0].fields {
 		if f := columnField(h, siteLoadColumns); f != "" {
 			if _, dup := cols[f]; dup {
-				return nil, &ParseError{File: s.Name, Line: recs[0].line, Column: c + 1, Field: "header", Msg: fmt.Sprintf("two columns give the %s; keep one", f)}
+				return nil, &ParseError{File: s.Name, Line: recs[0].line, Column: c + 1, Field: "header", Msg: fmtlite.Sprintf("two columns give the %s; keep one", f)}
 			}
 			cols[f] = c
 		}
@@ -444,19 +444,19 @@ func readSiteLoads(text string, s *Sites, p *fleet.Problem) ([]int, error) {
 			if f == "demand" {
 				q, ok := parseDecimal(t, commaDecimal)
 				if !ok || q.Sign() < 0 {
-					pe.Msg = fmt.Sprintf("%q: want a number of 0 or more, in the unit of the vehicles' capacity (3, 0.5)", t)
+					pe.Msg = fmtlite.Sprintf("%q: want a number of 0 or more, in the unit of the vehicles' capacity (3, 0.5)", t)
 					return nil, pe
 				}
 				u, ok := ratUnits(q, LoadScale)
 				if !ok || u > solver.Horizon {
-					pe.Msg = fmt.Sprintf("%q is too large", t)
+					pe.Msg = fmtlite.Sprintf("%q is too large", t)
 					return nil, pe
 				}
 				p.Demand[k] = u
 			} else {
 				w, err := strconv.ParseInt(t, 10, 64)
 				if err != nil || w < 1 || w > 1_000_000 {
-					pe.Msg = fmt.Sprintf("%q: want a whole number from 1 to 1000000 (higher is more important; empty is 1)", t)
+					pe.Msg = fmtlite.Sprintf("%q: want a whole number from 1 to 1000000 (higher is more important; empty is 1)", t)
 					return nil, pe
 				}
 				p.Priority[k] = w
