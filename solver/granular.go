@@ -165,12 +165,11 @@ func (s *search) bestInsertGranular(x *route, v int32) (pos int, best, second fl
 		if !m.infeas && (!m.arcOK(int(a), int(v)) || !m.arcOK(int(v), int(b))) {
 			return
 		}
-		sg := join(x.fwd[p], u, m.arc(a, v))
-		sg = join(sg, x.bwd[p+1], m.arc(v, b))
-		d := m.value(sg, s.lam) - cur
+		sd, stw, sc := joinPair(&x.fwd[p], &u, &x.bwd[p+1], m.arc(a, v), m.arc(v, b))
+		d := m.valueOf(sd, stw, sc, s.lam) - cur
 		if d < best || d == best && p < pos {
 			second = best
-			best, pos, bestTW = d, p, sg.tw
+			best, pos, bestTW = d, p, stw
 		} else if d < second {
 			second = d
 		}

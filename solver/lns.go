@@ -218,9 +218,8 @@ func (s *search) bestInsert(x *route, v int32) (pos int, best, second float64) {
 			skipped = true
 			continue
 		}
-		sg := join(x.fwd[p], u, m.arc(a, v))
-		sg = join(sg, x.bwd[p+1], m.arc(v, b))
-		d := m.value(sg, s.lam) - cur
+		sd, stw, sc := joinPair(&x.fwd[p], &u, &x.bwd[p+1], m.arc(a, v), m.arc(v, b))
+		d := m.valueOf(sd, stw, sc, s.lam) - cur
 		if d < best {
 			second = best
 			best, pos = d, p
@@ -230,8 +229,8 @@ func (s *search) bestInsert(x *route, v int32) (pos int, best, second float64) {
 	}
 	if pos < 0 && skipped {
 		for p := 0; p < len(r)-1; p++ {
-			sg := join(join(x.fwd[p], u, m.arc(r[p], v)), x.bwd[p+1], m.arc(v, r[p+1]))
-			d := m.value(sg, s.lam) - cur
+			sd, stw, sc := joinPair(&x.fwd[p], &u, &x.bwd[p+1], m.arc(r[p], v), m.arc(v, r[p+1]))
+			d := m.valueOf(sd, stw, sc, s.lam) - cur
 			if d < best {
 				second = best
 				best, pos = d, p

@@ -49,14 +49,17 @@ func (p *polisher) wakeAround(i int) {
 
 // stopNow asks halt, within a pass, whether to stop at once: every 64
 // positions natively (so that a pass over a large route keeps the budget),
-// at every position under GOOS=js, where halt also gives the host its
-// turns when they are due.
+// every 8 under GOOS=js, where halt also gives the host its turns when they
+// are due. A position costs at most a few thousand joins (tens of
+// microseconds in WebAssembly), so 8 of them stay far inside a turn; asking
+// at every position cost the WebAssembly build two clock readings, each a
+// call into JavaScript, per position, most of which are skipped as quiet.
 func (p *polisher) stopNow() bool {
 	if p.halt == nil {
 		return false
 	}
 	p.steps++
-	if !turn.Enabled && p.steps&63 != 0 {
+	if p.steps&63 != 0 && (!turn.Enabled || p.steps&7 != 0) {
 		return false
 	}
 	return p.halt()
@@ -120,16 +123,16 @@ func (p *polisher) orOpt() bool {
 		found := false
 		for L := 1; L <= 3 && i+L-1 <= len(x.r)-2 && !found; L++ {
 			j := i + L - 1
-			cur := m.value(x.total(), p.lam)
+			cur := m.valueAt(&x.fwd[len(x.r)-1], p.lam)
 			for rev := 0; rev < 2; rev++ {
 				if rev == 1 && L == 1 {
 					break
 				}
 				var S seg
 				if rev == 0 {
-					S = x.segOf(i, j)
+					x.segInto(&S, i, j)
 				} else {
-					S = x.revOf(i, j)
+					x.revInto(&S, i, j)
 				}
 				sf, sz := x.r[i], x.r[j]
 				if rev == 1 {
@@ -140,9 +143,9 @@ func (p *polisher) orOpt() bool {
 				for q := i - 2; q >= 0 && i-1-q <= p.maxScan; q-- {
 					nd := x.r[q+1]
 					if q == i-2 {
-						mid = m.unit(int(nd))
+						m.setUnit(&mid, nd)
 					} else {
-						mid = join(m.unit(int(nd)), mid, m.arc(nd, x.r[q+2]))
+						m.pushFront(&mid, nd, m.arc(nd, x.r[q+2]))
 					}
 					if p.anyMustBeforeNode(nd, i, j) {
 						break
@@ -150,10 +153,8 @@ func (p *polisher) orOpt() bool {
 					if gran && !m.candArc(x.r[q], sf) && !m.candArc(sz, nd) {
 						continue
 					}
-					s := join(x.fwd[q], S, m.arc(x.r[q], sf))
-					s = join(s, mid, m.arc(sz, nd))
-					s = join(s, x.bwd[j+1], m.arc(x.r[i-1], x.r[j+1]))
-					if m.value(s, p.lam) < cur-improveEps {
+					sd, stw, sc := joinTriple(&x.fwd[q], &S, &mid, &x.bwd[j+1], m.arc(x.r[q], sf), m.arc(sz, nd), m.arc(x.r[i-1], x.r[j+1]))
+					if m.valueOf(sd, stw, sc, p.lam) < cur-improveEps {
 						p.applyOr(i, j, q, rev == 1)
 						improvedAny, found = true, true
 						goto next
@@ -163,9 +164,9 @@ func (p *polisher) orOpt() bool {
 				for q := j + 1; q <= len(x.r)-2 && q-j <= p.maxScan; q++ {
 					nd := x.r[q]
 					if q == j+1 {
-						mid = m.unit(int(nd))
+						m.setUnit(&mid, nd)
 					} else {
-						mid = join(mid, m.unit(int(nd)), m.arc(x.r[q-1], nd))
+						m.pushBack(&mid, nd, m.arc(x.r[q-1], nd))
 					}
 					if p.mustPrecedeAnyNode(i, j, nd) {
 						break
@@ -173,10 +174,8 @@ func (p *polisher) orOpt() bool {
 					if gran && !m.candArc(nd, sf) && !m.candArc(sz, x.r[q+1]) {
 						continue
 					}
-					s := join(x.fwd[i-1], mid, m.arc(x.r[i-1], x.r[j+1]))
-					s = join(s, S, m.arc(nd, sf))
-					s = join(s, x.bwd[q+1], m.arc(sz, x.r[q+1]))
-					if m.value(s, p.lam) < cur-improveEps {
+					sd, stw, sc := joinTriple(&x.fwd[i-1], &mid, &S, &x.bwd[q+1], m.arc(x.r[i-1], x.r[j+1]), m.arc(nd, sf), m.arc(sz, x.r[q+1]))
+					if m.valueOf(sd, stw, sc, p.lam) < cur-improveEps {
 						p.applyOr(i, j, q, rev == 1)
 						improvedAny, found = true, true
 						goto next
@@ -249,19 +248,19 @@ func (p *polisher) twoOpt() bool {
 		if !p.active[x.r[i]] && !p.active[x.r[i-1]] {
 			continue
 		}
-		cur := m.value(x.total(), p.lam)
-		rev := m.unit(int(x.r[i]))
+		cur := m.valueAt(&x.fwd[len(x.r)-1], p.lam)
+		var rev seg
+		m.setUnit(&rev, x.r[i])
 		for j := i + 1; j <= len(x.r)-2 && j-i <= p.maxScan; j++ {
-			rev = join(m.unit(int(x.r[j])), rev, m.arc(x.r[j], x.r[j-1]))
+			m.pushFront(&rev, x.r[j], m.arc(x.r[j], x.r[j-1]))
 			if feasible && rev.tw > 0 {
 				break // longer reversals from i only add warp
 			}
 			if gran && !m.candArc(x.r[i-1], x.r[j]) && !m.candArc(x.r[i], x.r[j+1]) {
 				continue
 			}
-			s := join(x.fwd[i-1], rev, m.arc(x.r[i-1], x.r[j]))
-			s = join(s, x.bwd[j+1], m.arc(x.r[i], x.r[j+1]))
-			if m.value(s, p.lam) < cur-improveEps {
+			sd, stw, sc := joinPair(&x.fwd[i-1], &rev, &x.bwd[j+1], m.arc(x.r[i-1], x.r[j]), m.arc(x.r[i], x.r[j+1]))
+			if m.valueOf(sd, stw, sc, p.lam) < cur-improveEps {
 				p.wakeAround(i)
 				p.wakeAround(j)
 				b := append(p.buf[:0], x.r...)
@@ -273,8 +272,8 @@ func (p *polisher) twoOpt() bool {
 				p.moves++
 				improvedAny = true
 				feasible = x.total().tw == 0
-				cur = m.value(x.total(), p.lam)
-				rev = m.unit(int(x.r[i]))
+				cur = m.valueAt(&x.fwd[len(x.r)-1], p.lam)
+				m.setUnit(&rev, x.r[i])
 				break
 			}
 		}
@@ -292,30 +291,28 @@ func (p *polisher) swap() bool {
 		if !p.active[x.r[i]] {
 			continue
 		}
-		cur := m.value(x.total(), p.lam)
+		cur := m.valueAt(&x.fwd[len(x.r)-1], p.lam)
 		a := x.r[i]
-		ua := m.unit(int(a))
-		var mid seg
+		var ua, ub, mid seg
+		m.setUnit(&ua, a)
 		for j := i + 1; j <= len(x.r)-2 && j-i <= p.maxScan; j++ {
 			b := x.r[j]
-			ub := m.unit(int(b))
-			var s seg
+			m.setUnit(&ub, b)
+			var sd, stw, sc int64
 			if j == i+1 {
-				s = join(x.fwd[i-1], ub, m.arc(x.r[i-1], b))
-				s = join(s, ua, m.arc(b, a))
+				sd, stw, sc = joinTriple(&x.fwd[i-1], &ub, &ua, &x.bwd[j+1], m.arc(x.r[i-1], b), m.arc(b, a), m.arc(a, x.r[j+1]))
 			} else {
 				nd := x.r[j-1]
 				if j == i+2 {
-					mid = m.unit(int(nd))
+					m.setUnit(&mid, nd)
 				} else {
-					mid = join(mid, m.unit(int(nd)), m.arc(x.r[j-2], nd))
+					m.pushBack(&mid, nd, m.arc(x.r[j-2], nd))
 				}
-				s = join(x.fwd[i-1], ub, m.arc(x.r[i-1], b))
-				s = join(s, mid, m.arc(b, x.r[i+1]))
-				s = join(s, ua, m.arc(nd, a))
+				var s seg
+				joinInto(&s, &x.fwd[i-1], &ub, m.arc(x.r[i-1], b))
+				sd, stw, sc = joinTriple(&s, &mid, &ua, &x.bwd[j+1], m.arc(b, x.r[i+1]), m.arc(nd, a), m.arc(a, x.r[j+1]))
 			}
-			s = join(s, x.bwd[j+1], m.arc(a, x.r[j+1]))
-			if m.value(s, p.lam) < cur-improveEps {
+			if m.valueOf(sd, stw, sc, p.lam) < cur-improveEps {
 				p.wakeAround(i)
 				p.wakeAround(j)
 				bf := append(p.buf[:0], x.r...)

@@ -29,12 +29,61 @@ func (x *route) rebuild() {
 	x.fwd, x.bwd = x.fwd[:k], x.bwd[:k]
 	m := x.m
 	x.fwd[0] = m.unit(int(x.r[0]))
-	for i := 1; i < k; i++ {
-		x.fwd[i] = join(x.fwd[i-1], m.unit(int(x.r[i])), m.arc(x.r[i-1], x.r[i]))
-	}
+	x.forward(1)
 	x.bwd[k-1] = m.unit(int(x.r[k-1]))
-	for i := k - 2; i >= 0; i-- {
-		x.bwd[i] = join(m.unit(int(x.r[i])), x.bwd[i+1], m.arc(x.r[i], x.r[i+1]))
+	x.backward(k - 2)
+}
+
+// forward recomputes the forward summaries from position lo (at least 1)
+// to the end, each the join of the one before and its node's unit. The
+// running summary is kept in five locals rather than read back from the
+// slice: the arithmetic is join's, line for line (TestForwardBackward
+// holds them equal).
+func (x *route) forward(lo int) {
+	r, f := x.r, x.fwd[:len(x.r)]
+	if lo < 1 || lo >= len(r) {
+		return
+	}
+	m := x.m
+	a := &f[lo-1]
+	d, tw, e, l, c := a.d, a.tw, a.e, a.l, a.c
+	prev := r[lo-1]
+	for i := lo; i < len(r); i++ {
+		v := r[i]
+		ud, utw, ue, ul, uc := m.unitOf(v)
+		t := m.arc(prev, v)
+		dl := d - tw + t
+		wt := max(ue-dl-l, 0)
+		w := max(e+dl-ul, 0)
+		d, tw, e, l, c = d+ud+t+wt, tw+utw+w, max(ue-dl, e)-wt, min(ul-dl, l)+w, c+uc+t
+		p := &f[i]
+		p.d, p.tw, p.e, p.l, p.c = d, tw, e, l, c
+		prev = v
+	}
+}
+
+// backward recomputes the backward summaries from position hi (at most
+// len-2) down to 0, each the join of its node's unit and the one after.
+func (x *route) backward(hi int) {
+	r, b := x.r, x.bwd[:len(x.r)]
+	if hi < 0 || hi+1 >= len(r) {
+		return
+	}
+	m := x.m
+	z := &b[hi+1]
+	d, tw, e, l, c := z.d, z.tw, z.e, z.l, z.c
+	next := r[hi+1]
+	for i := hi; i >= 0; i-- {
+		v := r[i]
+		ud, utw, ue, ul, uc := m.unitOf(v)
+		t := m.arc(v, next)
+		dl := ud - utw + t
+		wt := max(e-dl-ul, 0)
+		w := max(ue+dl-l, 0)
+		d, tw, e, l, c = ud+d+t+wt, utw+tw+w, max(e-dl, ue)-wt, min(l-dl, ul)+w, uc+c+t
+		p := &b[i]
+		p.d, p.tw, p.e, p.l, p.c = d, tw, e, l, c
+		next = v
 	}
 }
 
@@ -53,13 +102,8 @@ func (x *route) setShifted(r []int32, lo, tail int) {
 	copy(x.bwd[nk-tail:nk], x.bwd[k-tail:k])
 	x.fwd, x.bwd = x.fwd[:nk], x.bwd[:nk]
 	x.r = append(x.r[:0], r...)
-	m := x.m
-	for i := lo; i < nk; i++ {
-		x.fwd[i] = join(x.fwd[i-1], m.unit(int(x.r[i])), m.arc(x.r[i-1], x.r[i]))
-	}
-	for i := nk - tail - 1; i >= 0; i-- {
-		x.bwd[i] = join(m.unit(int(x.r[i])), x.bwd[i+1], m.arc(x.r[i], x.r[i+1]))
-	}
+	x.forward(lo)
+	x.backward(nk - tail - 1)
 }
 
 // setSpan replaces the order when only positions lo..hi changed: the
@@ -70,16 +114,9 @@ func (x *route) setSpan(r []int32, lo, hi int) {
 		return
 	}
 	copy(x.r, r)
-	m := x.m
 	k := len(x.r)
-	lo = max(lo, 1)
-	hi = min(hi, k-2)
-	for i := lo; i < k; i++ {
-		x.fwd[i] = join(x.fwd[i-1], m.unit(int(x.r[i])), m.arc(x.r[i-1], x.r[i]))
-	}
-	for i := hi; i >= 0; i-- {
-		x.bwd[i] = join(m.unit(int(x.r[i])), x.bwd[i+1], m.arc(x.r[i], x.r[i+1]))
-	}
+	x.forward(max(lo, 1))
+	x.backward(min(hi, k-2))
 }
 
 func (x *route) total() seg { return x.fwd[len(x.r)-1] }
@@ -108,6 +145,24 @@ func (x *route) segOf(i, j int) seg {
 		s = join(s, m.unit(int(x.r[k])), m.arc(x.r[k-1], x.r[k]))
 	}
 	return s
+}
+
+// segInto sets *s to segOf(i, j), field by field.
+func (x *route) segInto(s *seg, i, j int) {
+	m := x.m
+	m.setUnit(s, x.r[i])
+	for k := i + 1; k <= j; k++ {
+		m.pushBack(s, x.r[k], m.arc(x.r[k-1], x.r[k]))
+	}
+}
+
+// revInto sets *s to revOf(i, j), field by field.
+func (x *route) revInto(s *seg, i, j int) {
+	m := x.m
+	m.setUnit(s, x.r[j])
+	for k := j - 1; k >= i; k-- {
+		m.pushBack(s, x.r[k], m.arc(x.r[k+1], x.r[k]))
+	}
 }
 
 // revOf summarises r[j], r[j-1], ..., r[i].

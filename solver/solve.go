@@ -299,22 +299,24 @@ func (e *engine) adopt(route []int) {
 // e.mu held.
 func (e *engine) heartbeat(now time.Time) {
 	if now.Sub(e.lastTick) < e.set.ProgressEvery {
-		e.giveTurn()
+		e.giveTurn(now)
 		return
 	}
 	e.lastTick = now
 	if e.set.OnProgress != nil {
 		e.set.OnProgress(Progress{Iteration: e.iters, Elapsed: now.Sub(e.start), BestCost: e.best.Cost, Feasible: e.best.Feasible, Weights: normalised(e.weights)})
+		now = time.Now() // the report may have taken a while
 	}
-	e.giveTurn()
+	e.giveTurn(now)
 }
 
 // giveTurn lets the host's event loop run when it is due (under GOOS=js;
-// natively it compiles to nothing). Call with e.mu held.
-func (e *engine) giveTurn() {
+// natively it compiles to nothing); now is the clock read just before.
+// Call with e.mu held.
+func (e *engine) giveTurn(now time.Time) {
 	if turn.Enabled {
 		e.mu.Unlock()
-		turn.Due()
+		turn.DueAt(now)
 		e.mu.Lock()
 	}
 }

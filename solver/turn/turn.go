@@ -78,7 +78,15 @@ func Due() bool {
 	if !Enabled {
 		return false
 	}
-	now := time.Now()
+	return DueAt(time.Now())
+}
+
+// DueAt is Due for a caller that has just read the clock (now): in
+// WebAssembly every reading is a call into JavaScript, dear in a loop.
+func DueAt(now time.Time) bool {
+	if !Enabled {
+		return false
+	}
 	if last.IsZero() {
 		last = now
 		return false
