@@ -1,6 +1,6 @@
 package solver
 
-import "visitline/internal/fmtlite"
+import "visitline/solver/fmtlite"
 
 // Visit is one stop of a schedule. All times are in internal units.
 type Visit struct {

@@ -17,7 +17,7 @@ import (
 	"errors"
 	"math"
 
-	"visitline/internal/fmtlite"
+	"visitline/solver/fmtlite"
 	"visitline/solver/turn"
 )
 

@@ -5,7 +5,7 @@ import (
 	"math"
 	"sort"
 
-	"visitline/internal/fmtlite"
+	"visitline/solver/fmtlite"
 	"visitline/solver/turn"
 )
 

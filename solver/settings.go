@@ -6,7 +6,7 @@ import (
 	"strings"
 	"time"
 
-	"visitline/internal/fmtlite"
+	"visitline/solver/fmtlite"
 )
 
 // Operators names the destroy operators of the large neighbourhood search,

@@ -4,7 +4,7 @@ import (
 	"context"
 	"errors"
 
-	"visitline/internal/fmtlite"
+	"visitline/solver/fmtlite"
 )
 
 // Stop says why a run ended. It is decided in one place, the engine's

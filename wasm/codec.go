@@ -1,8 +1,8 @@
 package main
 
 import (
-	"visitline/internal/jsonlite"
 	"visitline/solver/format"
+	"visitline/solver/jsonlite"
 )
 
 // The messages' JSON, written and read by hand through package jsonlite

@@ -8,12 +8,12 @@ import (
 	"sync"
 	"time"
 
-	"visitline/internal/fmtlite"
-	"visitline/internal/jsonlite"
 	"visitline/solver"
 	"visitline/solver/app"
 	"visitline/solver/bound"
+	"visitline/solver/fmtlite"
 	"visitline/solver/format"
+	"visitline/solver/jsonlite"
 	"visitline/solver/turn"
 )
 

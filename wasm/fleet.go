@@ -7,10 +7,10 @@ import (
 	"sync"
 	"time"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
 	"visitline/solver/app"
 	"visitline/solver/fleet"
+	"visitline/solver/fmtlite"
 	"visitline/solver/format"
 )
 

@@ -13,9 +13,9 @@ import (
 	"strings"
 	"time"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
 	"visitline/solver/bound"
+	"visitline/solver/fmtlite"
 	"visitline/solver/format"
 )
 

@@ -7,9 +7,9 @@ import (
 	"strings"
 	"time"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
 	"visitline/solver/fleet"
+	"visitline/solver/fmtlite"
 	"visitline/solver/format"
 	"visitline/solver/turn"
 )

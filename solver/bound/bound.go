@@ -4,8 +4,8 @@ import (
 	"context"
 	"time"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
+	"visitline/solver/fmtlite"
 )
 
 // Options steer the bound computations. The zero value is useful: default

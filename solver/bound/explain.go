@@ -7,8 +7,8 @@ import (
 	"strconv"
 	"strings"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
+	"visitline/solver/fmtlite"
 )
 
 // FeasibleExists decides whether some route meets every window (and the

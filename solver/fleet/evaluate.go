@@ -3,8 +3,8 @@ package fleet
 import (
 	"strconv"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
+	"visitline/solver/fmtlite"
 )
 
 // Plan is a set of routes, one per vehicle (empty: the vehicle stays

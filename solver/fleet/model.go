@@ -16,8 +16,8 @@ import (
 	"errors"
 	"math"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
+	"visitline/solver/fmtlite"
 )
 
 // NoLimit is the capacity or longest day of a vehicle without one.

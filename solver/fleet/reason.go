@@ -1,6 +1,6 @@
 package fleet
 
-import "visitline/internal/fmtlite"
+import "visitline/solver/fmtlite"
 
 // Reason says why a visit is unserved.
 type Reason int

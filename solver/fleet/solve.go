@@ -7,7 +7,7 @@ import (
 	"sort"
 	"time"
 
-	"visitline/internal/fmtlite"
+	"visitline/solver/fmtlite"
 )
 
 type scratch struct {

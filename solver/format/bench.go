@@ -8,8 +8,8 @@ import (
 	"strconv"
 	"strings"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
+	"visitline/solver/fmtlite"
 )
 
 // MaxDecimals caps the fixed-point scale: values with more decimals are

@@ -5,8 +5,8 @@ import (
 	"strconv"
 	"strings"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
+	"visitline/solver/fmtlite"
 )
 
 // Claims are the figures a plan's JSON states (see PlanReport). A check

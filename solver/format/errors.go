@@ -11,8 +11,8 @@ import (
 	"strconv"
 	"strings"
 
-	"visitline/internal/fmtlite"
-	"visitline/internal/jsonlite"
+	"visitline/solver/fmtlite"
+	"visitline/solver/jsonlite"
 )
 
 // ParseError is an input problem at a place in a file.

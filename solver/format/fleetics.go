@@ -6,7 +6,7 @@ import (
 	"strings"
 	"time"
 
-	"visitline/internal/fmtlite"
+	"visitline/solver/fmtlite"
 )
 
 // WriteFleetICS writes a team's plan as an iCalendar file (RFC 5545), one

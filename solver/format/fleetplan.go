@@ -4,10 +4,10 @@ import (
 	"io"
 	"strings"
 
-	"visitline/internal/fmtlite"
-	"visitline/internal/jsonlite"
 	"visitline/solver"
 	"visitline/solver/fleet"
+	"visitline/solver/fmtlite"
+	"visitline/solver/jsonlite"
 )
 
 // FleetRouteJSON is one vehicle's route in a fleet plan.

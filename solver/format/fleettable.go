@@ -9,8 +9,8 @@ import (
 	"io"
 	"text/tabwriter"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
+	"visitline/solver/fmtlite"
 )
 
 // WriteFleetTable writes a fleet plan for reading: a summary, then one

@@ -8,8 +8,8 @@ import (
 	"time"
 	"unicode/utf8"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
+	"visitline/solver/fmtlite"
 )
 
 // ICSOptions say how to place a plan on the calendar.

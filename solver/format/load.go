@@ -8,8 +8,8 @@ import (
 	"strconv"
 	"strings"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
+	"visitline/solver/fmtlite"
 )
 
 // Options say how to turn a sites file (and a travel matrix) into an

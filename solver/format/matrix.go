@@ -5,7 +5,7 @@ import (
 	"io"
 	"strings"
 
-	"visitline/internal/fmtlite"
+	"visitline/solver/fmtlite"
 )
 
 // Unit is the unit of the numbers in a travel matrix.

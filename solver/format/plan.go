@@ -7,9 +7,9 @@ import (
 	"strings"
 	"unicode/utf8"
 
-	"visitline/internal/fmtlite"
-	"visitline/internal/jsonlite"
 	"visitline/solver"
+	"visitline/solver/fmtlite"
+	"visitline/solver/jsonlite"
 )
 
 // PlanVisit is one stop of a plan as written out, in input units.

@@ -1,6 +1,6 @@
 package format
 
-import "visitline/internal/jsonlite"
+import "visitline/solver/jsonlite"
 
 // The JSON forms of the plan reports, written by hand (no reflection, for
 // the web worker's build): the bytes are those encoding/json writes from

@@ -9,7 +9,7 @@ import (
 	"time"
 	"unicode"
 
-	"visitline/internal/fmtlite"
+	"visitline/solver/fmtlite"
 )
 
 // Column names a sites file may use, by field. Matching ignores case,

@@ -6,8 +6,8 @@ import (
 	"strconv"
 	"strings"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver/fleet"
+	"visitline/solver/fmtlite"
 )
 
 // SolomonScale is the fixed scale of a Solomon file: one unit of the file

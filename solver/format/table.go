@@ -9,7 +9,7 @@ import (
 	"strconv"
 	"strings"
 
-	"visitline/internal/fmtlite"
+	"visitline/solver/fmtlite"
 )
 
 // WriteTable writes a plain-text table for a terminal.

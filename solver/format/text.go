@@ -8,7 +8,7 @@ import (
 	"unicode/utf16"
 	"unicode/utf8"
 
-	"visitline/internal/fmtlite"
+	"visitline/solver/fmtlite"
 )
 
 // MaxInputBytes bounds what a text reader takes in, so that a wrong file

@@ -6,8 +6,8 @@ import (
 	"strings"
 	"time"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
+	"visitline/solver/fmtlite"
 )
 
 // SitesScale is Instance.Scale of everything read from a sites file: the

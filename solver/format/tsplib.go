@@ -7,8 +7,8 @@ import (
 	"strconv"
 	"strings"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
+	"visitline/solver/fmtlite"
 )
 
 // TSPLIB reader. TSPLIB (G. Reinelt, ORSA Journal on Computing 3(4), 1991)

@@ -6,9 +6,9 @@ import (
 	"strconv"
 	"strings"
 
-	"visitline/internal/fmtlite"
 	"visitline/solver"
 	"visitline/solver/fleet"
+	"visitline/solver/fmtlite"
 )
 
 // LoadScale is the fixed scale of demands and capacities: they are read to

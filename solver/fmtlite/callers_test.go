@@ -93,7 +93,7 @@ func TestCallersUseWhatIsSupported(t *testing.T) {
 			if err != nil {
 				return err
 			}
-			if strings.Contains(string(data), `"visitline/internal/fmtlite"`) {
+			if strings.Contains(string(data), `"visitline/solver/fmtlite"`) {
 				dir := filepath.Dir(path)
 				if len(dirs) == 0 || dirs[len(dirs)-1] != dir {
 					dirs = append(dirs, dir)
@@ -162,7 +162,7 @@ func hasBuildTag(f *ast.File, tag string) bool {
 
 func importsFmtlite(f *ast.File) bool {
 	for _, im := range f.Imports {
-		if im.Path.Value == `"visitline/internal/fmtlite"` {
+		if im.Path.Value == `"visitline/solver/fmtlite"` {
 			return true
 		}
 	}
