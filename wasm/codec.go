@@ -95,13 +95,7 @@ func decodeInbound(raw []byte) (inbound, error) {
 		case "route":
 			d.Ints(&m.Route)
 		case "routes":
-			old := m.Routes
-			out := old[:0]
-			read, isNull := d.Array(func() {
-				var r routeIn
-				if i := len(out); i < len(old) {
-					r = old[i]
-				}
+			jsonlite.List(d, &m.Routes, func(r *routeIn) {
 				d.Object(routeInNames, func(name string) {
 					if name == "vehicle" {
 						d.String(&r.Vehicle)
@@ -109,17 +103,7 @@ func decodeInbound(raw []byte) (inbound, error) {
 						d.Ints(&r.Visits)
 					}
 				})
-				out = append(out, r)
 			})
-			switch {
-			case isNull:
-				m.Routes = nil
-			case read:
-				if out == nil {
-					out = []routeIn{}
-				}
-				m.Routes = out
-			}
 		case "vehicle":
 			d.String(&m.Vehicle)
 		case "format":

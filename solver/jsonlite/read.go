@@ -604,18 +604,18 @@ func (d *Decoder) Float(v *float64) {
 	}
 }
 
-// Strings reads a list of strings into *s, reusing it as encoding/json
-// does (an element given as null keeps the value there); null sets it to
-// nil.
-func (d *Decoder) Strings(s *[]string) {
+// List reads an array into *s, one element at a time through elem, reusing
+// *s as encoding/json does (an element given as null keeps the value
+// there); null sets it to nil.
+func List[T any](d *Decoder, s *[]T, elem func(*T)) {
 	old := *s
 	out := old[:0]
 	read, isNull := d.Array(func() {
-		var v string
+		var v T
 		if i := len(out); i < len(old) {
 			v = old[i]
 		}
-		d.String(&v)
+		elem(&v)
 		out = append(out, v)
 	})
 	switch {
@@ -623,34 +623,17 @@ func (d *Decoder) Strings(s *[]string) {
 		*s = nil
 	case read:
 		if out == nil {
-			out = []string{}
+			out = []T{}
 		}
 		*s = out
 	}
 }
 
+// Strings reads a list of strings into *s (null: nil).
+func (d *Decoder) Strings(s *[]string) { List(d, s, d.String) }
+
 // Ints reads a list of whole numbers into *s (null: nil).
-func (d *Decoder) Ints(s *[]int) {
-	old := *s
-	out := old[:0]
-	read, isNull := d.Array(func() {
-		var v int
-		if i := len(out); i < len(old) {
-			v = old[i]
-		}
-		d.IntInt(&v)
-		out = append(out, v)
-	})
-	switch {
-	case isNull:
-		*s = nil
-	case read:
-		if out == nil {
-			out = []int{}
-		}
-		*s = out
-	}
-}
+func (d *Decoder) Ints(s *[]int) { List(d, s, d.IntInt) }
 
 // FloatMap reads an object of numbers into *m, adding to the map there
 // (null: nil), as encoding/json does.
