@@ -381,3 +381,21 @@ func TestDefectNumbersAndBoundInWords(t *testing.T) {
 		assert.Contains(t, details, "at most", "the exact figures stay in the details")
 	}
 }
+
+// On a wide screen the run bar stays at the top; a long table scrolled
+// under it keeps its column names in sight just below the bar.
+func TestTableColumnNamesStayUnderTheRunBar(t *testing.T) {
+	ctx, _ := tab(t)
+	viewport(t, ctx, 1366, 768)
+	openPage(t, ctx, "")
+	paste(t, ctx, clockDay(60, 1))
+	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 20*time.Second)
+	run(t, ctx, "0.5")
+	eval[bool](t, ctx, `(() => { const t = document.getElementById('plan-table'); window.scrollTo(0, t.getBoundingClientRect().top + scrollY + 400); return true; })()`)
+	waitFor(t, ctx, `document.getElementById('plan-table').getBoundingClientRect().top < 0`, 5*time.Second)
+	bar := eval[float64](t, ctx, `document.querySelector('.runbar').getBoundingClientRect().bottom`)
+	top := eval[float64](t, ctx, `document.querySelector('#plan-table thead th').getBoundingClientRect().top`)
+	assert.InDelta(t, bar, top, 2, "the column names sit just under the run bar")
+	under := eval[string](t, ctx, `(() => { const b = document.querySelector('.runbar').getBoundingClientRect().bottom; const e = document.elementFromPoint(innerWidth * 0.75, b + 4); return e ? e.tagName + (e.closest('thead') ? ' in thead' : '') : ''; })()`)
+	assert.Equal(t, "TH in thead", under, "what shows just under the bar is a column name, not a row")
+}
