@@ -399,3 +399,32 @@ func TestTableColumnNamesStayUnderTheRunBar(t *testing.T) {
 	under := eval[string](t, ctx, `(() => { const b = document.querySelector('.runbar').getBoundingClientRect().bottom; const e = document.elementFromPoint(innerWidth * 0.75, b + 4); return e ? e.tagName + (e.closest('thead') ? ' in thead' : '') : ''; })()`)
 	assert.Equal(t, "TH in thead", under, "what shows just under the bar is a column name, not a row")
 }
+
+// A plan of hundreds of rows shows its first 400 in the table and a button
+// for the rest (the layout of thousands of rows froze the page for a
+// second and more after each new plan); the button shows every row, the
+// printed sheet has every row, and the next plan keeps them all shown.
+func TestLongPlanTableShowsTheFirstRowsAndAllOnAsking(t *testing.T) {
+	ctx, _ := tabFor(t, 3*time.Minute)
+	viewport(t, ctx, 1366, 768)
+	openPage(t, ctx, "")
+	paste(t, ctx, clockDay(700, 2))
+	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, time.Minute)
+	run(t, ctx, "1")
+	rows := func() int {
+		return eval[int](t, ctx, `document.querySelectorAll('[data-testid=plan-table] tbody tr:not(.more-rows)').length`)
+	}
+	assert.Equal(t, 400, rows(), "the first 400 rows")
+	all := eval[string](t, ctx, `document.querySelector('[data-testid=table-all]').dataset.rows`)
+	assert.Equal(t, "702", all, "the start, 700 visits and the return")
+	assert.Contains(t, eval[string](t, ctx, `document.querySelector('[data-testid=table-all]').textContent`), "Show all 702 rows")
+	eval[bool](t, ctx, `(() => { window.dispatchEvent(new Event('beforeprint')); return true; })()`)
+	assert.Equal(t, 702, rows(), "the printed sheet has every row")
+	run(t, ctx, "0.5")
+	assert.Equal(t, 400, rows(), "printing did not ask for every row on the page")
+	eval[bool](t, ctx, `(() => { document.querySelector('[data-testid=table-all]').click(); return true; })()`)
+	waitFor(t, ctx, `!document.querySelector('[data-testid=table-all]')`, 10*time.Second)
+	assert.Equal(t, 702, rows(), "every row on asking")
+	run(t, ctx, "0.5")
+	assert.Equal(t, 702, rows(), "the next plan of the same data keeps every row shown")
+}

@@ -8,7 +8,7 @@ import { timeModel, costWords, boundWords, boundDetails, duration, longDuration,
 import { decodeBytes } from "./textin.mjs";
 import { readOptions, applyOptions, sameOptions, showSummary, showWarnings, showErrors, hideErrors } from "./input.mjs";
 import { timelineDrawing, clearTimeline, wireTimeline } from "./timeline.mjs";
-import { tableDrawing, clearTable } from "./table.mjs";
+import { tableDrawing, drawTable, clearTable } from "./table.mjs";
 import { isFleetPlan, drawFleetTimeline, drawFleetTable, drawUnserved, fleetWords, vehicleColumn } from "./fleet.mjs";
 import { drawChart } from "./chart.mjs";
 import { baseName, download } from "./exports.mjs";
@@ -40,6 +40,7 @@ const state = {
   beforeLoad: null, // the status and Start as they were before the load under way
   pendingStart: null, // a start waiting for the options to be applied
   data: null, // {name, text, matrix, matrix_name, options} read last
+  tableAll: false, // a long plan's table shows every row (Show all)
   origin: "", // where the data came from: example, file, paste, link, kept
   exampleKey: "",
   matrixFromExample: false,
@@ -299,6 +300,7 @@ function showExampleAbout() {
 function onLoaded(s) {
   state.summary = s;
   state.model = timeModel(s);
+  state.tableAll = false;
   state.data = state.pendingData;
   state.origin = state.data.origin || "paste";
   if (state.origin === "example") $("example-about").hidden = false;
@@ -563,7 +565,7 @@ function drawNow() {
         drawFleetTable(plan, model);
         done = true;
       } else {
-        if (!parts) parts = [timelineDrawing(plan, model), tableDrawing(plan, model)];
+        if (!parts) parts = [timelineDrawing(plan, model), tableDrawing(plan, model, state.tableAll)];
         while (stage < 2 && performance.now() < deadline && parts[stage].step(deadline)) stage++;
         if (stage === 2) {
           vehicleColumn(false);
@@ -749,6 +751,8 @@ const exporters = {
 // printPages readies the printed pages: a team's day prints a page per
 // vehicle (or the one chosen).
 function printPages() {
+  // The printed sheet has every row.
+  if (state.plan && !isFleetPlan(state.plan) && document.querySelector("[data-testid=table-all]")) drawTable(state.plan, state.model, true);
   if (state.plan) buildTeamPrint(state.plan, state.model, chosenVehicle(state.plan), (state.data ? state.data.name + " · " : "") + "printed " + new Date().toLocaleString());
 }
 
@@ -987,6 +991,13 @@ function wire() {
   }
   for (const id in exporters) $(id).addEventListener("click", exporters[id]);
   window.addEventListener("beforeprint", printPages);
+  // A long plan's table shows its first rows; this shows them all, for
+  // this data, until other data is read.
+  $("plan-table").addEventListener("click", (e) => {
+    if (!e.target.closest("[data-testid=table-all]") || !state.plan) return;
+    state.tableAll = true;
+    drawTable(state.plan, state.model, true);
+  });
   $("keep-help").textContent = KEEP_SENTENCE;
   $("keep-session").checked = keepWanted(storage);
   $("keep-session").addEventListener("change", (ev) => {

@@ -8,6 +8,13 @@ import { planRows } from "./axis.mjs";
 // COLS are the columns' classes (page.go gives the headers the same).
 const COLS = ["c-ord", "c-site", "name-col", "c-arr", "c-start", "c-wait", "c-dep", "win-col", "c-slack"];
 
+// A plan of more than MANY_ROWS rows shows its first SHOWN_ROWS and a
+// button for the rest: at thousands of visits the table's cells were half
+// of the second or more that Chromium took to lay out each new plan, with
+// the page frozen meanwhile. Every row is in the CSV export and in print.
+export const MANY_ROWS = 600;
+export const SHOWN_ROWS = 400;
+
 export function clearTable() {
   $("plan-table").tBodies[0].textContent = "";
   $("table-day").textContent = "";
@@ -16,9 +23,10 @@ export function clearTable() {
 // tableDrawing prepares plan p's table without touching the page: step
 // builds rows into a body of its own until performance.now() passes the
 // deadline and says whether all are built; commit() swaps it in.
-export function tableDrawing(p, model) {
+export function tableDrawing(p, model, all) {
   const table = $("plan-table");
-  const rows = planRows(p);
+  const every = planRows(p);
+  const rows = all || every.length <= MANY_ROWS ? every : every.slice(0, SHOWN_ROWS);
   // Every clock in whole minutes, one format for all (the exports keep
   // the exact times).
   const c = (v) => clock(v, model);
@@ -46,7 +54,22 @@ export function tableDrawing(p, model) {
         body.appendChild(tr);
         if ((next & 15) === 0 && performance.now() > deadline) break;
       }
-      return next >= rows.length;
+      if (next < rows.length) return false;
+      if (rows.length < every.length && !body.querySelector(".more-rows")) {
+        const tr = document.createElement("tr");
+        tr.className = "more-rows";
+        const td = document.createElement("td");
+        td.colSpan = COLS.length;
+        const b = document.createElement("button");
+        b.type = "button";
+        b.dataset.testid = "table-all";
+        b.dataset.rows = String(every.length);
+        b.textContent = "Show all " + every.length.toLocaleString() + " rows";
+        td.append(b, " " + (every.length - rows.length).toLocaleString() + " more below; the CSV export and the printed sheet have them all.");
+        tr.appendChild(td);
+        body.appendChild(tr);
+      }
+      return true;
     },
     commit() {
       table.classList.toggle("no-names", !rows.some((r) => r.v.name));
@@ -59,8 +82,8 @@ export function tableDrawing(p, model) {
 }
 
 // drawTable draws plan p's table at once.
-export function drawTable(p, model) {
-  const d = tableDrawing(p, model);
+export function drawTable(p, model, all) {
+  const d = tableDrawing(p, model, all);
   while (!d.step(Infinity));
   d.commit();
 }
