@@ -104,8 +104,11 @@ export function timelineDrawing(p, model) {
       const text = esc(describeVisit(r, model));
       const cls = "visit" + (r.ret ? " return" : "") + (v.lateness > 0 ? " is-late" : "") + (v.wait > 0 ? " has-wait" : "");
       let h = '<div class="' + cls + '" role="listitem" tabindex="0" data-row="' + r.order + '" ' + (r.ret ? "data-return" : "data-visit") + '="' + esc(v.id) +
-        '" aria-label="' + text + '"><div class="who"><span class="ord">' +
-        (r.ret ? "↩" : r.order) + '</span><span class="sid">' + esc(v.id) + "</span>" + (v.name && dens === "full" ? '<span class="nm">' + esc(v.name) + "</span>" : "") +
+        '" aria-label="' + text + '"><div class="who">' +
+        // Dense rows are too thin for text (the line under the plan names
+        // the visit pointed at): no spans, fewer nodes to lay out.
+        (dens === "dense" ? "" : '<span class="ord">' + (r.ret ? "↩" : r.order) + '</span><span class="sid">' + esc(v.id) + "</span>") +
+        (v.name && dens === "full" ? '<span class="nm">' + esc(v.name) + "</span>" : "") +
         '</div><div class="track">';
       const open = isOpen(v.latest) || v.latest > t1;
       h += '<span class="band' + (open ? " open-end" : "") + '" ' + pos(isOpen(v.earliest) ? t0 : v.earliest, open ? t1 : v.latest, 0.4) + "></span>";
