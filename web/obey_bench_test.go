@@ -135,6 +135,13 @@ func TestBenchBrowser(t *testing.T) {
 		{"200 sites (OhlmannThomas n200w120.002)", func() string { return publishedOrSkip(t, "OhlmannThomas/n200w120.002.txt") }},
 		{"1000 sites", func() string { return sitesDay(1000, 5) }},
 		{"2000 sites", func() string { return sitesDay(2000, 6) }},
+		// Only when VISITLINE_BENCH_SIZES names them (up to the sites
+		// file's limit of 5,000).
+		{"3000 sites", func() string { return sitesDay(3000, 7) }},
+		{"5000 sites", func() string { return sitesDay(4999, 8) }}, // the depot and 4,999 stops
+	}
+	if os.Getenv("VISITLINE_BENCH_SIZES") == "" {
+		sizes = sizes[:4]
 	}
 	if s := os.Getenv("VISITLINE_BENCH_SIZES"); s != "" {
 		var keep []struct {
