@@ -13,6 +13,8 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"visitline/solver"
+	"visitline/solver/app"
+	"visitline/solver/format"
 )
 
 // recorder collects the engine's messages.
@@ -408,10 +410,11 @@ func TestPlanMessageIsTheEncodedMessage(t *testing.T) {
 	assert.Equal(t, string(js), got["json"])
 }
 
-// A day over exportsUpTo nodes: the run's last plan carries the CSV export
-// (one row per visit and the return) and no JSON text, which the page
-// writes from the plan itself.
-func TestEngineLargeDayLastPlanHasCSVOnly(t *testing.T) {
+// A day over exportsUpTo nodes: the run's last plan carries no exports;
+// the CSV export comes on asking ("export", format csv, the plan's route):
+// one row per visit and the return, the same rows as the CSV export of
+// the same plan on a small day would have (WriteCSV of its report).
+func TestEngineLargeDayCSVOnAsking(t *testing.T) {
 	var b strings.Builder
 	b.WriteString("id,x,y,open,close,service\nD,50,50,0,100000,0\n")
 	for i := 1; i <= exportsUpTo+20; i++ {
@@ -434,10 +437,24 @@ func TestEngineLargeDayLastPlanHasCSVOnly(t *testing.T) {
 	r.mu.Unlock()
 	require.NotNil(t, last)
 	assert.NotContains(t, last, "json")
-	rows := strings.Split(strings.TrimSpace(last["csv"].(string)), "\n")
+	assert.NotContains(t, last, "csv")
+	plan := last["plan"].(map[string]any)
+	assert.Len(t, plan["route"], exportsUpTo+21)
+	e.Handle(msg(t, map[string]any{"type": "export", "format": "csv", "route": plan["route"], "objective": "travel"}))
+	ex := r.wait(t, "export")
+	assert.Empty(t, ex["error"])
+	assert.Equal(t, "csv", ex["format"])
+	rows := strings.Split(strings.TrimSpace(ex["text"].(string)), "\n")
 	assert.True(t, strings.HasPrefix(rows[0], "order,site,name,arrival"), rows[0])
 	assert.Len(t, rows, 1+exportsUpTo+22, "header, the start, every visit and the return")
-	assert.Len(t, last["plan"].(map[string]any)["route"], exportsUpTo+21)
+	// The same text as the command line's writer gives for that plan.
+	d, err := app.Load(strings.NewReader(b.String()), nil, "big.csv", "", app.LoadOptions{})
+	require.NoError(t, err)
+	route := toInts(plan["route"].([]any))
+	sch := solver.Evaluate(d.Instance, route)
+	var want strings.Builder
+	require.NoError(t, format.WriteCSV(&want, d.Instance, d.PlanReport(solver.TravelTime, solver.Plan{Route: route, Schedule: sch, Cost: sch.Cost(solver.TravelTime), Feasible: sch.Feasible}, nil)))
+	assert.Equal(t, want.String(), ex["text"])
 }
 
 // TestEngineBoundStopsExplainingForAFeasiblePlan: the bound worker's time
@@ -489,4 +506,12 @@ func TestWaitedComesOffTheBudget(t *testing.T) {
 	e.Handle(msg(t, map[string]any{"type": "start", "budget": 1, "seed": 1, "role": "search", "clicked_at": float64(time.Now().UnixMilli() - 400)}))
 	assert.EqualValues(t, 1, r.wait(t, "started")["budget"], "the budget asked for is echoed")
 	assert.Equal(t, "budget", r.wait(t, "finished")["why"])
+}
+
+func toInts(v []any) []int {
+	out := make([]int, len(v))
+	for i, x := range v {
+		out[i] = int(x.(float64))
+	}
+	return out
 }

@@ -427,4 +427,16 @@ func TestLongPlanTableShowsTheFirstRowsAndAllOnAsking(t *testing.T) {
 	assert.Equal(t, 702, rows(), "every row on asking")
 	run(t, ctx, "0.5")
 	assert.Equal(t, 702, rows(), "the next plan of the same data keeps every row shown")
+
+	// A day this large gets its CSV export from the engine on asking:
+	// every row, in the plan's order.
+	name, text := exportText(t, ctx, "export-csv")
+	assert.True(t, strings.HasSuffix(name, "-plan.csv"), name)
+	lines := strings.Split(strings.TrimSpace(text), "\n")
+	require.Len(t, lines, 703, "the header and 702 rows")
+	assert.True(t, strings.HasPrefix(lines[0], "order,site,name,arrival"), lines[0])
+	ids := eval[[]string](t, ctx, `[...document.querySelectorAll('[data-testid=plan-table] tbody tr:not(.more-rows) th')].map(th => th.textContent)`)
+	for i, id := range ids {
+		assert.Equal(t, id, strings.Split(lines[1+i], ",")[1], "row %d", i+1)
+	}
 }

@@ -102,7 +102,10 @@ function onEngine(m) {
       if (m.run === state.run) onFinished(m);
       break;
     case "export":
-      if (m.error) setStatus("No calendar file: " + m.error, "error");
+      if (m.format === "csv") {
+        if (m.error) setStatus("No CSV file: " + m.error, "error");
+        else saved(baseName(state.data && state.data.name) + "-plan.csv", "text/csv", m.text);
+      } else if (m.error) setStatus("No calendar file: " + m.error, "error");
       else saved(baseName(state.data && state.data.name) + "-plan" + (state.exportTag || "") + ".ics", "text/calendar", m.text);
       break;
     case "failed":
@@ -493,7 +496,9 @@ function showPlan(m) {
   $("best-cost").dataset.cost = p.cost;
   $("improvements").textContent = String(p.improvements || 0);
   for (const id in exporters) $(id).disabled = false;
-  $("export-csv").disabled = !state.planCSV;
+  // A large day's plans come without the CSV export: it is asked of the
+  // engine when wanted.
+  $("export-csv").disabled = !state.planCSV && fleet;
   const ics = $("export-ics");
   ics.disabled = !(state.summary && state.summary.unit);
   ics.title = ics.disabled ? "A calendar needs a sites file with clock times; this data has no times of day." : fleet ? "A calendar for the vehicle chosen beside, or for the team: each event names its vehicle first." : "";
@@ -723,6 +728,11 @@ function saved(name, type, text) {
 
 const exporters = {
   "export-csv": () => {
+    if (!state.planCSV && state.plan && !isFleetPlan(state.plan)) {
+      setStatus("Writing the CSV file…");
+      send({ type: "export", format: "csv", route: state.plan.route, objective: state.plan.objective || $("objective").value });
+      return;
+    }
     // A team's day: the vehicle chosen beside the buttons alone, or all.
     const v = state.plan ? chosenVehicle(state.plan) : "";
     saved(baseName(state.data && state.data.name) + "-plan" + fileTag(v) + ".csv", "text/csv", v ? csvForVehicle(state.planCSV, v) : state.planCSV);
