@@ -49,17 +49,17 @@ func (p *polisher) wakeAround(i int) {
 
 // stopNow asks halt, within a pass, whether to stop at once: every 64
 // positions natively (so that a pass over a large route keeps the budget),
-// every 8 under GOOS=js, where halt also gives the host its turns when they
-// are due. A position costs at most a few thousand joins (tens of
-// microseconds in WebAssembly), so 8 of them stay far inside a turn; asking
-// at every position cost the WebAssembly build two clock readings, each a
+// every 16 under GOOS=js, where halt also gives the host its turns when
+// they are due. A position costs at most a few thousand joins (tens of
+// microseconds in WebAssembly), so 16 of them stay far inside a turn;
+// asking at every position cost the WebAssembly build a clock reading, a
 // call into JavaScript, per position, most of which are skipped as quiet.
 func (p *polisher) stopNow() bool {
 	if p.halt == nil {
 		return false
 	}
 	p.steps++
-	if p.steps&63 != 0 && (!turn.Enabled || p.steps&7 != 0) {
+	if p.steps&63 != 0 && (!turn.Enabled || p.steps&15 != 0) {
 		return false
 	}
 	return p.halt()

@@ -58,6 +58,14 @@ func (m *model) tk(k int) int64 {
 	return m.t64[k]
 }
 
+// travelAt is tk over the matrix slices held by the caller.
+func travelAt(t32 []int32, t64 []int64, k int) int64 {
+	if t32 != nil {
+		return int64(t32[k])
+	}
+	return t64[k]
+}
+
 // setT sets entry k of the travel matrix.
 func (m *model) setT(k int, v int64) {
 	if m.t32 != nil {
