@@ -3,7 +3,7 @@ package solver
 import (
 	"math"
 	"math/rand"
-	"sort"
+	"slices"
 )
 
 // search is one worker's large neighbourhood search state.
@@ -16,18 +16,19 @@ type search struct {
 	lam float64
 
 	// scratch
-	removed []int32
-	keep    []int32
-	rem     []int32 // repairInsert's visits still to place
-	ins     []int32 // repairInsert's next order
-	cs      []ranked
-	taken   []bool
-	perm    []int
-	inRem   []bool
-	at      []int32  // granular insertion: each node's position in the route
-	seen    []uint32 // granular insertion: places tried, by epoch
-	places  []int32  // granular insertion: the places to try
-	epoch   uint32
+	removed   []int32
+	keep      []int32
+	rem       []int32 // repairInsert's visits still to place
+	ins       []int32 // repairInsert's next order
+	cs        []ranked
+	taken     []bool
+	perm      []int
+	inRem     []bool
+	at        []int32  // granular insertion: each node's position in the route
+	seen      []uint32 // granular insertion: places tried, by epoch
+	places    []int32  // granular insertion: the places to try
+	exactSegs []seg    // exactSlice's summaries by depth
+	epoch     uint32
 
 	// statistics per destroy operator
 	weights []float64
@@ -172,7 +173,18 @@ type ranked struct {
 // drawing rank ⌊u^p·len⌋ for uniform u: strongly biased to the front for a
 // large p, yet random.
 func (s *search) pickBiased(cs []ranked, q int, p float64) {
-	sort.Slice(cs, func(a, b int) bool { return cs[a].key < cs[b].key || cs[a].key == cs[b].key && cs[a].v < cs[b].v })
+	// The order is total (the visits differ), so any sort gives the one
+	// result; slices.SortFunc does it without sort.Slice's reflection and
+	// its allocations.
+	slices.SortFunc(cs, func(a, b ranked) int {
+		switch {
+		case a.key < b.key || a.key == b.key && a.v < b.v:
+			return -1
+		case a.key == b.key && a.v == b.v:
+			return 0
+		}
+		return 1
+	})
 	taken := s.taken[:0]
 	for range cs {
 		taken = append(taken, false)

@@ -138,22 +138,28 @@ func (p *polisher) orOpt() bool {
 				if rev == 1 {
 					sf, sz = sz, sf
 				}
+				// The route, its summaries and the matrix in locals, and
+				// the arc that closes the gap left by the stretch, read
+				// once (see bestInsert).
+				r, fwd, bwd := x.r, x.fwd[:len(x.r)], x.bwd[:len(x.r)]
+				t32, t64, n := m.t32, m.t64, m.n
+				gap := travelAt(t32, t64, int(r[i-1])*n+int(r[j+1]))
 				// Backward: insert between r[q] and r[q+1], q < i-1.
 				var mid seg
 				for q := i - 2; q >= 0 && i-1-q <= p.maxScan; q-- {
-					nd := x.r[q+1]
+					nd := r[q+1]
 					if q == i-2 {
 						m.setUnit(&mid, nd)
 					} else {
-						m.pushFront(&mid, nd, m.arc(nd, x.r[q+2]))
+						m.pushFront(&mid, nd, travelAt(t32, t64, int(nd)*n+int(r[q+2])))
 					}
 					if p.anyMustBeforeNode(nd, i, j) {
 						break
 					}
-					if gran && !m.candArc(x.r[q], sf) && !m.candArc(sz, nd) {
+					if gran && !m.candArc(r[q], sf) && !m.candArc(sz, nd) {
 						continue
 					}
-					sd, stw, sc := joinTriple(&x.fwd[q], &S, &mid, &x.bwd[j+1], m.arc(x.r[q], sf), m.arc(sz, nd), m.arc(x.r[i-1], x.r[j+1]))
+					sd, stw, sc := joinTriple(&fwd[q], &S, &mid, &bwd[j+1], travelAt(t32, t64, int(r[q])*n+int(sf)), travelAt(t32, t64, int(sz)*n+int(nd)), gap)
 					if m.valueOf(sd, stw, sc, p.lam) < cur-improveEps {
 						p.applyOr(i, j, q, rev == 1)
 						improvedAny, found = true, true
@@ -161,20 +167,20 @@ func (p *polisher) orOpt() bool {
 					}
 				}
 				// Forward: insert between r[q] and r[q+1], q > j.
-				for q := j + 1; q <= len(x.r)-2 && q-j <= p.maxScan; q++ {
-					nd := x.r[q]
+				for q := j + 1; q <= len(r)-2 && q-j <= p.maxScan; q++ {
+					nd := r[q]
 					if q == j+1 {
 						m.setUnit(&mid, nd)
 					} else {
-						m.pushBack(&mid, nd, m.arc(x.r[q-1], nd))
+						m.pushBack(&mid, nd, travelAt(t32, t64, int(r[q-1])*n+int(nd)))
 					}
 					if p.mustPrecedeAnyNode(i, j, nd) {
 						break
 					}
-					if gran && !m.candArc(nd, sf) && !m.candArc(sz, x.r[q+1]) {
+					if gran && !m.candArc(nd, sf) && !m.candArc(sz, r[q+1]) {
 						continue
 					}
-					sd, stw, sc := joinTriple(&x.fwd[i-1], &mid, &S, &x.bwd[q+1], m.arc(x.r[i-1], x.r[j+1]), m.arc(nd, sf), m.arc(sz, x.r[q+1]))
+					sd, stw, sc := joinTriple(&fwd[i-1], &mid, &S, &bwd[q+1], gap, travelAt(t32, t64, int(nd)*n+int(sf)), travelAt(t32, t64, int(sz)*n+int(r[q+1])))
 					if m.valueOf(sd, stw, sc, p.lam) < cur-improveEps {
 						p.applyOr(i, j, q, rev == 1)
 						improvedAny, found = true, true
