@@ -46,6 +46,10 @@ type model struct {
 	// succ and pred are the candidate lists of granular insertion
 	// (granular.go), nil below granularFrom movable visits.
 	succ, pred [][]int32
+	// candBits holds candArc for every pair, candWords words per row: the
+	// lists are read there in one load instead of a scan of both.
+	candBits  []uint64
+	candWords int
 }
 
 func (m *model) T(i, j int) int64 { return m.tk(i*m.n + j) }
