@@ -144,14 +144,24 @@ func (p *polisher) orOpt() bool {
 				r, fwd, bwd := x.r, x.fwd[:len(x.r)], x.bwd[:len(x.r)]
 				t32, t64, n := m.t32, m.t64, m.n
 				gap := travelAt(t32, t64, int(r[i-1])*n+int(r[j+1]))
-				// Backward: insert between r[q] and r[q+1], q < i-1.
+				// Backward: insert between r[q] and r[q+1], q < i-1. The
+				// stretch between, mid, grows by one node a step (pushFront
+				// written out on five locals: most steps go no further than
+				// the candidate test, and a call per step is dear in
+				// WebAssembly).
 				var mid seg
+				var md, mtw, me, ml, mc int64
 				for q := i - 2; q >= 0 && i-1-q <= p.maxScan; q-- {
 					nd := r[q+1]
+					ud, utw, ue, ul, uc := m.unitOf(nd)
 					if q == i-2 {
-						m.setUnit(&mid, nd)
+						md, mtw, me, ml, mc = ud, utw, ue, ul, uc
 					} else {
-						m.pushFront(&mid, nd, travelAt(t32, t64, int(nd)*n+int(r[q+2])))
+						t := travelAt(t32, t64, int(nd)*n+int(r[q+2]))
+						dl := ud - utw + t
+						wt := max(me-dl-ul, 0)
+						w := max(ue+dl-ml, 0)
+						md, mtw, me, ml, mc = ud+md+t+wt, utw+mtw+w, max(me-dl, ue)-wt, min(ml-dl, ul)+w, uc+mc+t
 					}
 					if p.anyMustBeforeNode(nd, i, j) {
 						break
@@ -159,6 +169,7 @@ func (p *polisher) orOpt() bool {
 					if gran && !m.candArc(r[q], sf) && !m.candArc(sz, nd) {
 						continue
 					}
+					mid.d, mid.tw, mid.e, mid.l, mid.c = md, mtw, me, ml, mc
 					sd, stw, sc := joinTriple(&fwd[q], &S, &mid, &bwd[j+1], travelAt(t32, t64, int(r[q])*n+int(sf)), travelAt(t32, t64, int(sz)*n+int(nd)), gap)
 					if m.valueOf(sd, stw, sc, p.lam) < cur-improveEps {
 						p.applyOr(i, j, q, rev == 1)
@@ -169,10 +180,16 @@ func (p *polisher) orOpt() bool {
 				// Forward: insert between r[q] and r[q+1], q > j.
 				for q := j + 1; q <= len(r)-2 && q-j <= p.maxScan; q++ {
 					nd := r[q]
+					ud, utw, ue, ul, uc := m.unitOf(nd)
 					if q == j+1 {
-						m.setUnit(&mid, nd)
+						md, mtw, me, ml, mc = ud, utw, ue, ul, uc
 					} else {
-						m.pushBack(&mid, nd, travelAt(t32, t64, int(r[q-1])*n+int(nd)))
+						// pushBack written out, as above.
+						t := travelAt(t32, t64, int(r[q-1])*n+int(nd))
+						dl := md - mtw + t
+						wt := max(ue-dl-ml, 0)
+						w := max(me+dl-ul, 0)
+						md, mtw, me, ml, mc = md+ud+t+wt, mtw+utw+w, max(ue-dl, me)-wt, min(ul-dl, ml)+w, mc+uc+t
 					}
 					if p.mustPrecedeAnyNode(i, j, nd) {
 						break
@@ -180,6 +197,7 @@ func (p *polisher) orOpt() bool {
 					if gran && !m.candArc(nd, sf) && !m.candArc(sz, r[q+1]) {
 						continue
 					}
+					mid.d, mid.tw, mid.e, mid.l, mid.c = md, mtw, me, ml, mc
 					sd, stw, sc := joinTriple(&fwd[i-1], &mid, &S, &bwd[q+1], gap, travelAt(t32, t64, int(nd)*n+int(sf)), travelAt(t32, t64, int(sz)*n+int(r[q+1])))
 					if m.valueOf(sd, stw, sc, p.lam) < cur-improveEps {
 						p.applyOr(i, j, q, rev == 1)
@@ -255,16 +273,25 @@ func (p *polisher) twoOpt() bool {
 			continue
 		}
 		cur := m.valueAt(&x.fwd[len(x.r)-1], p.lam)
+		// The reversed stretch r[j..i], grown by one node a step on five
+		// locals (pushFront written out, as in orOpt).
 		var rev seg
-		m.setUnit(&rev, x.r[i])
+		rd, rtw, re, rl, rc := m.unitOf(x.r[i])
+		t32, t64, n := m.t32, m.t64, m.n
 		for j := i + 1; j <= len(x.r)-2 && j-i <= p.maxScan; j++ {
-			m.pushFront(&rev, x.r[j], m.arc(x.r[j], x.r[j-1]))
-			if feasible && rev.tw > 0 {
+			ud, utw, ue, ul, uc := m.unitOf(x.r[j])
+			t := travelAt(t32, t64, int(x.r[j])*n+int(x.r[j-1]))
+			dl := ud - utw + t
+			wt := max(re-dl-ul, 0)
+			w := max(ue+dl-rl, 0)
+			rd, rtw, re, rl, rc = ud+rd+t+wt, utw+rtw+w, max(re-dl, ue)-wt, min(rl-dl, ul)+w, uc+rc+t
+			if feasible && rtw > 0 {
 				break // longer reversals from i only add warp
 			}
 			if gran && !m.candArc(x.r[i-1], x.r[j]) && !m.candArc(x.r[i], x.r[j+1]) {
 				continue
 			}
+			rev.d, rev.tw, rev.e, rev.l, rev.c = rd, rtw, re, rl, rc
 			sd, stw, sc := joinPair(&x.fwd[i-1], &rev, &x.bwd[j+1], m.arc(x.r[i-1], x.r[j]), m.arc(x.r[i], x.r[j+1]))
 			if m.valueOf(sd, stw, sc, p.lam) < cur-improveEps {
 				p.wakeAround(i)
@@ -279,7 +306,6 @@ func (p *polisher) twoOpt() bool {
 				improvedAny = true
 				feasible = x.total().tw == 0
 				cur = m.valueAt(&x.fwd[len(x.r)-1], p.lam)
-				m.setUnit(&rev, x.r[i])
 				break
 			}
 		}
