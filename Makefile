@@ -80,8 +80,10 @@ bench-workers: lab
 
 # A CPU profile of fixed-iteration runs on a few instances of each kind,
 # for a profile-guided build (go build uses the main package's default.pgo
-# when it is there: the profile goes to both commands). Measured on a shared machine: about 10-30 % less CPU per
-# iteration, native and wasm alike; see the README's WebAssembly part.
+# when it is there: the profile goes to both commands). Measured again after
+# the search's joins were written out (issue 8, round 4): no native gain,
+# 3-18 % less WebAssembly CPU, so no default.pgo is committed; see
+# docs/results.md, "Speed per search worker (issue 8, round 4)".
 PGO_FILES ?= $(BENCH_DIR)/Dumas/n100w40.001.txt $(BENCH_DIR)/GendreauDumasExtended/n100w100.001.txt \
 	$(BENCH_DIR)/OhlmannThomas/n200w120.001.txt $(BENCH_DIR)/SolomonPesant/rc208.2 bin/gen/n300-tight.txt
 pgo: lab bin/gen/n300-tight.txt

@@ -45,15 +45,23 @@ func (s *search) exactSlice(x *route, a int, nodeBudget int) bool {
 	order := make([]int32, 0, q)
 	used := make([]bool, q)
 	nodes := 0
-	var dfs func(cur seg, last int32, bound int64) bool
-	dfs = func(cur seg, last int32, bound int64) bool {
+	// The partial orders' summaries, one per depth, written in place
+	// (passing 40-byte summaries by value is dear in WebAssembly).
+	if cap(s.exactSegs) < q+1 {
+		s.exactSegs = make([]seg, q+1)
+	}
+	segs := s.exactSegs[:q+1]
+	segs[0] = before
+	var dfs func(depth int, last int32, bound int64) bool
+	dfs = func(depth int, last int32, bound int64) bool {
 		nodes++
 		if nodes > nodeBudget {
 			return false
 		}
+		cur := &segs[depth]
 		if len(order) == q {
-			full := join(cur, after, m.arc(last, firstAfter))
-			if v := m.value(full, s.lam); v < bestVal-improveEps {
+			fd, ftw, fc := joinLast(cur, &after, m.arc(last, firstAfter))
+			if v := m.valueOf(fd, ftw, fc, s.lam); v < bestVal-improveEps {
 				bestVal = v
 				copy(bestOrder, order)
 			}
@@ -74,18 +82,20 @@ func (s *search) exactSlice(x *route, a int, nodeBudget int) bool {
 			if !ok {
 				continue
 			}
-			next := join(cur, m.unit(int(v)), m.arc(last, v))
+			next := &segs[depth+1]
+			next.d, next.tw, next.e, next.l, next.c = cur.d, cur.tw, cur.e, cur.l, cur.c
+			m.pushBack(next, v, m.arc(last, v))
 			nb := bound - minIn[i]
 			if m.obj == TravelTime {
-				if m.value(next, s.lam)+float64(nb) >= bestVal-improveEps {
+				if m.valueAt(next, s.lam)+float64(nb) >= bestVal-improveEps {
 					continue
 				}
-			} else if m.value(next, s.lam) >= bestVal-improveEps {
+			} else if m.valueAt(next, s.lam) >= bestVal-improveEps {
 				continue
 			}
 			used[i] = true
 			order = append(order, v)
-			if !dfs(next, v, nb) {
+			if !dfs(depth+1, v, nb) {
 				return false
 			}
 			order = order[:len(order)-1]
@@ -93,14 +103,14 @@ func (s *search) exactSlice(x *route, a int, nodeBudget int) bool {
 		}
 		return true
 	}
-	done := dfs(before, lastBefore, restBound)
+	done := dfs(0, lastBefore, restBound)
 	if !done {
 		return false
 	}
-	b := make([]int32, 0, len(x.r)+q)
-	b = append(b, x.r[:a]...)
+	b := append(s.ins[:0], x.r[:a]...)
 	b = append(b, bestOrder...)
 	b = append(b, x.r[a:]...)
+	s.ins = b
 	x.set(b)
 	return true
 }

@@ -104,11 +104,32 @@ func (m *model) buildGranular() {
 		}
 		m.succ[u] = c
 	}
+	// candArc(a, b) as one bit per pair (n²/8 bytes: 125 KB at 1,000 sites,
+	// 3 MB at 5,000), so that the local search's test, asked for every
+	// move it looks at on a large day, is one load and not a scan of 24.
+	m.candWords = (n + 63) / 64
+	m.candBits = make([]uint64, n*m.candWords)
+	for a, cs := range m.succ {
+		for _, b := range cs {
+			m.candBits[a*m.candWords+int(b)>>6] |= 1 << (uint(b) & 63)
+		}
+	}
+	for b, cs := range m.pred {
+		for _, a := range cs {
+			m.candBits[int(a)*m.candWords+b>>6] |= 1 << (uint(b) & 63)
+		}
+	}
 }
 
 // candArc says whether a→b is a candidate arc: b among a's nearest
 // successors or a among b's nearest predecessors.
 func (m *model) candArc(a, b int32) bool {
+	return m.candBits[int(a)*m.candWords+int(b)>>6]>>(uint(b)&63)&1 == 1
+}
+
+// candArcByLists is candArc read from the lists themselves (the tests hold
+// the two equal).
+func (m *model) candArcByLists(a, b int32) bool {
 	for _, c := range m.succ[a] {
 		if c == b {
 			return true
@@ -156,32 +177,51 @@ func (s *search) bestInsertGranular(x *route, v int32) (pos int, best, second fl
 	if len(s.seen) < len(r) {
 		s.seen = make([]uint32, 2*len(r))
 	}
-	try := func(p int) {
+	// The places to try, in the order they are tried: after each
+	// candidate predecessor, then before each candidate successor, each
+	// place once.
+	places := s.places[:0]
+	add := func(p int) {
 		if p < 0 || p >= len(r)-1 || s.seen[p] == s.epoch {
 			return
 		}
 		s.seen[p] = s.epoch
-		a, b := r[p], r[p+1]
-		if !m.infeas && (!m.arcOK(int(a), int(v)) || !m.arcOK(int(v), int(b))) {
-			return
+		places = append(places, int32(p))
+	}
+	for _, a := range m.pred[v] {
+		if p := s.at[a]; p >= 0 && int(p) < len(r) && r[p] == a {
+			add(int(p))
 		}
-		sd, stw, sc := joinPair(&x.fwd[p], &u, &x.bwd[p+1], m.arc(a, v), m.arc(v, b))
+	}
+	for _, b := range m.succ[v] {
+		if p := s.at[b]; p >= 0 && int(p) < len(r) && r[p] == b {
+			add(int(p) - 1)
+		}
+	}
+	s.places = places
+	// arcOK and arc written out over slices read once, as in bestInsert.
+	es, ss, ls, t32, t64, n := m.e, m.s, m.l, m.t32, m.t64, m.n
+	lv, evs := ls[v], es[v]+ss[v]
+	check := !m.infeas
+	fwd, bwd := x.fwd[:len(r)], x.bwd[:len(r)]
+	for _, p32 := range places {
+		p := int(p32)
+		a, b := r[p], r[p+1]
+		tav := travelAt(t32, t64, int(a)*n+int(v))
+		if check && (a == v || es[a]+ss[a]+tav > lv) {
+			continue
+		}
+		tvb := travelAt(t32, t64, int(v)*n+int(b))
+		if check && (v == b || evs+tvb > ls[b]) {
+			continue
+		}
+		sd, stw, sc := joinPair(&fwd[p], &u, &bwd[p+1], tav, tvb)
 		d := m.valueOf(sd, stw, sc, s.lam) - cur
 		if d < best || d == best && p < pos {
 			second = best
 			best, pos, bestTW = d, p, stw
 		} else if d < second {
 			second = d
-		}
-	}
-	for _, a := range m.pred[v] {
-		if p := s.at[a]; p >= 0 && int(p) < len(r) && r[p] == a {
-			try(int(p))
-		}
-	}
-	for _, b := range m.succ[v] {
-		if p := s.at[b]; p >= 0 && int(p) < len(r) && r[p] == b {
-			try(int(p) - 1)
 		}
 	}
 	if pos < 0 || feasible && bestTW > 0 {

@@ -148,3 +148,23 @@ func TestGranularSolveChecked(t *testing.T) {
 	checkPlan(t, in, TravelTime, res.Best)
 	assert.True(t, res.Best.Feasible)
 }
+
+// candArc, read from its table of bits, says what the candidate lists say
+// for every pair of nodes.
+func TestCandArcIsTheLists(t *testing.T) {
+	in, _ := windowedAround(7, granularFrom+30, 900)
+	m, err := newModel(in, TravelTime)
+	require.NoError(t, err)
+	require.True(t, m.granular())
+	yes := 0
+	for a := 0; a < m.n; a++ {
+		for b := 0; b < m.n; b++ {
+			want := m.candArcByLists(int32(a), int32(b))
+			require.Equal(t, want, m.candArc(int32(a), int32(b)), "arc %d→%d", a, b)
+			if want {
+				yes++
+			}
+		}
+	}
+	assert.Greater(t, yes, m.n*granularK, "each node has its successors and predecessors")
+}

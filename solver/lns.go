@@ -3,7 +3,7 @@ package solver
 import (
 	"math"
 	"math/rand"
-	"sort"
+	"slices"
 )
 
 // search is one worker's large neighbourhood search state.
@@ -16,17 +16,19 @@ type search struct {
 	lam float64
 
 	// scratch
-	removed []int32
-	keep    []int32
-	rem     []int32 // repairInsert's visits still to place
-	ins     []int32 // repairInsert's next order
-	cs      []ranked
-	taken   []bool
-	perm    []int
-	inRem   []bool
-	at      []int32  // granular insertion: each node's position in the route
-	seen    []uint32 // granular insertion: places tried, by epoch
-	epoch   uint32
+	removed   []int32
+	keep      []int32
+	rem       []int32 // repairInsert's visits still to place
+	ins       []int32 // repairInsert's next order
+	cs        []ranked
+	taken     []bool
+	perm      []int
+	inRem     []bool
+	at        []int32  // granular insertion: each node's position in the route
+	seen      []uint32 // granular insertion: places tried, by epoch
+	places    []int32  // granular insertion: the places to try
+	exactSegs []seg    // exactSlice's summaries by depth
+	epoch     uint32
 
 	// statistics per destroy operator
 	weights []float64
@@ -171,7 +173,18 @@ type ranked struct {
 // drawing rank ⌊u^p·len⌋ for uniform u: strongly biased to the front for a
 // large p, yet random.
 func (s *search) pickBiased(cs []ranked, q int, p float64) {
-	sort.Slice(cs, func(a, b int) bool { return cs[a].key < cs[b].key || cs[a].key == cs[b].key && cs[a].v < cs[b].v })
+	// The order is total (the visits differ), so any sort gives the one
+	// result; slices.SortFunc does it without sort.Slice's reflection and
+	// its allocations.
+	slices.SortFunc(cs, func(a, b ranked) int {
+		switch {
+		case a.key < b.key || a.key == b.key && a.v < b.v:
+			return -1
+		case a.key == b.key && a.v == b.v:
+			return 0
+		}
+		return 1
+	})
 	taken := s.taken[:0]
 	for range cs {
 		taken = append(taken, false)
@@ -205,20 +218,34 @@ func (s *search) bestInsert(x *route, v int32) (pos int, best, second float64) {
 	r := x.r
 	feasible := x.total().tw == 0
 	skipped := false
+	// The loop is arcOK and arc written out over slices read once: in
+	// WebAssembly every field of m read again is a load from linear memory
+	// and a bounds check more per place.
+	es, ss, ls, t32, t64, n := m.e, m.s, m.l, m.t32, m.t64, m.n
+	lv, evs := ls[v], es[v]+ss[v]
+	check := !m.infeas
+	fwd, bwd := x.fwd[:len(r)], x.bwd[:len(r)]
 	for p := 0; p < len(r)-1; p++ {
 		a, b := r[p], r[p+1]
-		if feasible && m.e[a] > m.l[v] {
+		ea := es[a]
+		if feasible && ea > lv {
 			// Starts only grow along a feasible route: from here on v
 			// would always start after its latest.
 			break
 		}
-		if !m.infeas && (!m.arcOK(int(a), int(v)) || !m.arcOK(int(v), int(b))) {
+		tav := travelAt(t32, t64, int(a)*n+int(v))
+		if check && (a == v || ea+ss[a]+tav > lv) {
 			// An arc no feasible plan can hold: try it only if nothing
 			// else is left.
 			skipped = true
 			continue
 		}
-		sd, stw, sc := joinPair(&x.fwd[p], &u, &x.bwd[p+1], m.arc(a, v), m.arc(v, b))
+		tvb := travelAt(t32, t64, int(v)*n+int(b))
+		if check && (v == b || evs+tvb > ls[b]) {
+			skipped = true
+			continue
+		}
+		sd, stw, sc := joinPair(&fwd[p], &u, &bwd[p+1], tav, tvb)
 		d := m.valueOf(sd, stw, sc, s.lam) - cur
 		if d < best {
 			second = best

@@ -49,17 +49,17 @@ func (p *polisher) wakeAround(i int) {
 
 // stopNow asks halt, within a pass, whether to stop at once: every 64
 // positions natively (so that a pass over a large route keeps the budget),
-// every 8 under GOOS=js, where halt also gives the host its turns when they
-// are due. A position costs at most a few thousand joins (tens of
-// microseconds in WebAssembly), so 8 of them stay far inside a turn; asking
-// at every position cost the WebAssembly build two clock readings, each a
+// every 16 under GOOS=js, where halt also gives the host its turns when
+// they are due. A position costs at most a few thousand joins (tens of
+// microseconds in WebAssembly), so 16 of them stay far inside a turn;
+// asking at every position cost the WebAssembly build a clock reading, a
 // call into JavaScript, per position, most of which are skipped as quiet.
 func (p *polisher) stopNow() bool {
 	if p.halt == nil {
 		return false
 	}
 	p.steps++
-	if p.steps&63 != 0 && (!turn.Enabled || p.steps&7 != 0) {
+	if p.steps&63 != 0 && (!turn.Enabled || p.steps&15 != 0) {
 		return false
 	}
 	return p.halt()
@@ -138,22 +138,39 @@ func (p *polisher) orOpt() bool {
 				if rev == 1 {
 					sf, sz = sz, sf
 				}
-				// Backward: insert between r[q] and r[q+1], q < i-1.
+				// The route, its summaries and the matrix in locals, and
+				// the arc that closes the gap left by the stretch, read
+				// once (see bestInsert).
+				r, fwd, bwd := x.r, x.fwd[:len(x.r)], x.bwd[:len(x.r)]
+				t32, t64, n := m.t32, m.t64, m.n
+				gap := travelAt(t32, t64, int(r[i-1])*n+int(r[j+1]))
+				// Backward: insert between r[q] and r[q+1], q < i-1. The
+				// stretch between, mid, grows by one node a step (pushFront
+				// written out on five locals: most steps go no further than
+				// the candidate test, and a call per step is dear in
+				// WebAssembly).
 				var mid seg
+				var md, mtw, me, ml, mc int64
 				for q := i - 2; q >= 0 && i-1-q <= p.maxScan; q-- {
-					nd := x.r[q+1]
+					nd := r[q+1]
+					ud, utw, ue, ul, uc := m.unitOf(nd)
 					if q == i-2 {
-						m.setUnit(&mid, nd)
+						md, mtw, me, ml, mc = ud, utw, ue, ul, uc
 					} else {
-						m.pushFront(&mid, nd, m.arc(nd, x.r[q+2]))
+						t := travelAt(t32, t64, int(nd)*n+int(r[q+2]))
+						dl := ud - utw + t
+						wt := max(me-dl-ul, 0)
+						w := max(ue+dl-ml, 0)
+						md, mtw, me, ml, mc = ud+md+t+wt, utw+mtw+w, max(me-dl, ue)-wt, min(ml-dl, ul)+w, uc+mc+t
 					}
 					if p.anyMustBeforeNode(nd, i, j) {
 						break
 					}
-					if gran && !m.candArc(x.r[q], sf) && !m.candArc(sz, nd) {
+					if gran && !m.candArc(r[q], sf) && !m.candArc(sz, nd) {
 						continue
 					}
-					sd, stw, sc := joinTriple(&x.fwd[q], &S, &mid, &x.bwd[j+1], m.arc(x.r[q], sf), m.arc(sz, nd), m.arc(x.r[i-1], x.r[j+1]))
+					mid.d, mid.tw, mid.e, mid.l, mid.c = md, mtw, me, ml, mc
+					sd, stw, sc := joinTriple(&fwd[q], &S, &mid, &bwd[j+1], travelAt(t32, t64, int(r[q])*n+int(sf)), travelAt(t32, t64, int(sz)*n+int(nd)), gap)
 					if m.valueOf(sd, stw, sc, p.lam) < cur-improveEps {
 						p.applyOr(i, j, q, rev == 1)
 						improvedAny, found = true, true
@@ -161,20 +178,27 @@ func (p *polisher) orOpt() bool {
 					}
 				}
 				// Forward: insert between r[q] and r[q+1], q > j.
-				for q := j + 1; q <= len(x.r)-2 && q-j <= p.maxScan; q++ {
-					nd := x.r[q]
+				for q := j + 1; q <= len(r)-2 && q-j <= p.maxScan; q++ {
+					nd := r[q]
+					ud, utw, ue, ul, uc := m.unitOf(nd)
 					if q == j+1 {
-						m.setUnit(&mid, nd)
+						md, mtw, me, ml, mc = ud, utw, ue, ul, uc
 					} else {
-						m.pushBack(&mid, nd, m.arc(x.r[q-1], nd))
+						// pushBack written out, as above.
+						t := travelAt(t32, t64, int(r[q-1])*n+int(nd))
+						dl := md - mtw + t
+						wt := max(ue-dl-ml, 0)
+						w := max(me+dl-ul, 0)
+						md, mtw, me, ml, mc = md+ud+t+wt, mtw+utw+w, max(ue-dl, me)-wt, min(ul-dl, ml)+w, mc+uc+t
 					}
 					if p.mustPrecedeAnyNode(i, j, nd) {
 						break
 					}
-					if gran && !m.candArc(nd, sf) && !m.candArc(sz, x.r[q+1]) {
+					if gran && !m.candArc(nd, sf) && !m.candArc(sz, r[q+1]) {
 						continue
 					}
-					sd, stw, sc := joinTriple(&x.fwd[i-1], &mid, &S, &x.bwd[q+1], m.arc(x.r[i-1], x.r[j+1]), m.arc(nd, sf), m.arc(sz, x.r[q+1]))
+					mid.d, mid.tw, mid.e, mid.l, mid.c = md, mtw, me, ml, mc
+					sd, stw, sc := joinTriple(&fwd[i-1], &mid, &S, &bwd[q+1], gap, travelAt(t32, t64, int(nd)*n+int(sf)), travelAt(t32, t64, int(sz)*n+int(r[q+1])))
 					if m.valueOf(sd, stw, sc, p.lam) < cur-improveEps {
 						p.applyOr(i, j, q, rev == 1)
 						improvedAny, found = true, true
@@ -249,16 +273,25 @@ func (p *polisher) twoOpt() bool {
 			continue
 		}
 		cur := m.valueAt(&x.fwd[len(x.r)-1], p.lam)
+		// The reversed stretch r[j..i], grown by one node a step on five
+		// locals (pushFront written out, as in orOpt).
 		var rev seg
-		m.setUnit(&rev, x.r[i])
+		rd, rtw, re, rl, rc := m.unitOf(x.r[i])
+		t32, t64, n := m.t32, m.t64, m.n
 		for j := i + 1; j <= len(x.r)-2 && j-i <= p.maxScan; j++ {
-			m.pushFront(&rev, x.r[j], m.arc(x.r[j], x.r[j-1]))
-			if feasible && rev.tw > 0 {
+			ud, utw, ue, ul, uc := m.unitOf(x.r[j])
+			t := travelAt(t32, t64, int(x.r[j])*n+int(x.r[j-1]))
+			dl := ud - utw + t
+			wt := max(re-dl-ul, 0)
+			w := max(ue+dl-rl, 0)
+			rd, rtw, re, rl, rc = ud+rd+t+wt, utw+rtw+w, max(re-dl, ue)-wt, min(rl-dl, ul)+w, uc+rc+t
+			if feasible && rtw > 0 {
 				break // longer reversals from i only add warp
 			}
 			if gran && !m.candArc(x.r[i-1], x.r[j]) && !m.candArc(x.r[i], x.r[j+1]) {
 				continue
 			}
+			rev.d, rev.tw, rev.e, rev.l, rev.c = rd, rtw, re, rl, rc
 			sd, stw, sc := joinPair(&x.fwd[i-1], &rev, &x.bwd[j+1], m.arc(x.r[i-1], x.r[j]), m.arc(x.r[i], x.r[j+1]))
 			if m.valueOf(sd, stw, sc, p.lam) < cur-improveEps {
 				p.wakeAround(i)
@@ -273,7 +306,6 @@ func (p *polisher) twoOpt() bool {
 				improvedAny = true
 				feasible = x.total().tw == 0
 				cur = m.valueAt(&x.fwd[len(x.r)-1], p.lam)
-				m.setUnit(&rev, x.r[i])
 				break
 			}
 		}

@@ -46,6 +46,10 @@ type model struct {
 	// succ and pred are the candidate lists of granular insertion
 	// (granular.go), nil below granularFrom movable visits.
 	succ, pred [][]int32
+	// candBits holds candArc for every pair, candWords words per row: the
+	// lists are read there in one load instead of a scan of both.
+	candBits  []uint64
+	candWords int
 }
 
 func (m *model) T(i, j int) int64 { return m.tk(i*m.n + j) }
@@ -56,6 +60,14 @@ func (m *model) tk(k int) int64 {
 		return int64(m.t32[k])
 	}
 	return m.t64[k]
+}
+
+// travelAt is tk over the matrix slices held by the caller.
+func travelAt(t32 []int32, t64 []int64, k int) int64 {
+	if t32 != nil {
+		return int64(t32[k])
+	}
+	return t64[k]
 }
 
 // setT sets entry k of the travel matrix.

@@ -79,6 +79,14 @@ func joinTriple(a, b, c, z *seg, t1, t2, t3 int64) (d, tw, cost int64) {
 	return d + z.d + t3 + wt, tw + z.tw + w, cost + z.c + t3
 }
 
+// joinLast is join(*a, *b, t) less its earliest and latest start.
+func joinLast(a, b *seg, t int64) (d, tw, cost int64) {
+	dl := a.d - a.tw + t
+	wt := max(b.e-dl-a.l, 0)
+	w := max(a.e+dl-b.l, 0)
+	return a.d + b.d + t + wt, a.tw + b.tw + w, a.c + b.c + t
+}
+
 // joinInto sets *r to join(*a, *b, t); r may be a or b. It stores field by
 // field: Go's WebAssembly code copies a whole summary with memory.copy, a
 // call out of the compiled code, where natively it is two or three moves.

@@ -240,7 +240,7 @@ func (e *engine) tick(ctx context.Context) (goOn bool, mixChanged []float64) {
 		e.finish(StopOf(ctx))
 		return false, nil
 	}
-	now := time.Now()
+	now := turn.Now()
 	if !e.deadline.IsZero() && !now.Before(e.deadline) {
 		e.finish(StopBudget)
 		return false, nil
@@ -305,7 +305,7 @@ func (e *engine) heartbeat(now time.Time) {
 	e.lastTick = now
 	if e.set.OnProgress != nil {
 		e.set.OnProgress(Progress{Iteration: e.iters, Elapsed: now.Sub(e.start), BestCost: e.best.Cost, Feasible: e.best.Feasible, Weights: normalised(e.weights)})
-		now = time.Now() // the report may have taken a while
+		now = turn.Now() // the report may have taken a while
 	}
 	e.giveTurn(now)
 }
@@ -326,7 +326,7 @@ func (e *engine) giveTurn(now time.Time) {
 // pastBudget says whether the time budget is over (without ending the
 // run: construction asks it to skip what it can do without).
 func (e *engine) pastBudget() bool {
-	return !e.deadline.IsZero() && !time.Now().Before(e.deadline)
+	return !e.deadline.IsZero() && !turn.Now().Before(e.deadline)
 }
 
 func (e *engine) interrupted(ctx context.Context) bool {
@@ -339,7 +339,7 @@ func (e *engine) interrupted(ctx context.Context) bool {
 		e.finish(StopOf(ctx))
 		return true
 	}
-	now := time.Now()
+	now := turn.Now()
 	if !e.deadline.IsZero() && !now.Before(e.deadline) {
 		e.finish(StopBudget)
 		return true

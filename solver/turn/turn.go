@@ -28,11 +28,27 @@ const Every = 20 * time.Millisecond
 // goroutine is runnable.
 var Host = func() { time.Sleep(time.Millisecond) }
 
+// Now reads the clock for deadlines and turns. Under GOOS=js time.Now
+// asks JavaScript twice (the wall clock and the monotonic clock), and the
+// search reads the clock often; Now asks once, for the monotonic clock,
+// and dates it from a base read at start-up. Its wall-clock reading is the
+// base's plus the time elapsed, which is all that durations, deadlines and
+// Before need (they compare the monotonic readings). Natively it is
+// time.Now.
+func Now() time.Time {
+	if Enabled {
+		return base.Add(time.Since(base))
+	}
+	return time.Now()
+}
+
+var base = time.Now()
+
 // Give hands the host a turn now (when Enabled; natively it returns at once).
 func Give() {
 	if Enabled {
 		Host()
-		last = time.Now()
+		last = Now()
 	}
 }
 
@@ -78,7 +94,7 @@ func Due() bool {
 	if !Enabled {
 		return false
 	}
-	return DueAt(time.Now())
+	return DueAt(Now())
 }
 
 // DueAt is Due for a caller that has just read the clock (now): in
@@ -95,6 +111,6 @@ func DueAt(now time.Time) bool {
 		return false
 	}
 	Host()
-	last = time.Now()
+	last = Now()
 	return true
 }

@@ -2,6 +2,7 @@ package turn
 
 import (
 	"testing"
+	"time"
 
 	"github.com/stretchr/testify/assert"
 )
@@ -46,4 +47,18 @@ func TestAddCountsWeightedSteps(t *testing.T) {
 	assert.True(t, p.Add(1))
 	assert.True(t, p.Add(5*checkEvery), "one big step is due at once")
 	assert.False(t, p.Step())
+}
+
+// Now stays in order with time.Now (by the monotonic clock, as deadlines
+// compare), in either build: read between two readings of time.Now, it
+// falls between them.
+func TestNowIsInOrderWithTimeNow(t *testing.T) {
+	for i := 0; i < 1000; i++ {
+		a := time.Now()
+		n := Now()
+		b := time.Now()
+		assert.False(t, n.Before(a), "Now before an earlier time.Now")
+		assert.False(t, b.Before(n), "Now after a later time.Now")
+		assert.False(t, n.Sub(a) < 0)
+	}
 }

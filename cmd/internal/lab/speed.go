@@ -10,6 +10,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"runtime"
+	"slices"
 	"strconv"
 	"strings"
 )
@@ -35,7 +36,14 @@ type speedRow struct {
 	// CPURatio is the native CPU time of iterations N+1..2N over the
 	// WebAssembly one: the rate ratio measured in CPU time.
 	CPURatio float64 `json:"cpu_ratio"`
-	SameCost bool    `json:"same_cost"`
+	// CPURatioBest is the same from the least CPU time of each side over
+	// the repeats: on a shared machine other work only adds CPU time to a
+	// run (caches and cores shared), so the least is the steadiest figure.
+	CPURatioBest float64 `json:"cpu_ratio_best"`
+	// NativeCPUs and WasmCPUs are the CPU times of every repeat.
+	NativeCPUs []float64 `json:"native_cpu_repeats,omitempty"`
+	WasmCPUs   []float64 `json:"wasm_cpu_repeats,omitempty"`
+	SameCost   bool      `json:"same_cost"`
 }
 
 type speedReport struct {
@@ -148,6 +156,10 @@ func runSpeed(args []string, stdout, stderr io.Writer) error {
 		if row.WasmCPU > 0 {
 			row.CPURatio = row.NativeCPU / row.WasmCPU
 		}
+		row.NativeCPUs, row.WasmCPUs = nCPU, wCPU
+		if w := slices.Min(wCPU); w > 0 {
+			row.CPURatioBest = slices.Min(nCPU) / w
+		}
 		row.SameCost = row.NativeCost == row.WasmCost
 		rep.Rows = append(rep.Rows, row)
 		fmt.Fprintf(stdout, "%-44s %5d %10.3f %10.3f %7.2f %7.2f %v\n", file, row.Nodes, row.NativeSec, row.WasmSec, row.Ratio, row.CPURatio, row.SameCost)
@@ -194,19 +206,28 @@ func defaultWasmRunner() string {
 
 func publishSpeed(rep speedReport, readme string, stdout io.Writer) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "`%s`: runner `%s`; %s. Same seed and iteration budgets on both sides, so both do the same work. Each side runs N and 2N iterations; \"s\" is the wall-clock time of the 2N run inside the run (start-up and reading the file left out), \"CPU\" the process CPU time of the 2N run less that of the N run (iterations N+1..2N alone, whatever the load on the machine); medians of the repeats.\n\n",
+	fmt.Fprintf(&b, "`%s`: runner `%s`; %s. Same seed and iteration budgets on both sides, so both do the same work. Each side runs N and 2N iterations; \"s\" is the wall-clock time of the 2N run inside the run (start-up and reading the file left out), \"CPU\" the process CPU time of the 2N run less that of the N run (iterations N+1..2N alone, whatever the load on the machine); medians of the repeats, and the CPU ratio also from the least CPU time of each side over the repeats (\"best\": on a shared machine other work only adds CPU time to a run).\n\n",
 		rep.Command, filepath.Base(strings.Fields(rep.Runner + " x")[0]), rep.Machine)
-	b.WriteString("| instance | nodes | N | native s | wasm s | rate ratio (wall) | native CPU s | wasm CPU s | rate ratio (CPU) | same plan |\n")
-	b.WriteString("|---|---|---|---|---|---|---|---|---|---|\n")
-	var ratios, cpuRatios []float64
+	b.WriteString("| instance | nodes | N | native s | wasm s | rate ratio (wall) | native CPU s | wasm CPU s | rate ratio (CPU) | rate ratio (CPU, best) | same plan |\n")
+	b.WriteString("|---|---|---|---|---|---|---|---|---|---|---|\n")
+	var ratios, cpuRatios, bestRatios []float64
 	for _, r := range rep.Rows {
-		fmt.Fprintf(&b, "| %s | %d | %d | %.3f | %.3f | %.2f | %.3f | %.3f | %.2f | %s |\n", strings.TrimPrefix(r.File, "../shared/benchmarks/tsptw/"), r.Nodes, r.Iterations,
-			r.NativeSec, r.WasmSec, r.Ratio, r.NativeCPU, r.WasmCPU, r.CPURatio, yesNo(r.SameCost))
+		best := "-" // a result file from before the best of the repeats was kept
+		if r.CPURatioBest > 0 {
+			best = fmt.Sprintf("%.2f", r.CPURatioBest)
+			bestRatios = append(bestRatios, r.CPURatioBest)
+		}
+		fmt.Fprintf(&b, "| %s | %d | %d | %.3f | %.3f | %.2f | %.3f | %.3f | %.2f | %s | %s |\n", strings.TrimPrefix(r.File, "../shared/benchmarks/tsptw/"), r.Nodes, r.Iterations,
+			r.NativeSec, r.WasmSec, r.Ratio, r.NativeCPU, r.WasmCPU, r.CPURatio, best, yesNo(r.SameCost))
 		ratios = append(ratios, r.Ratio)
 		cpuRatios = append(cpuRatios, r.CPURatio)
 	}
 	if len(ratios) > 0 {
-		fmt.Fprintf(&b, "\nMedian wasm rate / native rate: %.2f by CPU time, %.2f by wall clock (target at least 0.5).\n", median(cpuRatios), median(ratios))
+		fmt.Fprintf(&b, "\nMedian wasm rate / native rate: %.2f by CPU time", median(cpuRatios))
+		if len(bestRatios) > 0 {
+			fmt.Fprintf(&b, " (%.2f from the best of the repeats)", median(bestRatios))
+		}
+		fmt.Fprintf(&b, ", %.2f by wall clock (target at least 0.6, and 0.5 at 1,000 sites).\n", median(ratios))
 	}
 	fmt.Fprint(stdout, "\n"+b.String())
 	if readme != "" {

@@ -2,6 +2,7 @@ package solver
 
 import (
 	"math/rand"
+	"sort"
 	"testing"
 
 	"github.com/stretchr/testify/require"
@@ -34,6 +35,10 @@ func TestFusedJoinsAreJoin(t *testing.T) {
 			d, tw, cost = joinTriple(&a, &b, &c, &z, t1, t2, t3)
 			require.Equal(t, [3]int64{want.d, want.tw, want.c}, [3]int64{d, tw, cost}, "triple, trial %d", trial)
 			require.Equal(t, m.value(want, lam), m.valueOf(d, tw, cost, lam), "triple value, trial %d", trial)
+
+			want = join(a, b, t1)
+			d, tw, cost = joinLast(&a, &b, t1)
+			require.Equal(t, [3]int64{want.d, want.tw, want.c}, [3]int64{d, tw, cost}, "last, trial %d", trial)
 
 			var r seg
 			joinInto(&r, &a, &b, t1)
@@ -130,5 +135,26 @@ func TestForwardBackwardAreJoin(t *testing.T) {
 				require.Equal(t, m.endSeg, got)
 			}
 		}
+	}
+}
+
+// pickBiased leaves the candidates in the order sort.Slice gave them
+// before (key, then visit), ties in the key included.
+func TestPickBiasedOrdersAsBefore(t *testing.T) {
+	rng := rand.New(rand.NewSource(13))
+	s := &search{rng: rand.New(rand.NewSource(1))}
+	for trial := 0; trial < 200; trial++ {
+		var cs []ranked
+		for _, v := range rng.Perm(40) {
+			cs = append(cs, ranked{int32(v), float64(rng.Intn(8))})
+		}
+		want := append([]ranked(nil), cs...)
+		sort.Slice(want, func(a, b int) bool {
+			return want[a].key < want[b].key || want[a].key == want[b].key && want[a].v < want[b].v
+		})
+		s.removed = s.removed[:0]
+		s.pickBiased(cs, 5, 3)
+		require.Equal(t, want, cs, "trial %d", trial)
+		require.Len(t, s.removed, 5)
 	}
 }
