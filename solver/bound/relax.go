@@ -91,6 +91,9 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 		if v := p.pinOf[i]; v >= 0 && v != int32(idx) {
 			return false
 		}
+		if p.minPos != nil && (int32(idx) < p.minPos[i] || int32(idx) > p.maxPos[i]) {
+			return false
+		}
 		return true
 	}
 	var cands, sorted []cand
