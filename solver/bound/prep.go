@@ -44,6 +44,12 @@ type prob struct {
 	// feasible route: at least one more than the nodes that must precede
 	// it, at most n-1 less the nodes that must follow it (and the pins).
 	minPos, maxPos []int32
+	// elim, when set, holds the (route index, arc) pairs that no route
+	// cheaper than elimUB takes (see eliminate); bounds computed with them
+	// hold as min(elimUB, bound). revp caches the reversed day.
+	elim   []uint64
+	elimUB int64
+	revp   *prob
 
 	mustBeforeTmp [][]bool
 	y             yielder         // turns for the host during the cubic steps
