@@ -84,6 +84,9 @@ func reportOptions(t *testing.T) Options {
 		require.NoError(t, err)
 		o.Neighbours = k
 	}
+	if os.Getenv("VISITLINE_BOUND_ELIM") == "1" {
+		o.ArcElimination = true
+	}
 	if v := os.Getenv("VISITLINE_BOUND_NGMAX"); v != "" {
 		k, err := strconv.Atoi(v)
 		require.NoError(t, err)

@@ -24,7 +24,7 @@ type Options struct {
 	// 64 up to 250, 32 above: larger tables converge too slowly to pay).
 	StateLabels int
 	// Neighbours is the size of the ng-route neighbourhoods of the
-	// relaxation, each node counted in its own (default 6 up to 120 nodes,
+	// relaxation, each node counted in its own (default 6 up to 250 nodes,
 	// 4 above; at most 12);
 	// NeighboursMax, when larger, lets them grow where the relaxed path
 	// cycles (decremental state-space relaxation). Larger neighbourhoods
@@ -41,8 +41,14 @@ type Options struct {
 	// route (default 2^25, about 270 MB).
 	HistoryLabels int
 	// RelaxShare is the share of the context's remaining time that the
-	// penalty ascent may use before the exact search starts (default 0.6).
+	// penalty ascent may use before the exact search starts (default 0.6,
+	// 0.8 from 121 to 250 nodes).
 	RelaxShare float64
+	// ArcElimination turns on the removal of arcs (by route index) that no
+	// route cheaper than the best known one can take (see eliminate). It is
+	// off by default: at 10 CPU s on the published days it did not pay
+	// (docs/results.md).
+	ArcElimination bool
 }
 
 func (o Options) withDefaults() Options {
@@ -180,11 +186,17 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 			o.StateLabels = 64
 		}
 	}
-	if o.Neighbours <= 0 && in.N <= largeN {
-		// Up to largeN nodes the tables hold enough labels per state for
-		// memories of 6; above, with 32 labels per state, 4 gives the better
-		// bound (docs/results.md).
+	if o.Neighbours <= 0 && in.N <= mediumN {
+		// With the states cut to the route indices each node can take,
+		// memories of 6 give the better bound up to mediumN nodes at 10
+		// CPU s (docs/results.md); above, untested, 4 stay.
 		o.Neighbours = smallNG
+	}
+	if o.RelaxShare <= 0 && in.N > largeN && in.N <= mediumN {
+		// Measured on the published days of 151-201 nodes: 0.8 of the
+		// time for the penalty ascent gave the better bound at 10 CPU s
+		// (docs/results.md).
+		o.RelaxShare = 0.8
 	}
 	o = o.withDefaults()
 	var b Bound
@@ -251,13 +263,16 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 	var rx *relax
 	u0, _ := b.ub(o)
 	asc := newAscent(p, obj, lagrangeOpts{iters: o.Iterations, perState: o.StateLabels, maxTotal: o.TableLabels, ub: u0,
-		ngSize: o.Neighbours, ngMax: o.NeighboursMax})
+		ngSize: o.Neighbours, ngMax: o.NeighboursMax, noElim: !o.ArcElimination})
 	asc.warm(apPot)
 	if ctx.Err() == nil {
 		lctx, cancel := shareOf(ctx, o.RelaxShare)
 		asc.run(lctx, o.Iterations, y)
 		cancel()
 		rx, route := asc.best, asc.route
+		if asc.ubRoute != nil {
+			b.offerChecked(in, asc.ubRoute, obj)
+		}
 		switch {
 		case rx == nil:
 			b.Notes = append(b.Notes, "state-space bound skipped: the table does not fit the label cap or time ran out")
@@ -276,6 +291,12 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 	b.checkProven(o)
 	if !exact || b.ProvenOptimal || sctx.Err() != nil {
 		return b
+	}
+	// A last round of arc elimination with the best penalties, for the
+	// exact search.
+	if u, ok := b.ub(o); ok && asc.elim && asc.best != nil && asc.lastElim != asc.iters {
+		asc.target = min(asc.target, u)
+		asc.eliminate(sctx, y)
 	}
 	rx = asc.best
 	if rx != nil && rx.z == inf {
@@ -302,6 +323,9 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 		}
 		if asc.route != nil {
 			b.offerChecked(in, asc.route, obj)
+		}
+		if asc.ubRoute != nil {
+			b.offerChecked(in, asc.ubRoute, obj)
 		}
 		b.checkProven(o)
 	}
@@ -468,7 +492,7 @@ func WithCPUBudget(parent context.Context, budget time.Duration, clock func() ti
 	return c, cancel
 }
 
-// smallNG is the ng-neighbourhood size up to largeN nodes.
+// smallNG is the ng-neighbourhood size up to mediumN nodes.
 const smallNG = 6
 
 // mediumN is the size up to which the coarser tables keep 64 labels per

@@ -410,7 +410,7 @@ func runDP(ctx context.Context, p *prob, cfg dpConfig) dpResult {
 				dep := t + p.s[i]
 				for _, j32 := range succ {
 					j := int(j32)
-					if j == p.start {
+					if j == p.start || p.eliminated(k-1, i, j) {
 						continue
 					}
 					rj := p.rank[j]
@@ -431,7 +431,7 @@ func runDP(ctx context.Context, p *prob, cfg dpConfig) dpResult {
 					if p.mustBefore != nil && p.mustBefore[j] != nil && !subset(p.mustBefore[j], words) {
 						continue
 					}
-					if final && p.shape == solver.Closed && (!p.arc[j*n+p.start] || stj+p.s[j]+p.t(j, p.start) > p.lateRet) {
+					if final && p.shape == solver.Closed && (!p.arc[j*n+p.start] || p.eliminated(n-1, j, p.start) || stj+p.s[j]+p.t(j, p.start) > p.lateRet) {
 						continue
 					}
 					if final && p.end >= 0 && j != p.end {

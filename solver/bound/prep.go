@@ -40,6 +40,16 @@ type prob struct {
 	cut        bool       // ctx ended before the tables were built: use nothing of p
 	why        string     // a short reason when infeasible
 	pinned     bool       // some node other than the start is pinned (fixed prefix or positions)
+	// minPos[i] and maxPos[i] bound the route index of node i in every
+	// feasible route: at least one more than the nodes that must precede
+	// it, at most n-1 less the nodes that must follow it (and the pins).
+	minPos, maxPos []int32
+	// elim, when set, holds the (route index, arc) pairs that no route
+	// cheaper than elimUB takes (see eliminate); bounds computed with them
+	// hold as min(elimUB, bound). revp caches the reversed day.
+	elim   []uint64
+	elimUB int64
+	revp   *prob
 
 	mustBeforeTmp [][]bool
 	y             yielder         // turns for the host during the cubic steps
@@ -461,6 +471,43 @@ func (p *prob) finishSets() {
 			}
 			if len(flat) > from {
 				p.succ[i] = flat[from:len(flat):len(flat)]
+			}
+		}
+	}
+	p.minPos, p.maxPos = make([]int32, n), make([]int32, n)
+	for i := 0; i < n; i++ {
+		p.minPos[i], p.maxPos[i] = 1, int32(n-1)
+		if i == p.start {
+			p.maxPos[i] = 0
+		}
+		if k := p.pinOf[i]; k >= 0 {
+			p.minPos[i], p.maxPos[i] = k, k
+		}
+	}
+	if p.mustBeforeTmp != nil {
+		// Position ranges from the precedences (Christofides, Mingozzi and
+		// Toth 1981 use the same counts to restrict the n-path relaxation's
+		// states): before[j][i] says i must precede j, the start excluded.
+		for j := 0; j < n; j++ {
+			if j == p.start {
+				continue
+			}
+			for i := 0; i < n; i++ {
+				if i != j && i != p.start && p.mustBeforeTmp[j][i] {
+					if p.pinOf[j] < 0 {
+						p.minPos[j]++
+					}
+					if p.pinOf[i] < 0 {
+						p.maxPos[i]--
+					}
+				}
+			}
+		}
+		for i := 0; i < n; i++ {
+			if p.minPos[i] > p.maxPos[i] {
+				// Cannot happen with consistent precedences and pins;
+				// keep the ranges valid rather than trust them.
+				p.minPos[i], p.maxPos[i] = 0, int32(n-1)
 			}
 		}
 	}

@@ -139,8 +139,15 @@ func TestExactMatchesEnumerationWithPins(t *testing.T) {
 
 func checkAgainstEnumeration(t *testing.T, name string, in *solver.Instance, obj solver.Objective) {
 	t.Helper()
+	checkAgainstEnumerationWith(t, name, in, Options{Objective: obj})
+}
+
+// checkAgainstEnumerationWith is checkAgainstEnumeration with options.
+func checkAgainstEnumerationWith(t *testing.T, name string, in *solver.Instance, o Options) {
+	t.Helper()
+	obj := o.Objective
 	want, wantCost, ok := Enumerate(in, obj)
-	b := Exact(context.Background(), in, Options{Objective: obj})
+	b := Exact(context.Background(), in, o)
 	for _, note := range b.Notes {
 		require.NotContains(t, note, "internal error", name)
 	}
@@ -158,7 +165,7 @@ func checkAgainstEnumeration(t *testing.T, name string, in *solver.Instance, obj
 	require.True(t, sch.Feasible, name)
 	require.Equal(t, wantCost, sch.Cost(obj), name)
 	// The bounds alone never exceed the optimum.
-	l := Lower(context.Background(), in, Options{Objective: obj})
+	l := Lower(context.Background(), in, o)
 	require.False(t, l.Infeasible, name)
 	if l.Valid {
 		require.LessOrEqual(t, l.Value, wantCost, "%s: bound by %s", name, l.Method)

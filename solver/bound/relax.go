@@ -91,6 +91,9 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 		if v := p.pinOf[i]; v >= 0 && v != int32(idx) {
 			return false
 		}
+		if p.minPos != nil && (int32(idx) < p.minPos[i] || int32(idx) > p.maxPos[i]) {
+			return false
+		}
 		return true
 	}
 	var cands, sorted []cand
@@ -137,6 +140,7 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 			if !allowedAt(i, idx) {
 				continue
 			}
+			eti := p.et[i]
 			// A state's work grows with its successors (their labels are
 			// merged and sorted): count it so, so that a turn comes every
 			// few milliseconds at any size.
@@ -147,9 +151,9 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 			if r == 0 {
 				switch {
 				case p.shape == solver.Closed:
-					if n > 1 && p.arc[i*n+p.start] {
+					if n > 1 && p.arc[i*n+p.start] && !p.eliminated(n-1, i, p.start) {
 						L := min(p.lt[i], p.lateRet-p.s[i]-p.t(i, p.start))
-						if L >= p.et[i] {
+						if L >= eti {
 							cands = append(cands, cand{L, cost(i, p.start), 1, -1})
 						}
 					}
@@ -164,7 +168,7 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 				base := (r - 1) * n
 				for _, j32 := range p.succ[i] {
 					j := int(j32)
-					if j == p.start {
+					if j == p.start || p.eliminated(idx, i, j) {
 						continue
 					}
 					a, b := lb.off[base+j], lb.off[base+j+1]
@@ -187,7 +191,7 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 					tab := ng.table(j, i)
 					for k := a; k < b; k++ {
 						L := lb.L[k] - dt
-						if L < p.et[i] {
+						if L < eti {
 							break
 						}
 						if lb.M[k]&block != 0 {
@@ -270,10 +274,18 @@ func buildRelax(ctx context.Context, p *prob, obj solver.Objective, lam []int64,
 		if obj == solver.CompletionTime {
 			rx.z += p.e[p.start]
 		}
+		if p.elim != nil {
+			rx.z = min(rx.z, p.elimUB)
+		}
 		rx.path = append(rx.path, p.start)
 		for k := bestK; lb.sl[k] >= 0; k = lb.sl[k] {
 			rx.path = append(rx.path, int(lb.node[lb.sl[k]]))
 		}
+	}
+	if p.elim != nil && rx.z == inf {
+		// No relaxed path avoids the removed arcs: no route is cheaper
+		// than the one that removed them.
+		rx.z = p.elimUB
 	}
 	// Lookup envelopes.
 	rx.envOff = make([]int32, n*n+1)
@@ -513,6 +525,7 @@ type lagrangeOpts struct {
 	// where the relaxed path cycles); ngFull makes them the whole instance.
 	ngSize, ngMax int
 	ngFull        bool
+	noElim        bool // no arc elimination
 }
 
 // defaultNG is the neighbourhood size when none is set.
@@ -540,10 +553,20 @@ type ascent struct {
 	route []int
 	// done: converged, proven, shown infeasible, or out of room.
 	done bool
+	// ubRoute is the cheapest feasible route among the relaxed paths (nil
+	// when none), of cost ubCost: the caller must know every route whose
+	// cost the target (and so arc elimination) uses.
+	ubRoute []int
+	ubCost  int64
+	// elim turns on arc elimination (elimOK); lastElim is the iteration of
+	// the last round, removed the pairs removed so far.
+	elim     bool
+	lastElim int
+	removed  int
 }
 
 func newAscent(p *prob, obj solver.Objective, o lagrangeOpts) *ascent {
-	a := &ascent{p: p, obj: obj, o: o, lamF: make([]float64, p.n), lam: make([]int64, p.n), mu: 2, target: o.ub}
+	a := &ascent{p: p, obj: obj, o: o, lamF: make([]float64, p.n), lam: make([]int64, p.n), mu: 2, target: o.ub, elim: elimOK(p, obj) && !o.noElim}
 	switch {
 	case o.ngFull && p.n <= maxNG:
 		a.ng = fullNGSets(p.n)
@@ -629,6 +652,7 @@ func (a *ascent) run(ctx context.Context, iters int, y *yielder) {
 			}
 			if sch.Feasible && sch.Cost(a.obj) < a.target {
 				a.target = sch.Cost(a.obj)
+				a.ubRoute, a.ubCost = append([]int(nil), rx.path...), a.target
 			}
 		}
 		if !elementary {
@@ -646,6 +670,13 @@ func (a *ascent) run(ctx context.Context, iters int, y *yielder) {
 		if a.target < inf && a.target <= a.best.z {
 			a.done = true // the bound has closed on the best known cost
 			return
+		}
+		if a.elim && a.best == rx && a.iters-a.lastElim >= elimEvery &&
+			float64(a.target-rx.z) < elimGap*float64(abs64(rx.z)) {
+			a.eliminate(ctx, y)
+			if ctx.Err() != nil {
+				return
+			}
 		}
 		// The step aims at the best known cost, but no further than a
 		// little above the best bound: a poor first plan would otherwise
@@ -688,6 +719,28 @@ func (a *ascent) run(ctx context.Context, iters int, y *yielder) {
 		}
 	}
 }
+
+// eliminate runs a round of arc elimination with the best table's
+// penalties and the best known cost.
+func (a *ascent) eliminate(ctx context.Context, y *yielder) {
+	if !a.elim || a.best == nil || a.target >= inf {
+		return
+	}
+	a.lastElim = a.iters
+	k, ok := eliminate(ctx, a.p, a.best, a.target, a.o.perState, a.o.maxTotal, y)
+	a.removed += k
+	if !ok && ctx.Err() == nil {
+		a.elim = false // the reversed tables do not fit
+	}
+}
+
+// elimEvery is the least number of penalty steps between rounds of arc
+// elimination, and elimGap the largest relative gap between the best
+// bound and the best known cost at which a round is tried.
+var (
+	elimEvery = 10
+	elimGap   = 0.1
+)
 
 // deflect turns on the deflected subgradient steps.
 var deflect = true
