@@ -161,22 +161,31 @@ func (d *Decoder) peek() byte {
 	return 0
 }
 
+// opening looks at what starts a value that must be an object or a list:
+// open when its opening byte (first) is next; null (read) gives isNull;
+// another kind is a TypeError, and its value is skipped.
+func (d *Decoder) opening(first byte, want string) (open, isNull bool) {
+	switch c := d.peek(); c {
+	case 0:
+		return false, false
+	case 'n':
+		d.literal()
+		return false, true
+	case first:
+		return true, false
+	default:
+		d.mistype(d.kindAt(c), want)
+		d.Skip()
+		return false, false
+	}
+}
+
 // Object reads an object, calling field for each key with the canonical
 // name it matches (see Fields), or skipping the value when the key names
 // no field. field must read the value. null leaves the target as it is;
 // another kind is a TypeError. It says whether an object was read.
 func (d *Decoder) Object(names []string, field func(name string)) bool {
-	c := d.peek()
-	switch c {
-	case 0:
-		return false
-	case 'n':
-		d.literal()
-		return false
-	case '{':
-	default:
-		d.mistype(d.kindAt(c), WantObject)
-		d.Skip()
+	if open, _ := d.opening('{', WantObject); !open {
 		return false
 	}
 	return d.object(func(key []byte) {
@@ -195,18 +204,8 @@ func (d *Decoder) Object(names []string, field func(name string)) bool {
 // unquoted): a map's keys are not part of a TypeError's field, as with
 // encoding/json. null gives isNull.
 func (d *Decoder) Map(value func(key string)) (read, isNull bool) {
-	c := d.peek()
-	switch c {
-	case 0:
-		return false, false
-	case 'n':
-		d.literal()
-		return false, true
-	case '{':
-	default:
-		d.mistype(d.kindAt(c), WantObject)
-		d.Skip()
-		return false, false
+	if open, isNull := d.opening('{', WantObject); !open {
+		return false, isNull
 	}
 	return d.object(func(key []byte) { value(unquote(key)) }), false
 }
@@ -281,18 +280,8 @@ func (d *Decoder) object(value func(key []byte)) bool {
 // it). null gives isNull; another kind is a TypeError (want: what the
 // field wants, in words).
 func (d *Decoder) Array(elem func()) (read, isNull bool) {
-	c := d.peek()
-	switch c {
-	case 0:
-		return false, false
-	case 'n':
-		d.literal()
-		return false, true
-	case '[':
-	default:
-		d.mistype(d.kindAt(c), WantList)
-		d.Skip()
-		return false, false
+	if open, isNull := d.opening('[', WantList); !open {
+		return false, isNull
 	}
 	return d.array(elem), false
 }
