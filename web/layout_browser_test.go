@@ -12,6 +12,7 @@ import (
 	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 	"time"
@@ -439,4 +440,25 @@ func TestLongPlanTableShowsTheFirstRowsAndAllOnAsking(t *testing.T) {
 	for i, id := range ids {
 		assert.Equal(t, id, strings.Split(lines[1+i], ",")[1], "row %d", i+1)
 	}
+}
+
+// A day where every visit is late names the first dozen late visits and
+// counts the rest, rather than burying its sentence under hundreds of
+// names (a 1,000-site day stopped early listed 666).
+func TestWhyNamesTheFirstDozenLateVisits(t *testing.T) {
+	ctx, _ := tab(t)
+	openPage(t, ctx, "")
+	var b strings.Builder
+	b.WriteString("id,x,y,open,close,service\nD,0,0,0,100000,0\n")
+	for i := 1; i <= 20; i++ {
+		fmt.Fprintf(&b, "S%d,%d,0,0,1,1\n", i, 50+i) // an hour away, due within a minute
+	}
+	paste(t, ctx, b.String())
+	waitFor(t, ctx, `!document.querySelector('[data-testid=start]').disabled`, 10*time.Second)
+	run(t, ctx, "0.5")
+	why := eval[string](t, ctx, `document.querySelector('[data-testid=why]').textContent`)
+	assert.Contains(t, why, "20 visits are late")
+	assert.Len(t, regexp.MustCompile(`S\d+ by `).FindAllString(why, -1), 12, why)
+	assert.Contains(t, why, "and 8 more, marked in the plan")
+	assert.Equal(t, 20, eval[int](t, ctx, `document.querySelectorAll('[data-testid=timeline] .visit.is-late').length`), "the timeline marks every one")
 }

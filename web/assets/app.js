@@ -607,6 +607,8 @@ function chart() {
   drawChart(state.history, state.budget, state.lastProgress ? state.lastProgress.elapsed : 0, state.model, state.plan && state.plan.objective === "completion");
 }
 
+const WHY_NAMES = 12;
+
 function showWhy(p) {
   const box = $("why");
   box.textContent = "";
@@ -616,12 +618,20 @@ function showWhy(p) {
   }
   box.hidden = false;
   const late = p.late || [];
+  // The first dozen by name; a list of hundreds buries the sentence (the
+  // timeline, the table and the exports mark every late visit).
+  const named = late.slice(0, WHY_NAMES).map((l) => l.id + " by " + duration(l.by, state.model, "ceil"));
+  if (late.length > WHY_NAMES) named.push("and " + (late.length - WHY_NAMES).toLocaleString() + " more, marked in the plan");
   let t = "No order found meets every window: " + plural(late.length, "visit is", "visits are") + " late (" +
-    late.map((l) => l.id + " by " + duration(l.by, state.model, "ceil")).join(", ") + "). The plan keeps " +
+    named.join(", ") + "). The plan keeps " +
     ($("fewest-late").checked ? "the number of late visits" : "the total lateness") + " as small as it could.";
   if (p.reason) t += " " + p.reason;
   box.appendChild(el("p", "", t));
-  if (p.conflict && p.conflict.length) box.appendChild(el("p", "", "These visits cannot all be on time together: " + p.conflict.join(", ") + "."));
+  if (p.conflict && p.conflict.length) {
+    const c = p.conflict.slice(0, WHY_NAMES);
+    if (p.conflict.length > WHY_NAMES) c.push("and " + (p.conflict.length - WHY_NAMES).toLocaleString() + " more");
+    box.appendChild(el("p", "", "These visits cannot all be on time together: " + c.join(", ") + "."));
+  }
 }
 
 function onProgress(m) {
