@@ -254,25 +254,36 @@ func (d *Decoder) object(value func(key []byte)) bool {
 		}
 		d.pos++
 		value(key)
-		if d.failed() {
-			return false
+		if more, ok := d.afterValue('}', "after object key:value pair"); !more {
+			return ok
 		}
 		d.skipSpace()
-		if d.pos >= len(d.data) {
-			d.eof()
-			return false
-		}
-		switch d.data[d.pos] {
-		case ',':
-			d.pos++
-			d.skipSpace()
-		case '}':
-			d.pos++
-			return true
-		default:
-			d.fail(d.data[d.pos], "after object key:value pair", d.pos+1)
-			return false
-		}
+	}
+}
+
+// afterValue reads what follows an object's member or an array's element
+// (what, in encoding/json's words for an error there): a comma (more) or
+// the closing byte (ok, the end); anything else, or a failure while the
+// value was read, is an error (neither).
+func (d *Decoder) afterValue(closing byte, what string) (more, ok bool) {
+	if d.failed() {
+		return false, false
+	}
+	d.skipSpace()
+	if d.pos >= len(d.data) {
+		d.eof()
+		return false, false
+	}
+	switch c := d.data[d.pos]; c {
+	case ',':
+		d.pos++
+		return true, false
+	case closing:
+		d.pos++
+		return false, true
+	default:
+		d.fail(c, what, d.pos+1)
+		return false, false
 	}
 }
 
@@ -301,23 +312,8 @@ func (d *Decoder) array(elem func()) bool {
 	}
 	for {
 		elem()
-		if d.failed() {
-			return false
-		}
-		d.skipSpace()
-		if d.pos >= len(d.data) {
-			d.eof()
-			return false
-		}
-		switch d.data[d.pos] {
-		case ',':
-			d.pos++
-		case ']':
-			d.pos++
-			return true
-		default:
-			d.fail(d.data[d.pos], "after array element", d.pos+1)
-			return false
+		if more, ok := d.afterValue(']', "after array element"); !more {
+			return ok
 		}
 	}
 }
