@@ -64,7 +64,8 @@ func loadBench(t testing.TB, k known) *solver.Instance {
 
 // reportOptions reads VISITLINE_BOUND_RELAX (the share of the time for the
 // penalty ascent), VISITLINE_BOUND_STATE (labels per state),
-// VISITLINE_BOUND_NG (the ng-neighbourhoods' size) and
+// VISITLINE_BOUND_NG (the ng-neighbourhoods' size), VISITLINE_BOUND_STAGE
+// (labels per stage of the exact search) and
 // VISITLINE_BOUND_NGMAX (the largest ng-neighbourhood
 // the ascent may grow to) for experiments; the default options otherwise.
 func reportOptions(t *testing.T) Options {
@@ -86,6 +87,11 @@ func reportOptions(t *testing.T) Options {
 	}
 	if os.Getenv("VISITLINE_BOUND_ELIM") == "1" {
 		o.ArcElimination = true
+	}
+	if v := os.Getenv("VISITLINE_BOUND_STAGE"); v != "" {
+		k, err := strconv.Atoi(v)
+		require.NoError(t, err)
+		o.StageLabels = k
 	}
 	if v := os.Getenv("VISITLINE_BOUND_NGMAX"); v != "" {
 		k, err := strconv.Atoi(v)
