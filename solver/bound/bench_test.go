@@ -65,7 +65,8 @@ func loadBench(t testing.TB, k known) *solver.Instance {
 // reportOptions reads VISITLINE_BOUND_RELAX (the share of the time for the
 // penalty ascent), VISITLINE_BOUND_STATE (labels per state),
 // VISITLINE_BOUND_NG (the ng-neighbourhoods' size), VISITLINE_BOUND_STAGE
-// (labels per stage of the exact search) and
+// and VISITLINE_BOUND_STAGEMAX (labels per stage of the exact search, and
+// how far a run with time left may double them) and
 // VISITLINE_BOUND_NGMAX (the largest ng-neighbourhood
 // the ascent may grow to) for experiments; the default options otherwise.
 func reportOptions(t *testing.T) Options {
@@ -92,6 +93,11 @@ func reportOptions(t *testing.T) Options {
 		k, err := strconv.Atoi(v)
 		require.NoError(t, err)
 		o.StageLabels = k
+	}
+	if v := os.Getenv("VISITLINE_BOUND_STAGEMAX"); v != "" {
+		k, err := strconv.Atoi(v)
+		require.NoError(t, err)
+		o.StageLabelsMax = k
 	}
 	if v := os.Getenv("VISITLINE_BOUND_NGMAX"); v != "" {
 		k, err := strconv.Atoi(v)

@@ -6,6 +6,7 @@ import (
 
 	"visitline/solver"
 	"visitline/solver/fmtlite"
+	"visitline/solver/turn"
 )
 
 // Options steer the bound computations. The zero value is useful: default
@@ -35,8 +36,13 @@ type Options struct {
 	TableLabels int
 	// StageLabels caps the labels of one stage of the exact search (default
 	// 2^19); a stage that needs more is cut to its best labels, which keeps
-	// the bound valid but gives up the proof.
-	StageLabels int
+	// the bound valid but gives up the proof. StageLabelsMax, when larger,
+	// lets a run with a deadline go on doubling the cap while the time left
+	// looks enough for the next run to finish (default 2^22 natively: 614
+	// MB at most over the published days of 20-100 nodes at 30 s, see
+	// docs/results.md; 2^19 under GOOS=js, where the page's memory is kept
+	// low).
+	StageLabels, StageLabelsMax int
 	// HistoryLabels caps the labels kept over all stages for rebuilding the
 	// route (default 2^25, about 270 MB).
 	HistoryLabels int
@@ -69,6 +75,10 @@ func (o Options) withDefaults() Options {
 	if o.StageLabels <= 0 {
 		o.StageLabels = 1 << 19
 	}
+	if o.StageLabelsMax <= 0 {
+		o.StageLabelsMax = defaultStageLabelsMax
+	}
+	o.StageLabelsMax = max(o.StageLabelsMax, o.StageLabels)
 	if o.HistoryLabels <= 0 {
 		o.HistoryLabels = 1 << 25
 	}
@@ -334,12 +344,15 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 		u, _ := b.ub(o)
 		return u
 	}
-	for beam := 256; ; beam *= 8 {
-		last := beam >= o.StageLabels
-		if last {
-			beam = o.StageLabels
-		}
-		r := runDP(sctx, p, dpConfig{kind: kind, beam: beam, maxHistory: o.HistoryLabels, rx: rx, ub: ubf, y: y})
+	// left is the time the exact search has left (in the budget's own
+	// clock: CPU time under WithCPUBudget).
+	left := func() time.Duration {
+		dl, _ := sctx.Deadline()
+		return time.Until(dl)
+	}
+	for beam := min(256, o.StageLabels); ; {
+		before := left()
+		r := runDP(sctx, p, dpConfig{kind: kind, beam: beam, maxHistory: o.HistoryLabels, boundOnly: true, rx: rx, ub: ubf, y: y})
 		b.Labels += r.labels
 		if !r.complete {
 			if sctx.Err() == nil {
@@ -352,6 +365,11 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 		}
 		u, has := b.ub(o)
 		lb := min(u, r.droppedLB)
+		if r.costOnly {
+			// Routes cheaper than u that could not be rebuilt: the
+			// least of them bounds the optimum as droppedLB does.
+			lb = min(lb, r.cost)
+		}
 		if !r.dropped && !has {
 			b.Infeasible = true
 			b.Method = "search"
@@ -367,16 +385,44 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 		if b.ProvenOptimal || sctx.Err() != nil {
 			break
 		}
-		if last {
+		if !timed {
+			// No deadline: the same steps from run to run, up to the cap.
+			if beam >= o.StageLabels {
+				break
+			}
+			beam = min(beam*8, o.StageLabels)
+			continue
+		}
+		if beam >= o.StageLabelsMax {
 			more(1)
 			break
 		}
+		spent := before - left()
 		if beam >= 2048 {
 			more(0.4)
-			if b.ProvenOptimal {
+			if b.ProvenOptimal || sctx.Err() != nil {
 				break
 			}
 		}
+		// The next run takes about as much longer as its cap is larger,
+		// and one cut short proves nothing: grow the cap eightfold, four-
+		// or twofold, as far as the time left looks enough for the run to
+		// finish (with as much again to spare). When it is not enough even
+		// for twice the cap, the penalty ascent may have all of it first,
+		// and the larger run gets what the ascent leaves (it stops early
+		// once it has nothing more to gain).
+		f := 8
+		for f > 1 && left() < time.Duration(f)*spent*2 {
+			f /= 2
+		}
+		if f == 1 {
+			more(1)
+			if b.ProvenOptimal || sctx.Err() != nil {
+				break
+			}
+			f = 2
+		}
+		beam = min(beam*f, o.StageLabelsMax)
 	}
 	return b
 }
@@ -491,6 +537,14 @@ func WithCPUBudget(parent context.Context, budget time.Duration, clock func() ti
 	}()
 	return c, cancel
 }
+
+// defaultStageLabelsMax is Options.StageLabelsMax's default.
+var defaultStageLabelsMax = func() int {
+	if turn.Enabled {
+		return 1 << 19
+	}
+	return 1 << 22
+}()
 
 // smallNG is the ng-neighbourhood size up to mediumN nodes.
 const smallNG = 6

@@ -27,11 +27,16 @@ type dpConfig struct {
 	// keeps the run's lower bound valid. 0 means no cap.
 	beam int
 	// maxHistory caps the labels kept over all stages for rebuilding the
-	// route; a run that needs more stops unfinished.
+	// route; a run that needs more stops unfinished, unless boundOnly.
 	maxHistory int
-	rx         *relax       // completion bounds; nil for none
-	ub         func() int64 // labels whose bound is ≥ ub() are pruned; nil for none
-	y          *yielder
+	// boundOnly lets a run whose history outgrows maxHistory while an
+	// upper bound is in force go on without it: it can no longer rebuild a
+	// route, but it still proves the bound (or finds the cost of a better
+	// route, reported in cost with found false and costOnly true).
+	boundOnly bool
+	rx        *relax       // completion bounds; nil for none
+	ub        func() int64 // labels whose bound is ≥ ub() are pruned; nil for none
+	y         *yielder
 }
 
 // dpResult is what one run found.
@@ -46,6 +51,10 @@ type dpResult struct {
 	droppedLB int64
 	complete  bool // ran to the end: not cancelled, not out of history
 	labels    int64
+	// costOnly says the run dropped its history on the way (boundOnly);
+	// when it reached the end, cost is the least cost of a complete route
+	// it met (inf for none) and route is nil.
+	costOnly bool
 }
 
 // layer is one finished stage in compact form: states with their sets and
@@ -501,11 +510,19 @@ func runDP(ctx context.Context, p *prob, cfg dpConfig) dpResult {
 		next := &layer{}
 		par, node := st.compact(next)
 		history += len(par)
-		if cfg.maxHistory > 0 && history > cfg.maxHistory {
-			return res
+		if !res.costOnly && cfg.maxHistory > 0 && history > cfg.maxHistory {
+			if !cfg.boundOnly || ubNow() >= inf {
+				return res
+			}
+			// Go on without the history: the bound is what this run is
+			// for, and the upper bound in force already has its route.
+			res.costOnly, res.cost = true, inf
+			histPar, histNode = nil, nil
 		}
-		histPar = append(histPar, par)
-		histNode = append(histNode, node)
+		if !res.costOnly {
+			histPar = append(histPar, par)
+			histNode = append(histNode, node)
+		}
 		if final {
 			// Pick the best complete route.
 			best, bestCost := -1, inf
@@ -517,6 +534,10 @@ func runDP(ctx context.Context, p *prob, cfg dpConfig) dpResult {
 						best, bestCost = int(l), c
 					}
 				}
+			}
+			if res.costOnly {
+				res.cost, res.complete = bestCost, true
+				return res
 			}
 			route := make([]int, n)
 			for kk, l := n-1, best; kk >= 0; kk-- {

@@ -177,3 +177,39 @@ func checkAgainstEnumerationWith(t *testing.T, name string, in *solver.Instance,
 		require.LessOrEqual(t, l.StateSpace, wantCost, "%s: state-space bound", name)
 	}
 }
+
+func TestDPWithoutHistoryStillBounds(t *testing.T) {
+	// A run whose route history outgrows its cap while an upper bound is in
+	// force goes on without it (boundOnly): with the optimum as the upper
+	// bound it ends with no route cheaper and nothing dropped (the proof);
+	// with one more, it finds the optimum's cost, the route it can no
+	// longer rebuild left out. Without boundOnly the run stops unfinished.
+	rng := rand.New(rand.NewSource(23))
+	checked := 0
+	for c := 0; c < 30; c++ {
+		in := randomInstance(rng, 7+c%3, []int64{40, 120, 5000}[c%3], shapes[c%3])
+		_, opt, ok := Enumerate(in, solver.TravelTime)
+		if !ok {
+			continue
+		}
+		p := newProb(in)
+		run := func(u int64, boundOnly bool) dpResult {
+			return runDP(context.Background(), p, dpConfig{kind: dpTravel, maxHistory: 2, boundOnly: boundOnly,
+				ub: func() int64 { return u }})
+		}
+		r := run(opt, true)
+		require.True(t, r.complete, "case %d", c)
+		require.True(t, r.costOnly, "case %d", c)
+		require.False(t, r.dropped, "case %d", c)
+		require.False(t, r.found, "case %d", c)
+		require.Equal(t, int64(inf), r.cost, "case %d: nothing is cheaper than the optimum", c)
+		r = run(opt+1, true)
+		require.True(t, r.complete && r.costOnly && !r.found, "case %d", c)
+		require.Nil(t, r.route, "case %d", c)
+		require.Equal(t, opt, r.cost, "case %d: the optimum's cost", c)
+		r = run(opt+1, false)
+		require.False(t, r.complete, "case %d: out of history", c)
+		checked++
+	}
+	require.Greater(t, checked, 10)
+}
