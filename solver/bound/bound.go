@@ -22,7 +22,8 @@ type Options struct {
 	Iterations int
 	// StateLabels caps the labels of one state of the relaxation; beyond it,
 	// labels are merged into optimistic ones (default 128 up to 120 nodes,
-	// 64 up to 250, 32 above: larger tables converge too slowly to pay).
+	// 64 up to 250, or 256 there with 20 s or more to run, 32 above:
+	// larger tables converge too slowly to pay in a short budget).
 	StateLabels int
 	// Neighbours is the size of the ng-route neighbourhoods of the
 	// relaxation, each node counted in its own (default 6 up to 250 nodes,
@@ -187,7 +188,8 @@ func Exact(ctx context.Context, in *solver.Instance, o Options) Bound {
 // runPhases computes the bounds under ctx and then, when exact, runs the
 // exact search under sctx (which ends no later than ctx).
 func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact bool) Bound {
-	if o.StateLabels <= 0 && in.N > largeN {
+	autoLabels := o.StateLabels <= 0
+	if autoLabels && in.N > largeN {
 		// Measured on the published days of 151-201 nodes: 64 gave better
 		// bounds than 32 at 10 CPU s (docs/results.md); larger days keep 32,
 		// untested beyond, and their tables are cut down anyway.
@@ -195,6 +197,13 @@ func runPhases(ctx, sctx context.Context, in *solver.Instance, o Options, exact 
 		if in.N <= mediumN {
 			o.StateLabels = 64
 		}
+	}
+	if dl, ok := ctx.Deadline(); ok && autoLabels && in.N <= mediumN && time.Until(dl) >= longBudget {
+		// With 20 s or more, finer tables pay: 256 labels per state gave
+		// better bounds at 30 CPU s on the OhlmannThomas and
+		// GendreauDumasExtended days, and worse at 10 (docs/results.md,
+		// session 6).
+		o.StateLabels = 256
 	}
 	if o.Neighbours <= 0 && in.N <= mediumN {
 		// With the states cut to the route indices each node can take,
@@ -545,6 +554,10 @@ var defaultStageLabelsMax = func() int {
 	}
 	return 1 << 22
 }()
+
+// longBudget is the time from which days of largeN to mediumN nodes get
+// finer relaxation tables.
+const longBudget = 20 * time.Second
 
 // smallNG is the ng-neighbourhood size up to mediumN nodes.
 const smallNG = 6

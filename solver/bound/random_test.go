@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math/rand"
 	"testing"
+	"time"
 
 	"github.com/stretchr/testify/require"
 
@@ -113,6 +114,25 @@ func TestExactMatchesEnumeration(t *testing.T) {
 	require.Less(t, feasible, count, "some generated instances should be infeasible")
 }
 
+func TestExactWithALongDeadlineMatchesEnumeration(t *testing.T) {
+	// With a deadline of 20 s or more the exact search takes other steps
+	// (finer relaxation tables, the labels per stage grown past their cap
+	// as far as the time left allows, the penalty ascent given time between
+	// runs): the same optimum. No ng-memories, one penalty step to begin
+	// with and a cap of 2 labels per stage leave the relaxation weak and
+	// make the first runs drop labels, so that the growth past the cap is
+	// what proves these days (in milliseconds: the deadline is never
+	// reached).
+	rng := rand.New(rand.NewSource(31))
+	for c := 0; c < 36; c++ {
+		n := 6 + c%5
+		in := randomInstance(rng, n, []int64{10, 40, 120, 5000}[c%4], shapes[c%3])
+		ctx, cancel := context.WithTimeout(context.Background(), time.Minute)
+		checkAgainstEnumerationCtx(t, ctx, fmt.Sprintf("deadline %d", c), in, Options{Objective: solver.Objective(c / 18), StageLabels: 2, Neighbours: 1, Iterations: 1})
+		cancel()
+	}
+}
+
 func TestExactMatchesEnumerationWithPins(t *testing.T) {
 	rng := rand.New(rand.NewSource(11))
 	for c := 0; c < 40; c++ {
@@ -145,9 +165,15 @@ func checkAgainstEnumeration(t *testing.T, name string, in *solver.Instance, obj
 // checkAgainstEnumerationWith is checkAgainstEnumeration with options.
 func checkAgainstEnumerationWith(t *testing.T, name string, in *solver.Instance, o Options) {
 	t.Helper()
+	checkAgainstEnumerationCtx(t, context.Background(), name, in, o)
+}
+
+// checkAgainstEnumerationCtx is checkAgainstEnumerationWith under ctx.
+func checkAgainstEnumerationCtx(t *testing.T, ctx context.Context, name string, in *solver.Instance, o Options) {
+	t.Helper()
 	obj := o.Objective
 	want, wantCost, ok := Enumerate(in, obj)
-	b := Exact(context.Background(), in, o)
+	b := Exact(ctx, in, o)
 	for _, note := range b.Notes {
 		require.NotContains(t, note, "internal error", name)
 	}
