@@ -38,8 +38,8 @@ type Options struct {
 	// StageLabels caps the labels of one stage of the exact search (default
 	// 2^19); a stage that needs more is cut to its best labels, which keeps
 	// the bound valid but gives up the proof. StageLabelsMax, when larger,
-	// lets a run with a deadline go on doubling the cap while the time left
-	// looks enough for the next run to finish (default 2^22 natively: 614
+	// lets a run with a deadline go on growing the cap (eight-, four- or
+	// twofold) while the time left looks enough for the next run to finish (default 2^22 natively: 614
 	// MB at most over the published days of 20-100 nodes at 30 s, see
 	// docs/results.md; 2^19 under GOOS=js, where the page's memory is kept
 	// low).
@@ -555,8 +555,8 @@ var defaultStageLabelsMax = func() int {
 	return 1 << 22
 }()
 
-// longBudget is the time from which days of largeN to mediumN nodes get
-// finer relaxation tables.
+// longBudget is the time from which days of up to mediumN nodes get finer
+// relaxation tables.
 const longBudget = 20 * time.Second
 
 // smallNG is the ng-neighbourhood size up to mediumN nodes.
