@@ -39,10 +39,10 @@ type Options struct {
 	// 2^19); a stage that needs more is cut to its best labels, which keeps
 	// the bound valid but gives up the proof. StageLabelsMax, when larger,
 	// lets a run with a deadline go on growing the cap (eight-, four- or
-	// twofold) while the time left looks enough for the next run to finish (default 2^22 natively: 614
-	// MB at most over the published days of 20-100 nodes at 30 s, see
-	// docs/results.md; 2^19 under GOOS=js, where the page's memory is kept
-	// low).
+	// twofold) while the time left looks enough for the next run to
+	// finish (default 2^22 natively: 614 MB at most over the published
+	// days of 20-100 nodes at 30 s, see docs/results.md; 2^19 under
+	// GOOS=js, where the page's memory is kept low).
 	StageLabels, StageLabelsMax int
 	// HistoryLabels caps the labels kept over all stages for rebuilding the
 	// route (default 2^25, about 270 MB).
